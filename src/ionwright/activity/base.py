@@ -1,0 +1,85 @@
+"""The common interface of activity models, vectorised over a batch of samples.
+
+A model is prepared once for a set of species and a batch of temperatures; the bound
+model then returns natural-log activity coefficients for every sample and species.
+Models whose coefficients depend only on ionic strength also return the derivative with
+respect to u = √I, which lets the solver keep ionic strength inside the Newton step.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field, replace
+from typing import Protocol
+
+import numpy as np
+
+LN10 = np.log(10.0)
+
+
+@dataclass(frozen=True)
+class SpeciesProperties:
+    """What activity models may know about each species, as arrays over species."""
+
+    names: tuple[str, ...]
+    charge: np.ndarray            # (s,)
+    ion_size: np.ndarray          # (s,) Å, NaN where unknown (Kielland å)
+    tj_a: np.ndarray              # (s,) Å, NaN where unknown
+    tj_b: np.ndarray              # (s,) kg/mol, NaN where unknown
+    setschenow: np.ndarray        # (s,) kg/mol, 0 where unknown (neutral species)
+
+
+class BoundModel(Protocol):
+    """An activity model bound to species and per-sample temperatures."""
+
+    depends_on_ionic_strength_only: bool
+    notes: list[str]
+    t_C: np.ndarray
+
+    def ln_gamma(self, u: np.ndarray, molality: np.ndarray | None = None) -> np.ndarray:
+        """ln γ, shape (n, s), at u = √I of shape (n,)."""
+
+    def d_ln_gamma_du(self, u: np.ndarray) -> np.ndarray:
+        """∂ ln γ / ∂u, shape (n, s); only for models of ionic strength alone."""
+
+    def ln_water_activity(self, molality: np.ndarray) -> np.ndarray | None:
+        """ln a(H2O) of shape (n,), or None when the model takes a(H2O) = 1."""
+
+    def take(self, rows: np.ndarray) -> "BoundModel":
+        """The model restricted to samples *rows*."""
+
+
+class ActivityModel(Protocol):
+    """A named activity model with a stated range of validity."""
+
+    name: str
+    title: str
+    max_ionic_strength: float
+    reference: str
+
+    def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> BoundModel:
+        """Prepare the model for *species* at temperatures *t_C* (°C, shape (n,))."""
+
+
+@dataclass
+class IonicStrengthModel:
+    """Base for models of the form ln γ_i = f_i(√I, T); subclasses give f and ∂f/∂u."""
+
+    species: SpeciesProperties
+    t_C: np.ndarray
+    notes: list[str] = field(default_factory=list)
+    depends_on_ionic_strength_only: bool = True
+    per_sample = ("t_C",)  # fields sliced by take(); subclasses add theirs
+
+    def ln_water_activity(self, molality: np.ndarray) -> None:
+        return None
+
+    def take(self, rows: np.ndarray) -> "IonicStrengthModel":
+        """The same model for the samples *rows* only (per-sample arrays are sliced)."""
+        return replace(self, **{name: getattr(self, name)[rows] for name in self.per_sample})
+
+    def _neutral(self, u: np.ndarray) -> np.ndarray:
+        """Setschenow term ln10·b·I for neutral species (zero where b unknown)."""
+        return LN10 * self.species.setschenow[None, :] * (u * u)[:, None]
+
+    def _d_neutral(self, u: np.ndarray) -> np.ndarray:
+        return LN10 * self.species.setschenow[None, :] * (2.0 * u)[:, None]

@@ -1,0 +1,66 @@
+"""From a recipe to a result: tables, component totals, system, activity model, solve."""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Any, Mapping
+
+import numpy as np
+
+from . import solver
+from .errors import ConvergenceError, RecipeError
+from .ingredients import Makeup, makeup
+from .plugins import Registry, default_registry
+from .recipe import Recipe, read_recipe
+from .result import Result
+from .system import PROTON, WATER, compile_system
+from .tables.tableset import TableSet
+
+
+def load_tables(names: tuple[str, ...] | list[str], registry: Registry | None = None) -> TableSet:
+    """Merge the tables called (or found at) *names*, later ones overriding earlier ones."""
+    registry = registry or default_registry()
+    return TableSet([registry.table(name) for name in names])
+
+
+def component_totals(recipe: Recipe, tables: TableSet) -> tuple[dict[str, float], list[Makeup]]:
+    """Total mol/kg of every component the recipe's ingredients bring, and their makeups."""
+    totals: dict[str, float] = {}
+    makeups = []
+    for name, amount in recipe.dissolve:
+        made = makeup(name, tables)
+        makeups.append(made)
+        for comp, nu in made.per_mole.items():
+            totals[comp] = totals.get(comp, 0.0) + nu * amount
+    totals.pop(WATER, None)
+    totals.setdefault(PROTON, 0.0)
+    return totals, makeups
+
+
+def solve(recipe: str | Path | Mapping[str, Any] | Recipe,
+          registry: Registry | None = None) -> Result:
+    """Speciate one recipe; raise :class:`ConvergenceError` rather than return a bad answer."""
+    recipe = read_recipe(recipe)
+    registry = registry or default_registry()
+    model = registry.model(recipe.activity_model)
+    tables = load_tables(recipe.tables, registry)
+    totals, makeups = component_totals(recipe, tables)
+    negative = [c for c, v in totals.items() if c != PROTON and v < 0]
+    if negative:
+        raise RecipeError(f"{recipe.origin} [dissolve]", f"the ingredients give a negative "
+                          f"total of {', '.join(negative)}", "check the amounts")
+    present = [c for c, v in totals.items() if v > 0 and c != PROTON]
+    system = compile_system(tables, present)
+    t = np.array([recipe.temperature_C])
+    vector = np.array([[totals.get(c, 0.0) for c in system.components]])
+    fixed = np.full_like(vector, np.nan)
+    if "pH" in recipe.fix:
+        fixed[0, 0] = -recipe.fix["pH"]
+    bound = model.bind(system.properties, t)
+    eq = solver.solve(system, vector, bound, fixed)
+    if eq.status[0] != "converged":
+        raise ConvergenceError(str(eq.status[0]), int(eq.iterations[0]), float(eq.residual[0]),
+                               f"recipe {recipe.origin}")
+    return Result(recipe=recipe, tables=tables, system=system, model=model,
+                  equilibrium=eq, totals=totals, makeups=makeups,
+                  notes=[*eq.notes, *system.temperature_notes(t)])

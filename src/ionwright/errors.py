@@ -1,0 +1,114 @@
+"""Exception classes of ionwright.
+
+Every error a user can cause derives from :class:`IonwrightError`; concrete errors also
+inherit the builtin they resemble so that ``except ValueError`` keeps working (the
+ionwright base comes first so that its message format wins over, e.g., KeyError's quoting). Each
+keeps its fields, builds its message in ``__str__`` and pickles (batch workers send them
+between processes).
+"""
+
+from __future__ import annotations
+
+import difflib
+from collections.abc import Iterable
+
+
+def close_matches(name: str, choices: Iterable[str], n: int = 3) -> list[str]:
+    """Names among *choices* that look like *name* (case-insensitive), best first."""
+    choices = list(choices)
+    lowered = {c.lower(): c for c in choices}
+    hits = difflib.get_close_matches(name.lower(), list(lowered), n=n, cutoff=0.6)
+    return [lowered[h] for h in hits]
+
+
+class IonwrightError(Exception):
+    """Root of all errors raised by ionwright for bad input or unsolvable problems."""
+
+    def __init__(self, message: str = "", hint: str = "") -> None:
+        super().__init__(message, hint)
+        self.message = message
+        self.hint = hint
+
+    def __str__(self) -> str:
+        return f"{self.message}\n  hint: {self.hint}" if self.hint else self.message
+
+    def __reduce__(self):  # keep the subclass and both fields when pickled
+        return (_rebuild, (type(self), self.__dict__))
+
+
+def _rebuild(cls, state):
+    obj = cls.__new__(cls)
+    Exception.__init__(obj, state.get("message", ""), state.get("hint", ""))
+    obj.__dict__.update(state)
+    return obj
+
+
+class FormulaError(IonwrightError, ValueError):
+    """A chemical formula could not be read."""
+
+    def __init__(self, text: str, position: int, problem: str) -> None:
+        marker = " " * position + "^"
+        super().__init__(
+            f"cannot read formula {text!r}: {problem}\n    {text}\n    {marker}",
+            "write charges as Ca+2 or CO3-2, hydrates as MgSO4·7H2O, phases as (aq), (g), (s)",
+        )
+        self.text, self.position, self.problem = text, position, problem
+
+
+class TableError(IonwrightError, ValueError):
+    """A constant table is malformed; lists every problem found, not only the first."""
+
+    def __init__(self, origin: str, problems: list[str]) -> None:
+        lines = "\n".join(f"  - {p}" for p in problems)
+        super().__init__(
+            f"constant table {origin} has {len(problems)} problem(s):\n{lines}",
+            "fix the entries above; `ionwright tables check FILE` re-checks a file",
+        )
+        self.origin, self.problems = origin, problems
+
+
+class RecipeError(IonwrightError, ValueError):
+    """A recipe asks for something that cannot be done; names the key at fault."""
+
+    def __init__(self, where: str, problem: str, hint: str = "") -> None:
+        super().__init__(f"recipe {where}: {problem}", hint)
+        self.where, self.problem = where, problem
+
+
+class UnknownNameError(IonwrightError, KeyError):
+    """A name (ingredient, species, model, table, solid, gas) is not known."""
+
+    def __init__(self, kind: str, name: str, known: Iterable[str], listing: str = "") -> None:
+        known = sorted(known)
+        near = close_matches(name, known)
+        hint = f"did you mean {', '.join(repr(n) for n in near)}?" if near else ""
+        if listing:
+            hint = f"{hint} {listing}".strip()
+        super().__init__(f"unknown {kind} {name!r}", hint)
+        self.kind, self.name, self.suggestions = kind, name, near
+
+
+class ConvergenceError(IonwrightError, ArithmeticError):
+    """The solver did not reach the stated tolerances; carries the diagnostics."""
+
+    def __init__(self, status: str, iterations: int, residual: float, detail: str = "") -> None:
+        super().__init__(
+            f"solver stopped with status {status!r} after {iterations} iterations; "
+            f"worst relative mass-balance residual {residual:.3g} (tolerance 1e-10)"
+            + (f"; {detail}" if detail else ""),
+            "check that the totals are physically possible (e.g. a fixed pH with "
+            "an impossible charge), or try another activity model",
+        )
+        self.status, self.iterations, self.residual, self.detail = (
+            status, iterations, residual, detail)
+
+
+class PluginError(IonwrightError, RuntimeError):
+    """A plugin failed to load or returned something malformed; names the plugin."""
+
+    def __init__(self, plugin: str, problem: str) -> None:
+        super().__init__(
+            f"plugin {plugin!r}: {problem}",
+            "fix or uninstall the plugin, or run with IONWRIGHT_NO_PLUGINS=1",
+        )
+        self.plugin, self.problem = plugin, problem

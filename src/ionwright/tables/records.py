@@ -1,0 +1,178 @@
+"""Frozen records of a constant table: components, species, solids, gases, reagents.
+
+The records know nothing about TOML; :mod:`ionwright.tables.loader` builds them. Each
+record validates its own fields on construction and raises :class:`TableError`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from types import MappingProxyType
+from typing import Mapping
+
+from ..errors import TableError
+
+#: Plausible ranges for the physical fields; values outside are almost always unit slips.
+DELTA_H_LIMIT_KJ = 500.0
+DELTA_CP_LIMIT_J = 2000.0
+ION_SIZE_LIMIT_A = 15.0
+RANGE_LIMIT_C = (-10.0, 400.0)
+
+
+def frozen_map(mapping: Mapping[str, float] | None) -> Mapping[str, float]:
+    """A read-only copy of *mapping* (empty when None)."""
+    return MappingProxyType(dict(mapping or {}))
+
+
+@dataclass(frozen=True)
+class LogK:
+    """log10 K of one reaction at 25 °C and how it changes with temperature.
+
+    ``analytic`` (a, b, c, d, e) means log10 K = a + bT + c/T + d log10 T + e/T²
+    and takes precedence over ``delta_h`` (kJ/mol) and ``delta_cp`` (J/(mol K)).
+    """
+
+    log_k: float
+    delta_h: float | None = None
+    delta_cp: float | None = None
+    analytic: tuple[float, ...] | None = None
+    range_C: tuple[float, float] | None = None
+    uncertainty: float | None = None
+
+    def problems(self, where: str) -> list[str]:
+        """Every out-of-range or inconsistent field, as messages naming *where*."""
+        out = []
+        if self.delta_h is not None and abs(self.delta_h) > DELTA_H_LIMIT_KJ:
+            out.append(f"{where}: delta_h = {self.delta_h} kJ/mol is outside "
+                       f"±{DELTA_H_LIMIT_KJ:g}; is it in J/mol? delta_h is in kJ/mol")
+        if self.delta_cp is not None:
+            if abs(self.delta_cp) > DELTA_CP_LIMIT_J:
+                out.append(f"{where}: delta_cp = {self.delta_cp} J/(mol K) is outside "
+                           f"±{DELTA_CP_LIMIT_J:g}")
+            if self.delta_h is None:
+                out.append(f"{where}: delta_cp needs delta_h as well")
+        if self.analytic is not None and not 1 <= len(self.analytic) <= 5:
+            out.append(f"{where}: analytic needs 1 to 5 coefficients [a, b, c, d, e], "
+                       f"got {len(self.analytic)}")
+        if self.range_C is not None:
+            lo, hi = self.range_C
+            if not (RANGE_LIMIT_C[0] <= lo < hi <= RANGE_LIMIT_C[1]):
+                out.append(f"{where}: range_C = {list(self.range_C)} must be two ordered "
+                           f"temperatures in °C within {list(RANGE_LIMIT_C)}")
+        if self.uncertainty is not None and self.uncertainty < 0:
+            out.append(f"{where}: uncertainty = {self.uncertainty} must be ≥ 0")
+        return out
+
+    @property
+    def method(self) -> str:
+        """Name of the temperature description this record carries."""
+        if self.analytic is not None:
+            return "analytic"
+        if self.delta_cp is not None:
+            return "van 't Hoff + ΔCp°"
+        if self.delta_h is not None:
+            return "van 't Hoff"
+        return "none (25 °C value)"
+
+
+@dataclass(frozen=True)
+class Component:
+    """A basis entity that species are formed from (H+, H2O, Ca+2, CO3-2, Tris …)."""
+
+    name: str
+    formula: str
+    charge: int
+    elements: Mapping[str, float]
+    table: str
+    source: str
+    ion_size: float | None = None
+    tj_a: float | None = None
+    tj_b: float | None = None
+    from_memory: bool = False
+    note: str = ""
+
+    def __post_init__(self) -> None:
+        _check_sizes(self.table, f"component {self.name!r}", self.ion_size, self.tj_a)
+
+
+@dataclass(frozen=True)
+class Species:
+    """An aqueous species formed from components (or earlier species) by ``reaction``."""
+
+    name: str
+    formula: str
+    charge: int
+    elements: Mapping[str, float]
+    reaction: Mapping[str, float]
+    logk: LogK
+    table: str
+    source: str
+    ion_size: float | None = None
+    tj_a: float | None = None
+    tj_b: float | None = None
+    setschenow: float | None = None
+    from_memory: bool = False
+    note: str = ""
+
+    def __post_init__(self) -> None:
+        _check_sizes(self.table, f"species {self.name!r}", self.ion_size, self.tj_a)
+        if self.setschenow is not None and self.charge != 0:
+            raise TableError(self.table, [f"species {self.name!r}: setschenow applies to "
+                                          f"neutral species only (charge {self.charge:+d})"])
+
+
+@dataclass(frozen=True)
+class Phase:
+    """A solid or a gas: its reaction into aqueous components and log10 K."""
+
+    kind: str  # "solid" or "gas"
+    name: str
+    formula: str
+    elements: Mapping[str, float]
+    reaction: Mapping[str, float]
+    logk: LogK
+    table: str
+    source: str
+    from_memory: bool = False
+    note: str = ""
+
+
+@dataclass(frozen=True)
+class Reagent:
+    """A named ingredient: its formula and what it puts into solution per mole."""
+
+    name: str
+    formula: str
+    elements: Mapping[str, float]
+    makes: Mapping[str, float] | None
+    table: str
+    source: str
+    aliases: tuple[str, ...] = ()
+    note: str = ""
+
+
+@dataclass(frozen=True)
+class ConstantTable:
+    """One loaded table: its header, sources and entries keyed by name."""
+
+    name: str
+    origin: str
+    about: Mapping[str, object]
+    sources: Mapping[str, str]
+    components: Mapping[str, Component]
+    species: Mapping[str, Species]
+    solids: Mapping[str, Phase]
+    gases: Mapping[str, Phase]
+    reagents: Mapping[str, Reagent]
+    counts: Mapping[str, int] = field(default_factory=dict)
+
+    def citation(self, key: str) -> str:
+        """Full citation for a source key (the key itself if it is a literal citation)."""
+        return self.sources.get(key, key)
+
+
+def _check_sizes(table: str, where: str, *sizes: float | None) -> None:
+    bad = [s for s in sizes if s is not None and not 0.0 < s <= ION_SIZE_LIMIT_A]
+    if bad:
+        raise TableError(table, [f"{where}: ion size {bad[0]} Å must be in (0, "
+                                 f"{ION_SIZE_LIMIT_A:g}] Å"])
