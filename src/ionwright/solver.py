@@ -66,6 +66,7 @@ class _Problem:
     free: np.ndarray        # (c,) bool
     ln_k: np.ndarray        # (n, s)
     totals: np.ndarray      # (n, f)
+    full_totals: np.ndarray  # (n, c)
     fixed_y: np.ndarray     # (n, c) ln a for fixed components (ignored where free)
     scale_floor: np.ndarray  # (n, f)
     u_max: np.ndarray       # (n,)
@@ -89,11 +90,10 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     problem = _Problem(
         nu=system.nu, nu_free=system.nu[:, free], nu_water=system.nu_water,
         z2=system.charge ** 2, free=free, ln_k=LN10 * system.log10_k(t_C),
-        totals=totals[:, free], fixed_y=np.nan_to_num(LN10 * fixed),
+        totals=totals[:, free], full_totals=totals, fixed_y=np.nan_to_num(LN10 * fixed),
         scale_floor=np.maximum(np.abs(totals[:, free]), 1e-300),
         u_max=np.sqrt(_ionic_strength_ceiling(system, totals)))
-    y = _initial_guess(problem, totals)
-    u = np.zeros(n)
+    y, u = _initial_guess(problem, bound)
     status = np.full(n, "max-iterations", dtype=object)
     iterations = np.zeros(n, dtype=int)
     infeasible = _infeasible(system, totals, free)
@@ -130,11 +130,66 @@ def _infeasible(system: ChemicalSystem, totals: np.ndarray, free: np.ndarray) ->
     return np.any(totals[:, check] <= 0.0, axis=1) | ~np.all(np.isfinite(totals), axis=1)
 
 
-def _initial_guess(problem: _Problem, totals: np.ndarray) -> np.ndarray:
-    """ln a: the total for each free component, 1e-7 for H+, the fixed value where fixed."""
-    y = np.log(np.maximum(np.abs(totals), 1e-20)) - 1.0
-    y[:, 0] = np.log(1e-7)
-    return np.where(problem.free[None, :], y, problem.fixed_y)
+def _initial_guess(problem: _Problem, bound: BoundModel) -> tuple[np.ndarray, np.ndarray]:
+    """Cheap start: acid–base only proton balance, bracketed on a pH grid and bisected.
+
+    Complexes of two or more components are ignored and each other component takes the
+    free activity its own protonation series allows; the proton balance of that reduced
+    problem is monotone in ln a(H+), so a grid and a few bisections find it. Returns
+    (y, u) with u = √I of the guess.
+    """
+    n = problem.ln_k.shape[0]
+    nu = problem.nu
+    u0 = np.sqrt(np.minimum(0.5 * problem.u_max ** 2 / 1.5, 0.5 * problem.u_max ** 2))
+    base = problem.ln_k - bound.ln_gamma(u0)                       # (n, s)
+    others = nu[:, 1:] != 0
+    lone = (others.sum(axis=1) == 1) & (np.abs(nu[:, 1:]).max(axis=1, initial=0) == 1)
+    proton_only = ~others.any(axis=1)
+    owner = (np.where(lone, np.argmax(others, axis=1) + 1, -1) if others.shape[1]
+             else np.full(nu.shape[0], -1))
+    ln_tot = np.log(np.maximum(problem.full_totals, 1e-300))       # (n, c)
+
+    def balance(h: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """Proton-balance residual and y at ln a(H+) = h, for h of shape (n, ...)."""
+        lnw = base[:, None, :] + h[..., None] * nu[None, None, :, 0]     # (n, g, s)
+        y = np.repeat(h[..., None], nu.shape[1], axis=-1).copy()
+        for j in range(1, nu.shape[1]):
+            members = owner == j
+            if members.any():
+                y[..., j] = ln_tot[:, None, j] - _logsumexp(lnw[..., members])
+            else:
+                y[..., j] = ln_tot[:, None, j]
+        keep = lone | proton_only
+        lnc = lnw[..., keep] + np.einsum("ngc,sc->ngs", y[..., 1:], nu[keep][:, 1:])
+        r = np.exp(np.minimum(lnc, LN_C_CEILING)) @ nu[keep, 0] - problem.full_totals[:, None, 0]
+        return r, y
+
+    if not problem.free[0]:
+        h = problem.fixed_y[:, 0]
+    else:
+        grid = np.linspace(np.log(1e-16), np.log(10.0), 36)
+        r, _ = balance(np.broadcast_to(grid, (n, grid.size)))
+        above = r > 0
+        first = np.where(above.any(axis=1), np.argmax(above, axis=1), grid.size - 1)
+        lo = grid[np.maximum(first - 1, 0)]
+        hi = grid[first]
+        for _ in range(12):
+            mid = 0.5 * (lo + hi)
+            rm, _ = balance(mid[:, None])
+            up = rm[:, 0] > 0
+            hi, lo = np.where(up, mid, hi), np.where(up, lo, mid)
+        h = 0.5 * (lo + hi)
+    _, y = balance(h[:, None])
+    y = y[:, 0, :]
+    y = np.where(problem.free[None, :], y, problem.fixed_y)
+    conc = np.exp(np.minimum(base + y @ nu.T, LN_C_CEILING))
+    u = np.sqrt(np.clip(0.5 * conc @ problem.z2, 0.0, problem.u_max ** 2))
+    return y, u
+
+
+def _logsumexp(a: np.ndarray) -> np.ndarray:
+    peak = np.max(a, axis=-1, keepdims=True)
+    return (peak + np.log(np.sum(np.exp(a - peak), axis=-1, keepdims=True)))[..., 0]
 
 
 def _state(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
