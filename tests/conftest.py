@@ -56,6 +56,12 @@ MINI_TABLE = textwrap.dedent('''
 
 
 @pytest.fixture
+def mini_text() -> str:
+    """TOML text of the small acid-base test table."""
+    return MINI_TABLE
+
+
+@pytest.fixture
 def mini_table_path(tmp_path):
     path = tmp_path / "mini.toml"
     path.write_text(MINI_TABLE, encoding="utf-8")

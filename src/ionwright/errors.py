@@ -112,3 +112,35 @@ class PluginError(IonwrightError, RuntimeError):
             "fix or uninstall the plugin, or run with IONWRIGHT_NO_PLUGINS=1",
         )
         self.plugin, self.problem = plugin, problem
+
+
+class BrokenPluginError(PluginError):
+    """Plugins or in-house table files failed; ionwright refuses to solve until each is
+    fixed or excluded explicitly. Lists every failure, not only the first."""
+
+    def __init__(self, problems: list[tuple[str, str]]) -> None:
+        names = list(dict.fromkeys(plugin for plugin, _ in problems))
+        lines = "\n".join(f"  - {plugin}: {problem}" for plugin, problem in problems)
+        IonwrightError.__init__(
+            self, f"{len(problems)} plugin problem(s); ionwright does not solve with a broken "
+            f"plugin or table file:\n{lines}",
+            f"fix or uninstall it, or exclude it explicitly with "
+            f"IONWRIGHT_EXCLUDE_PLUGINS={','.join(names)} (IONWRIGHT_NO_PLUGINS=1 turns every "
+            f"third-party plugin and the per-user tables folder off)")
+        self.plugin, self.problem, self.problems = ", ".join(names), lines, problems
+
+
+class PluginConflictError(PluginError):
+    """Two plugins or table files register the same name under the 'raise' conflict policy."""
+
+    def __init__(self, kind: str, name: str, first: str, second: str) -> None:
+        IonwrightError.__init__(
+            self, f"{kind} {name!r} is registered by both {first} and {second}",
+            "rename or exclude one of them (IONWRIGHT_EXCLUDE_PLUGINS=NAME), or set "
+            "IONWRIGHT_PLUGIN_CONFLICTS=warn to let the later one win with a warning")
+        self.plugin, self.problem = second, f"{kind} {name!r} also registered by {first}"
+        self.kind, self.name, self.first, self.second = kind, name, first, second
+
+
+class PluginConflictWarning(UserWarning):
+    """A name registered twice under the 'warn' conflict policy: the later one wins."""

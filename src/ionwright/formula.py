@@ -86,7 +86,10 @@ _TRAILING_DIGITS = re.compile(r"[0-9]+$")
 
 def _hill_key(symbols: Iterable[str]):
     """Sort key of the Hill system: C, then H, then the rest alphabetically; without
-    carbon, everything alphabetically (Hill 1900, J. Am. Chem. Soc. 22, 478)."""
+    carbon, everything alphabetically.
+
+    References: Hill, E.A. (1900) J. Am. Chem. Soc. 22, 478–494 (citation from memory).
+    """
     first = {"C": 0, "H": 1} if "C" in symbols else {}
     return lambda symbol: (first.get(symbol, 2), symbol)
 

@@ -254,7 +254,7 @@ def test_no_molar_mass_without_standard_weight() -> None:
     radium = parse_formula("Ra+2")
     assert radium.charge == 2
     with pytest.raises(FormulaError, match="no standard atomic weight") as caught:
-        radium.molar_mass
+        _ = radium.molar_mass
     assert caught.value.position == 0
 
 
