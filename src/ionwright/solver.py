@@ -25,7 +25,9 @@ from .activity.base import BoundModel
 from .system import ChemicalSystem
 
 LN10 = np.log(10.0)
-RESIDUAL_TOLERANCE = 1e-10     # relative mass-balance residual that counts as converged
+RESIDUAL_TOLERANCE = 1e-12     # relative mass-balance residual the iterations aim for
+PROMISED_TOLERANCE = 1e-10     # what a converged result guarantees (see solve)
+STEP_TOLERANCE = 1e-8         # a last Newton step this small leaves round-off only
 STEP_CAP = 4.0                 # largest change of any ln a in one Newton step
 LN_C_CEILING = 300.0           # keeps exp() finite on wild iterates
 FAST_ITERATIONS = 60
@@ -111,6 +113,7 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     residual = _relative_residual(problem, conc, np.arange(n))
     bad = ~np.all(np.isfinite(conc), axis=1) | ~np.isfinite(residual)
     status[bad & (status != "infeasible")] = "non-finite"
+    status[(status == "converged") & ~(residual <= PROMISED_TOLERANCE)] = "max-iterations"
     return Equilibrium(log_activity=y, molality=conc, ln_gamma=ln_g, ionic_strength=u * u,
                        ln_water_activity=ln_aw, residual=residual, iterations=iterations,
                        status=status.astype(str), notes=list(getattr(bound, "notes", [])))
@@ -213,9 +216,9 @@ def bound_slice(bound: BoundModel, rows: np.ndarray) -> BoundModel:
 
 
 def _relative_residual(problem: _Problem, conc: np.ndarray, rows: np.ndarray) -> np.ndarray:
-    """Worst |Σ ν c − T| / (Σ |ν| c + |T|) over the free components of each sample."""
+    """Worst |Σ ν c − T| / max(Σ |ν| c, |T|) over the free components of each sample."""
     r = conc @ problem.nu_free - problem.totals[rows]
-    scale = conc @ np.abs(problem.nu_free) + problem.scale_floor[rows]
+    scale = np.maximum(conc @ np.abs(problem.nu_free), problem.scale_floor[rows])
     return np.max(np.abs(r) / scale, axis=1) if r.shape[1] else np.zeros(rows.size)
 
 
@@ -225,13 +228,14 @@ def _fast_path(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarra
     free = problem.free
     nf = int(free.sum())
     converged = np.zeros(todo.size, dtype=bool)
+    last_step = np.full(todo.size, np.inf)
     active = np.arange(todo.size)
     for _ in range(FAST_ITERATIONS):
         rows = todo[active]
         b = bound_slice(bound, rows)
         res, jac, scale = _augmented(problem, b, y[rows], u[rows], rows)
         merit0 = np.sum((res / scale) ** 2, axis=1)
-        done = _converged(res, scale, u[rows])
+        done = _converged(res, scale) & (last_step[active] <= STEP_TOLERANCE)
         if done.any():
             converged[active[done]] = True
             active, rows = active[~done], rows[~done]
@@ -246,6 +250,7 @@ def _fast_path(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarra
         shrink = np.minimum(1.0, STEP_CAP / np.maximum(biggest, 1e-300))
         dy *= shrink[:, None]
         du *= shrink
+        last_step[active] = np.max(np.abs(dy), axis=1, initial=0.0)
         y0, u0 = y[rows][:, free], u[rows]
         alpha = np.ones(rows.size)
         pending = np.ones(rows.size, dtype=bool)
@@ -280,7 +285,7 @@ def _augmented(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarra
     r_mass = conc @ nu_f - problem.totals[rows]
     ionic = 0.5 * conc @ problem.z2
     res = np.concatenate([r_mass, (ionic - u * u)[:, None]], axis=1)
-    scale = np.concatenate([conc @ np.abs(nu_f) + problem.scale_floor[rows],
+    scale = np.concatenate([np.maximum(conc @ np.abs(nu_f), problem.scale_floor[rows]),
                             np.maximum(ionic, u * u)[:, None] + 1e-300], axis=1)
     if not jacobian:
         return res, None, scale
@@ -295,7 +300,7 @@ def _augmented(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarra
     return res, jac, scale
 
 
-def _converged(res: np.ndarray, scale: np.ndarray, u: np.ndarray) -> np.ndarray:
+def _converged(res: np.ndarray, scale: np.ndarray) -> np.ndarray:
     rel = np.abs(res) / scale
     return np.all(rel <= RESIDUAL_TOLERANCE, axis=1)
 
@@ -353,7 +358,7 @@ def _convex_newton(problem: _Problem, offset: np.ndarray, y: np.ndarray, rows: n
     conc, fval = objective(yf)
     for _ in range(CAREFUL_INNER_ITERATIONS):
         grad = conc @ nu_f - totals
-        scale = conc @ np.abs(nu_f) + problem.scale_floor[rows]
+        scale = np.maximum(conc @ np.abs(nu_f), problem.scale_floor[rows])
         done = np.all(np.abs(grad) / scale <= RESIDUAL_TOLERANCE * 0.1, axis=1)
         if done.all():
             break
