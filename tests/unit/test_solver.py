@@ -62,3 +62,17 @@ def test_engine_raises_when_the_solver_cannot_converge(monkeypatch):
     with pytest.raises(ionwright.ConvergenceError) as err:
         ionwright.solve({"dissolve": {"KH2PO4": 0.5, "CaCl2": 0.2, "NaHCO3": 0.3}})
     assert "tolerance 1e-10" in str(err.value)
+
+
+@pytest.mark.parametrize("model", ["davies", "truesdell-jones"])
+def test_both_activity_strategies_agree_at_high_ionic_strength(monkeypatch, model):
+    # γ inside the Newton step (fast path) and γ in an outer damped fixed point around a
+    # convex solve (careful path) must reach the same answer at I ≈ 1.5 mol/kg.
+    recipe = {"activity_model": model,
+              "dissolve": {"NaCl": 1.0, "MgSO4": 0.1, "CaCl2": 0.05, "NaHCO3": 0.01}}
+    fast = ionwright.solve(recipe)
+    monkeypatch.setattr(solver, "FAST_ITERATIONS", 0)
+    careful = ionwright.solve(recipe)
+    assert fast.ionic_strength > 1.0
+    assert careful.pH == pytest.approx(fast.pH, abs=1e-9)
+    assert careful.molality == pytest.approx(fast.molality, rel=1e-8)
