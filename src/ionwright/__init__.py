@@ -5,6 +5,7 @@
 >>> result.pH                                                  # doctest: +SKIP
 """
 
+from .design import target
 from .engine import load_tables, solve
 from .errors import (ConvergenceError, FormulaError, IonwrightError, PluginError,
                      RecipeError, TableError, UnknownNameError)
@@ -14,6 +15,6 @@ from .result import Result
 
 __version__ = "0.1.0"
 
-__all__ = ["solve", "load_tables", "read_recipe", "Recipe", "Result", "hookimpl",
+__all__ = ["solve", "target", "load_tables", "read_recipe", "Recipe", "Result", "hookimpl",
            "IonwrightError", "ConvergenceError", "FormulaError", "PluginError",
            "RecipeError", "TableError", "UnknownNameError", "__version__"]

@@ -20,7 +20,7 @@ from .tables.tableset import TableSet
 def load_tables(names: tuple[str, ...] | list[str], registry: Registry | None = None) -> TableSet:
     """Merge the tables called (or found at) *names*, later ones overriding earlier ones."""
     registry = registry or default_registry()
-    return TableSet([registry.table(name) for name in names])
+    return TableSet(registry.layers(names))  # plugins' named reagents below the tables
 
 
 def component_totals(recipe: Recipe, tables: TableSet) -> tuple[dict[str, float], list[Makeup]]:
@@ -32,6 +32,8 @@ def component_totals(recipe: Recipe, tables: TableSet) -> tuple[dict[str, float]
         makeups.append(made)
         for comp, nu in made.per_mole.items():
             totals[comp] = totals.get(comp, 0.0) + nu * amount
+    for comp, amount in recipe.components:  # given directly: analyses, poured solutions
+        totals[comp] = totals.get(comp, 0.0) + amount
     totals.pop(WATER, None)
     totals.setdefault(PROTON, 0.0)
     return totals, makeups
@@ -40,8 +42,11 @@ def component_totals(recipe: Recipe, tables: TableSet) -> tuple[dict[str, float]
 def solve(recipe: str | Path | Mapping[str, Any] | Recipe,
           registry: Registry | None = None) -> Result:
     """Speciate one recipe; raise :class:`ConvergenceError` rather than return a bad answer."""
-    recipe = read_recipe(recipe)
+    recipe = read_recipe(recipe, registry)
     registry = registry or default_registry()
+    if recipe.phases:  # solids and gases: the batched phase solve of design.py
+        from .design import solve_with_phases
+        return solve_with_phases(recipe, registry)
     model = registry.model(recipe.activity_model)
     tables = load_tables(recipe.tables, registry)
     totals, makeups = component_totals(recipe, tables)

@@ -144,3 +144,27 @@ class PluginConflictError(PluginError):
 
 class PluginConflictWarning(UserWarning):
     """A name registered twice under the 'warn' conflict policy: the later one wins."""
+
+
+class PhaseRuleError(IonwrightError, ValueError):
+    """Solids and gases held at equilibrium that cannot coexist (the phase rule)."""
+
+    def __init__(self, phases: list[str], problem: str) -> None:
+        super().__init__(
+            f"phases {', '.join(repr(p) for p in phases)}: {problem}",
+            'hold fewer phases fixed: make a solid "precipitate-only" or remove it, or '
+            "leave a gas or the pH free")
+        self.phases, self.problem = phases, problem
+
+
+class UnreachableTargetError(IonwrightError, ValueError):
+    """A target that the adjusting ingredient cannot reach; carries the reachable range."""
+
+    def __init__(self, ingredient: str, quantity: str, target: float,
+                 reachable: tuple[float, float], detail: str, hint: str) -> None:
+        lo, hi = reachable
+        super().__init__(
+            f"{quantity} {target:g} cannot be reached with {ingredient}: it reaches "
+            f"{lo:.3f} to {hi:.3f} {detail}", hint)
+        self.ingredient, self.quantity, self.target = ingredient, quantity, target
+        self.reachable, self.detail = reachable, detail

@@ -2,6 +2,10 @@
 
 from __future__ import annotations
 
+from .derived import report_lines as derived_lines
+from .phases import phase_lines
+from .provenance import constants_section
+
 SPECIES_SHOWN = 25
 MIN_SHOWN_MOLALITY = 1e-12
 
@@ -40,6 +44,9 @@ def text_report(result) -> str:
         lines += ["", "saturation index (log IAP/Ksp; > 0 supersaturated)"]
         for name, si in r.saturation_indices.items():
             lines.append(f"  {name:<20}{si:8.2f}")
+    lines += phase_lines(r)
+    lines += derived_lines(r)
+    lines += constants_section(r)
     if r.warnings:
         lines += ["", "warnings"]
         lines += [f"  - {w}" for w in r.warnings]

@@ -9,7 +9,11 @@ from typing import Any
 import numpy as np
 
 from .cautions import cautions
+from .derived import derived_quantities, solution_summary
+from .compare import model_validity_notes, osmotic_coefficient, water_activity
 from .ingredients import Makeup
+from .phases import phase_summary
+from .provenance import constants_used, override_warnings
 from .recipe import Recipe
 from .solver import Equilibrium
 from .system import PROTON, WATER, ChemicalSystem, log10_k_at
@@ -31,6 +35,7 @@ class Result:
     totals: dict[str, float]
     makeups: list[Makeup]
     notes: list[str] = field(default_factory=list)
+    phases: dict[str, Any] = field(default_factory=dict)  # solids and gases: phases.py
 
     # -- numbers ----------------------------------------------------------------------
     @property
@@ -116,6 +121,7 @@ class Result:
             out.append(f"ionic strength {self.ionic_strength:.3g} mol/kg is beyond the range "
                        f"of the {self.model.name} model (up to about {limit:g}); results are "
                        f"less certain; compare models or use one valid at this strength")
+        out.extend(model_validity_notes(self))
         if "pH" in self.recipe.fix:
             imbalance, scale = self.charge_balance
             if scale > 0 and abs(imbalance) / scale > IMBALANCE_WARNING:
@@ -123,6 +129,7 @@ class Result:
                            f"electroneutral: Σz·m = {imbalance:+.3g} mol/kg "
                            f"({100 * imbalance / scale:+.2g} % of Σ|z|·m); an unlisted "
                            f"ion or acid/base would make up the difference")
+        out.extend(override_warnings(self))
         out.extend(cautions(self))
         return out
 
@@ -142,12 +149,18 @@ class Result:
             "activity_model": self.model.name,
             "pH": self.pH,
             "ionic_strength": self.ionic_strength,
+            "osmotic_coefficient": osmotic_coefficient(self),
+            "water_activity": water_activity(self),
             "species": self.species_rows(),
             "totals": {c: float(self.totals.get(c, 0.0)) for c in self.system.components},
             "saturation_indices": self.saturation_indices,
             "distribution": self.distribution(),
             "iterations": int(self.equilibrium.iterations[0]),
             "residual": float(self.equilibrium.residual[0]),
+            "constants_used": constants_used(self),
+            "derived": derived_quantities(self),
+            "solution": solution_summary(self),
+            "phases": phase_summary(self),
             "warnings": self.warnings,
         }
 

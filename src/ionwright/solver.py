@@ -3,39 +3,67 @@
 Unknowns per sample are y_j = ln a_j of the free components and u = √I. With γ held
 fixed, the mass balances are the gradient of the strictly convex function
 f(y) = Σ_i c_i(y) − Σ_j T_j y_j, whose Hessian Σ_i ν_i ν_iᵀ c_i is positive definite.
-The fast path adds u as an unknown (so activity coefficients move inside the Newton step)
-and uses a step cap with a backtracking line search on the scaled residual. Samples it
-does not finish, and models whose γ depend on composition, go to the careful path:
-a damped fixed point on γ around a convex Newton solve with an Armijo search on f.
+
+Samples are solved in chunks of :data:`CHUNK_SIZE`, with the sample axis last so that
+every operation runs over contiguous vectors of samples. The fast path (models whose γ
+depend on ionic strength alone) puts u into the Newton step. Residuals, their scales
+and the whole Jacobian are linear in c and in c·∂lnγ/∂u, so one sparse matrix product
+gives them for a chunk; the mass-balance block is factorised by a batched Cholesky and
+u is eliminated through its Schur complement. Every step is capped, then an Armijo
+search on the scaled residual accepts it (switched off once the residual is at
+round-off); a sample stops when its residual *and* its Newton step are both small, and
+leaves the active set. Samples the fast path does not finish, and models whose γ depend
+on composition, take the careful path: a damped fixed point on ln γ around a convex
+Newton solve with an Armijo search on f, which converges from any start.
+
+Every per-sample number is computed with elementwise operations, sparse products and
+reductions written out in a fixed order, never with dense BLAS calls whose rounding
+depends on the batch size, so a sample's answer is bit for bit the same whether it is
+solved alone or among a million others (some waters are so close to singular that
+rounding alone moves them by 1e-12).
 
 References
 ----------
 Morel, F. & Morgan, J. (1972) Environ. Sci. Technol. 6, 58–67 (tableau formulation).
 Nocedal, J. & Wright, S.J. (2006) Numerical Optimization, 2nd ed., Springer, ch. 3
-(line searches, Armijo condition).
+(line searches, Armijo condition) and ch. 11 (Newton's method for equations).
+Golub, G.H. & Van Loan, C.F. (2013) Matrix Computations, 4th ed., §4.2 (Cholesky)
+and §3.2.10 (block elimination by a Schur complement).
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
+from scipy import sparse
 
 from .activity.base import BoundModel
-from .system import ChemicalSystem
+from .errors import UnknownNameError
+from .system import PROTON, ChemicalSystem
 
 LN10 = np.log(10.0)
-RESIDUAL_TOLERANCE = 1e-12     # relative mass-balance residual the iterations aim for
-PROMISED_TOLERANCE = 1e-10     # what a converged result guarantees (see solve)
-STEP_TOLERANCE = 1e-8         # a last Newton step this small leaves round-off only
+RESIDUAL_TOLERANCE = 1e-10     # relative mass-balance residual that counts as converged
+STEP_TOLERANCE = 1e-8          # largest Newton step (ln units) a converged sample may need
+GAMMA_TOLERANCE = 1e-12        # change of ln γ between careful rounds that ends them
 STEP_CAP = 4.0                 # largest change of any ln a in one Newton step
 LN_C_CEILING = 300.0           # keeps exp() finite on wild iterates
+IONIC_STRENGTH_CAP = 1.5       # u² stays below this × the fully dissociated ionic strength
+ROUND_OFF = 1e-13              # relative residual below which the line search is switched off
+CHUNK_SIZE = 8192              # samples per chunk: amortises numpy calls, stays in cache
 FAST_ITERATIONS = 60
 CAREFUL_OUTER_ITERATIONS = 200
 CAREFUL_INNER_ITERATIONS = 100
+GUESS_ITERATIONS = 4           # safeguarded 1-D Newton steps of the initial guess
+GUESS_TOLERANCE = 0.05         # ln a(H+) accuracy of the guess; more does not pay
+GUESS_SWEEPS = 2               # rescalings of the other free activities for their complexes
+SWEEP_LIMIT = 1e20             # largest factor one rescaling may apply
 ARMIJO = 1e-4
 MAX_HALVINGS = 30
+MIN_DAMPING = 1.0 / 64         # smallest weight of a new ln γ in a careful round
+PIVOT_FLOOR = 1e-14            # relative Cholesky pivot below which it is regularised
 STATUSES = ("converged", "max-iterations", "non-finite", "infeasible")
+METHODS = ("auto", "careful")
 
 
 @dataclass
@@ -57,155 +85,55 @@ class Equilibrium:
         return self.status == "converged"
 
 
-@dataclass
-class _Problem:
-    """Everything fixed during one solve, sliced per active sample set."""
-
-    nu: np.ndarray          # (s, c)
-    nu_free: np.ndarray     # (s, f)
-    nu_water: np.ndarray    # (s,)
-    z2: np.ndarray          # (s,)
-    free: np.ndarray        # (c,) bool
-    ln_k: np.ndarray        # (n, s)
-    totals: np.ndarray      # (n, f)
-    full_totals: np.ndarray  # (n, c)
-    fixed_y: np.ndarray     # (n, c) ln a for fixed components (ignored where free)
-    scale_floor: np.ndarray  # (n, f)
-    u_max: np.ndarray       # (n,)
-
-
 def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
-          fixed_log10_activity: np.ndarray | None = None) -> Equilibrium:
+          fixed_log10_activity: np.ndarray | None = None, *,
+          method: str = "auto") -> Equilibrium:
     """Solve the batch: *totals* (n, c) in mol/kg, fixed log10 activities (n, c), NaN = free.
 
-    Returns an :class:`Equilibrium`; samples that fail carry their status, never a
-    silent answer. Totals of the proton component may be negative (added base).
+    *method* ``"auto"`` uses the fast path where the activity model allows it and the
+    careful path for the rest; ``"careful"`` uses the careful path for every sample
+    (slower; for samples the fast path failed). Returns an :class:`Equilibrium`; samples
+    that fail carry their status, never a silent answer. Totals of the proton component
+    may be negative (added base).
     """
+    if method not in METHODS:
+        raise UnknownNameError("solver method", method, METHODS)
     totals = np.atleast_2d(np.asarray(totals, dtype=float))
     n, c = totals.shape
     fixed = (np.full((n, c), np.nan) if fixed_log10_activity is None
              else np.atleast_2d(np.asarray(fixed_log10_activity, dtype=float)))
-    free = np.isnan(fixed[0])
+    free = np.isnan(fixed[0]) if n else np.ones(c, dtype=bool)
     if not np.array_equal(np.isnan(fixed), np.broadcast_to(free, (n, c))):
         raise ValueError("every sample of a batch must fix the same components")
-    t_C = bound.t_C
-    problem = _Problem(
-        nu=system.nu, nu_free=system.nu[:, free], nu_water=system.nu_water,
-        z2=system.charge ** 2, free=free, ln_k=LN10 * system.log10_k(t_C),
-        totals=totals[:, free], full_totals=totals, fixed_y=np.nan_to_num(LN10 * fixed),
-        scale_floor=np.maximum(np.abs(totals[:, free]), 1e-300),
-        u_max=np.sqrt(_ionic_strength_ceiling(system, totals)))
-    y, u = _initial_guess(problem, bound)
-    status = np.full(n, "max-iterations", dtype=object)
-    iterations = np.zeros(n, dtype=int)
+    structure = _Structure.build(system, free)
+    s = len(system.species)
+    out = _Outputs.empty(n, c, s)
     infeasible = _infeasible(system, totals, free)
-    status[infeasible] = "infeasible"
+    out.status[infeasible] = "infeasible"
+    fast = (method == "auto" and bound.depends_on_ionic_strength_only
+            and FAST_ITERATIONS > 0)
     todo = np.flatnonzero(~infeasible)
-    if bound.depends_on_ionic_strength_only and todo.size:
-        done = _fast_path(problem, bound, y, u, todo, iterations)
-        status[todo[done]] = "converged"
-        todo = todo[~done]
-    if todo.size:
-        ok = _careful_path(problem, bound, y, u, todo, iterations)
-        status[todo] = np.where(ok, "converged", status[todo])
-    ln_g, ln_aw, lnc = _state(problem, bound, y, u, np.arange(n))
-    conc = np.exp(lnc)
-    residual = _relative_residual(problem, conc, np.arange(n))
-    bad = ~np.all(np.isfinite(conc), axis=1) | ~np.isfinite(residual)
-    status[bad & (status != "infeasible")] = "non-finite"
-    status[(status == "converged") & ~(residual <= PROMISED_TOLERANCE)] = "max-iterations"
-    return Equilibrium(log_activity=y, molality=conc, ln_gamma=ln_g, ionic_strength=u * u,
-                       ln_water_activity=ln_aw, residual=residual, iterations=iterations,
-                       status=status.astype(str), notes=list(getattr(bound, "notes", [])))
-
-
-def _ionic_strength_ceiling(system: ChemicalSystem, totals: np.ndarray) -> np.ndarray:
-    """1.5 × the ionic strength if every component were a free ion (bounds the u unknown)."""
-    z2 = system.charge[: system.n_components] ** 2
-    free_ions = 0.5 * np.abs(totals) @ np.maximum(z2, 1.0)
-    return 1.5 * free_ions + 1e-6
-
-
-def _infeasible(system: ChemicalSystem, totals: np.ndarray, free: np.ndarray) -> np.ndarray:
-    """Samples whose free non-proton totals are not positive: no positive solution exists."""
-    proton = np.array([name == "H+" for name in system.components])
-    check = free & ~proton
-    return np.any(totals[:, check] <= 0.0, axis=1) | ~np.all(np.isfinite(totals), axis=1)
-
-
-def _initial_guess(problem: _Problem, bound: BoundModel) -> tuple[np.ndarray, np.ndarray]:
-    """Cheap start: acid–base only proton balance, bracketed on a pH grid and bisected.
-
-    Complexes of two or more components are ignored and each other component takes the
-    free activity its own protonation series allows; the proton balance of that reduced
-    problem is monotone in ln a(H+), so a grid and a few bisections find it. Returns
-    (y, u) with u = √I of the guess.
-    """
-    n = problem.ln_k.shape[0]
-    nu = problem.nu
-    u0 = np.sqrt(np.minimum(0.5 * problem.u_max ** 2 / 1.5, 0.5 * problem.u_max ** 2))
-    base = problem.ln_k - bound.ln_gamma(u0)                       # (n, s)
-    others = nu[:, 1:] != 0
-    lone = (others.sum(axis=1) == 1) & (np.abs(nu[:, 1:]).max(axis=1, initial=0) == 1)
-    proton_only = ~others.any(axis=1)
-    owner = (np.where(lone, np.argmax(others, axis=1) + 1, -1) if others.shape[1]
-             else np.full(nu.shape[0], -1))
-    ln_tot = np.log(np.maximum(problem.full_totals, 1e-300))       # (n, c)
-
-    def balance(h: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        """Proton-balance residual and y at ln a(H+) = h, for h of shape (n, ...)."""
-        lnw = base[:, None, :] + h[..., None] * nu[None, None, :, 0]     # (n, g, s)
-        y = np.repeat(h[..., None], nu.shape[1], axis=-1).copy()
-        for j in range(1, nu.shape[1]):
-            members = owner == j
-            if members.any():
-                y[..., j] = ln_tot[:, None, j] - _logsumexp(lnw[..., members])
-            else:
-                y[..., j] = ln_tot[:, None, j]
-        keep = lone | proton_only
-        lnc = lnw[..., keep] + np.einsum("ngc,sc->ngs", y[..., 1:], nu[keep][:, 1:])
-        r = np.exp(np.minimum(lnc, LN_C_CEILING)) @ nu[keep, 0] - problem.full_totals[:, None, 0]
-        return r, y
-
-    if not problem.free[0]:
-        h = problem.fixed_y[:, 0]
-    else:
-        grid = np.linspace(np.log(1e-16), np.log(10.0), 36)
-        r, _ = balance(np.broadcast_to(grid, (n, grid.size)))
-        above = r > 0
-        first = np.where(above.any(axis=1), np.argmax(above, axis=1), grid.size - 1)
-        lo = grid[np.maximum(first - 1, 0)]
-        hi = grid[first]
-        for _ in range(12):
-            mid = 0.5 * (lo + hi)
-            rm, _ = balance(mid[:, None])
-            up = rm[:, 0] > 0
-            hi, lo = np.where(up, mid, hi), np.where(up, lo, mid)
-        h = 0.5 * (lo + hi)
-    _, y = balance(h[:, None])
-    y = y[:, 0, :]
-    y = np.where(problem.free[None, :], y, problem.fixed_y)
-    conc = np.exp(np.minimum(base + y @ nu.T, LN_C_CEILING))
-    u = np.sqrt(np.clip(0.5 * conc @ problem.z2, 0.0, problem.u_max ** 2))
-    return y, u
-
-
-def _logsumexp(a: np.ndarray) -> np.ndarray:
-    peak = np.max(a, axis=-1, keepdims=True)
-    return (peak + np.log(np.sum(np.exp(a - peak), axis=-1, keepdims=True)))[..., 0]
-
-
-def _state(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
-           rows: np.ndarray, molality: np.ndarray | None = None):
-    """ln γ, ln a(H2O) and ln c for the samples *rows* at (y, u)."""
-    ln_g = bound_slice(bound, rows).ln_gamma(u[rows], molality)
-    ln_aw = np.zeros(rows.size)
-    if molality is not None:
-        aw = bound_slice(bound, rows).ln_water_activity(molality)
-        if aw is not None:
-            ln_aw = aw
-    lnc = problem.ln_k[rows] + y[rows] @ problem.nu.T + ln_aw[:, None] * problem.nu_water - ln_g
-    return ln_g, ln_aw, np.minimum(lnc, LN_C_CEILING)
+    ln_k_all = LN10 * system.log10_k(bound.t_C) if n else np.zeros((0, s))
+    for start in range(0, todo.size, CHUNK_SIZE):
+        rows = todo[start:start + CHUNK_SIZE]
+        problem = _Problem.build(structure, totals[rows], ln_k_all[rows], fixed[rows])
+        _solve_chunk(problem, bound_slice(bound, rows), fast, out, rows)
+    if infeasible.any():  # report the state at the totals given, flagged
+        rows = np.flatnonzero(infeasible)
+        problem = _Problem.build(structure, totals[rows], ln_k_all[rows], fixed[rows])
+        y = problem.fixed_y.copy()
+        lnc = problem.ln_k + structure.nu @ y
+        _store(out, rows, problem, y, np.zeros(rows.size), np.zeros_like(lnc),
+               np.zeros(rows.size), np.exp(np.minimum(lnc, LN_C_CEILING)))
+    out.status[~out.finite & (out.status != "infeasible")] = "non-finite"
+    # never trust a flag alone: a sample is converged only if its residual says so
+    out.status[(out.status == "converged") & ~(out.residual <= RESIDUAL_TOLERANCE)] = \
+        "max-iterations"
+    return Equilibrium(log_activity=out.y, molality=out.conc, ln_gamma=out.ln_g,
+                       ionic_strength=out.u * out.u, ln_water_activity=out.ln_aw,
+                       residual=out.residual, iterations=out.iterations,
+                       status=out.status.astype(str),
+                       notes=list(getattr(bound, "notes", [])))
 
 
 def bound_slice(bound: BoundModel, rows: np.ndarray) -> BoundModel:
@@ -215,174 +143,789 @@ def bound_slice(bound: BoundModel, rows: np.ndarray) -> BoundModel:
     return bound.take(rows)
 
 
-def _relative_residual(problem: _Problem, conc: np.ndarray, rows: np.ndarray) -> np.ndarray:
-    """Worst |Σ ν c − T| / max(Σ |ν| c, |T|) over the free components of each sample."""
-    r = conc @ problem.nu_free - problem.totals[rows]
-    scale = np.maximum(conc @ np.abs(problem.nu_free), problem.scale_floor[rows])
-    return np.max(np.abs(r) / scale, axis=1) if r.shape[1] else np.zeros(rows.size)
+# -- the fixed structure of a system --------------------------------------------------------
+
+@dataclass(frozen=True)
+class _Families:
+    """Species grouped by the one non-proton component they carry (with coefficient 1).
+
+    ``members`` (F, M) indexes the species of each family, padded with ``-1``, and
+    ``proton_numbers`` (F, M) gives their ν(H+); ``owners`` (F,) is the component of each
+    family. ``varying`` lists the families whose members differ in ν(H+) (the others
+    carry a fixed number of protons). ``proton_only`` species (H+, OH-) carry no other
+    component; ``fixed_members`` belong to components of fixed activity. Used by the
+    initial guess only.
+    """
+
+    members: np.ndarray
+    proton_numbers: np.ndarray
+    owners: np.ndarray
+    varying: np.ndarray
+    constant_protons: np.ndarray    # (F,) ν(H+) of the families that do not vary
+    proton_only: np.ndarray
+    fixed_members: np.ndarray
+
+    @classmethod
+    def of(cls, nu: np.ndarray, h_col: int, free: np.ndarray) -> "_Families":
+        others = np.ones(nu.shape[1], dtype=bool)
+        if h_col >= 0:
+            others[h_col] = False
+        carried = nu[:, others] != 0
+        lone = (carried.sum(axis=1) == 1) & (np.abs(nu[:, others]).max(axis=1, initial=0) == 1)
+        owner = np.full(nu.shape[0], -1)
+        if carried.shape[1]:
+            owner[lone] = np.flatnonzero(others)[np.argmax(carried[lone], axis=1)]
+        owned_free = lone & free[np.maximum(owner, 0)]
+        owners = np.unique(owner[owned_free])
+        groups = [np.flatnonzero(owned_free & (owner == o)) for o in owners]
+        width = max((g.size for g in groups), default=0)
+        members = np.full((owners.size, width), -1)
+        for f, g in enumerate(groups):
+            members[f, :g.size] = g
+        h_nu = nu[:, h_col] if h_col >= 0 else np.zeros(nu.shape[0])
+        protons = np.where(members >= 0, h_nu[members], 0.0)
+        varying = np.array([np.unique(h_nu[g]).size > 1 for g in groups], dtype=bool)
+        constant = np.array([h_nu[g[0]] for g in groups]) if groups else np.zeros(0)
+        return cls(members=members, proton_numbers=protons, owners=owners,
+                   varying=np.flatnonzero(varying), constant_protons=np.where(varying, 0.0,
+                                                                              constant),
+                   proton_only=np.flatnonzero(~carried.any(axis=1)),
+                   fixed_members=np.flatnonzero(lone & ~owned_free))
+
+
+@dataclass(frozen=True)
+class _Structure:
+    """What is fixed for a system and a set of free components, as sparse matrices.
+
+    ``nu`` (s, c) forms ln c from ln a. ``weights`` (q, s) maps c to, row by row: the
+    free mass balances Σ ν c (f), their scales Σ |ν| c (f), the ionic strength ½ Σ z² c,
+    its gradient in y (f) and the structurally non-zero entries of the Hessian Σ ν νᵀ c,
+    in the order ``factor`` reads them. ``weights_u`` (f + 1, s) maps c·∂lnγ/∂u to the u
+    column of the Jacobian.
+    """
+
+    nu_dense: np.ndarray
+    nu: sparse.csr_array
+    nu_of_free: sparse.csr_array    # (s, f): the free columns of ν
+    nu_of_fixed: sparse.csr_array   # (s, c − f): the fixed columns of ν
+    nu_free: sparse.csr_array       # (f, s): Σ ν c of the free components
+    abs_nu_free: sparse.csr_array
+    nu_water: np.ndarray
+    z2: np.ndarray
+    free: np.ndarray
+    weights: sparse.csr_array
+    weights_u: sparse.csr_array
+    factor: "_SparseCholesky"
+    nf: int
+    proton: int
+    families: _Families
+    sweep_rows: np.ndarray          # rows of the free totals rescaled by the guess
+    sweep_components: np.ndarray    # their components
+    sweep_terms: tuple[tuple[int, int, int], ...]  # (species, sweep row, ν) non-zeros
+
+    @classmethod
+    def build(cls, system: ChemicalSystem, free: np.ndarray) -> "_Structure":
+        nu = system.nu
+        nu_f = nu[:, free]
+        nf, s = nu_f.shape[1], nu.shape[0]
+        z2 = system.charge ** 2
+        factor = _SparseCholesky.plan(nu_f != 0, first_row=3 * nf + 1)
+        hessian = (np.stack([nu_f[:, i] * nu_f[:, j] for i, j in factor.entries])
+                   if factor.entries else np.zeros((0, s)))
+        weights = np.concatenate([nu_f.T, np.abs(nu_f).T, 0.5 * z2[None, :],
+                                  0.5 * z2[None, :] * nu_f.T, hessian, np.zeros((1, s))])
+        weights_u = np.concatenate([-nu_f.T, -0.5 * z2[None, :]])
+        proton = system.components.index(PROTON) if PROTON in system.components else -1
+        scaled = free.copy()
+        if proton >= 0:
+            scaled[proton] = False
+        sweep_rows = np.flatnonzero(scaled[free])
+        sweep_components = np.flatnonzero(scaled)
+        sweep_terms = tuple((i, r, int(nu[i, j])) for r, j in enumerate(sweep_components)
+                            for i in np.flatnonzero(nu[:, j]))
+        csr = sparse.csr_array
+        return cls(sweep_rows=sweep_rows, sweep_components=sweep_components,
+                   sweep_terms=sweep_terms, nu_dense=nu, nu=csr(nu), nu_of_free=csr(nu_f), nu_of_fixed=csr(nu[:, ~free]),
+                   nu_free=csr(nu_f.T), abs_nu_free=csr(np.abs(nu_f).T),
+                   nu_water=system.nu_water, z2=z2, free=free, weights=csr(weights),
+                   weights_u=csr(weights_u), factor=factor, nf=nf, proton=proton,
+                   families=_Families.of(nu, proton, free))
+
+
+@dataclass
+class _Problem:
+    """The per-sample data of one chunk, sample axis last; :meth:`take` slices samples."""
+
+    structure: _Structure
+    ln_k: np.ndarray         # (s, k)
+    totals: np.ndarray       # (f, k)
+    full_totals: np.ndarray  # (c, k)
+    fixed_y: np.ndarray      # (c, k) ln a for fixed components (0 where free)
+    scale_floor: np.ndarray  # (f, k)
+    u_max: np.ndarray        # (k,)
+
+    per_sample = ("ln_k", "totals", "full_totals", "fixed_y", "scale_floor", "u_max")
+
+    @classmethod
+    def build(cls, structure: _Structure, totals: np.ndarray, ln_k: np.ndarray,
+              fixed: np.ndarray) -> "_Problem":
+        free = structure.free
+        t = np.ascontiguousarray(totals.T)
+        fixed_y = np.ascontiguousarray(np.nan_to_num(LN10 * fixed).T)
+        ln_k = np.ascontiguousarray(ln_k.T)
+        problem = cls(structure, ln_k, t[free], t, fixed_y,
+                      np.maximum(np.abs(t[free]), 1e-300), np.zeros(t.shape[1]))
+        problem.u_max = np.sqrt(_ionic_strength_ceiling(problem))
+        return problem
+
+    def take(self, rows: np.ndarray) -> "_Problem":
+        return replace(self, **{name: getattr(self, name)[..., rows]
+                                for name in self.per_sample})
+
+    @property
+    def size(self) -> int:
+        return self.u_max.shape[0]
+
+
+def _ionic_strength_ceiling(problem: _Problem) -> np.ndarray:
+    """1.5 × the ionic strength if every component were a free ion (bounds u).
+
+    Species made of fixed-activity components alone (H+ and OH- at a fixed pH) are not
+    bounded by any total; their ideal molalities are added.
+    """
+    st = problem.structure
+    c = st.nu_dense.shape[1]
+    z2 = np.maximum(st.z2[:c], 1.0)
+    ions = _weighted_sum(np.abs(problem.full_totals), 0.5 * z2)
+    only_fixed = np.flatnonzero(~np.any(st.nu_dense[:, st.free] != 0, axis=1))
+    if only_fixed.size:
+        lnc = (problem.ln_k + st.nu @ problem.fixed_y)[only_fixed]
+        ions += _weighted_sum(np.exp(np.minimum(lnc, LN_C_CEILING)), 0.5 * st.z2[only_fixed])
+    return IONIC_STRENGTH_CAP * ions + 1e-6
+
+
+def _infeasible(system: ChemicalSystem, totals: np.ndarray, free: np.ndarray) -> np.ndarray:
+    """Samples whose free non-proton totals are not positive: no positive solution exists."""
+    proton = np.array([name == PROTON for name in system.components])
+    check = free & ~proton
+    return np.any(totals[:, check] <= 0.0, axis=1) | ~np.all(np.isfinite(totals), axis=1)
+
+
+# -- deterministic reductions ------------------------------------------------------------
+
+def _sum0(a: np.ndarray) -> np.ndarray:
+    """Σ over the first axis, added in order (numpy's pairwise sum depends on the shape)."""
+    if not a.shape[0]:
+        return np.zeros(a.shape[1:])
+    acc = a[0].copy()
+    for row in a[1:]:
+        acc += row
+    return acc
+
+
+def _weighted_sum(a: np.ndarray, weights: np.ndarray) -> np.ndarray:
+    """Σ_i w_i a[i] over the first axis, in order."""
+    acc = np.zeros(a.shape[1:])
+    for w, row in zip(weights, a):
+        if w:
+            acc += w * row
+    return acc
+
+
+# -- one chunk ------------------------------------------------------------------------------
+
+@dataclass
+class _Outputs:
+    """The arrays of an :class:`Equilibrium` being filled chunk by chunk."""
+
+    y: np.ndarray
+    u: np.ndarray
+    ln_g: np.ndarray
+    ln_aw: np.ndarray
+    conc: np.ndarray
+    residual: np.ndarray
+    finite: np.ndarray
+    iterations: np.ndarray
+    status: np.ndarray
+
+    @classmethod
+    def empty(cls, n: int, c: int, s: int) -> "_Outputs":
+        return cls(np.zeros((n, c)), np.zeros(n), np.zeros((n, s)), np.zeros(n),
+                   np.zeros((n, s)), np.zeros(n), np.ones(n, dtype=bool),
+                   np.zeros(n, dtype=int), np.full(n, "max-iterations", dtype=object))
+
+
+def _solve_chunk(problem: _Problem, bound: BoundModel, fast: bool, out: _Outputs,
+                 rows: np.ndarray) -> None:
+    """Solve one chunk and store its answers at *rows* of *out*."""
+    k = problem.size
+    st = problem.structure
+    iterations = np.zeros(k, dtype=int)
+    done = np.zeros(k, dtype=bool)
+    y, u = _initial_guess(problem, bound)
+    ln_g = np.zeros((problem.ln_k.shape[0], k))
+    ln_aw = np.zeros(k)
+    if fast:
+        done = _fast_path(problem, bound, y, u, iterations)
+        if done.any():
+            ln_g[:, done] = bound_slice(bound, np.flatnonzero(done)).ln_gamma(u[done]).T
+    rest = np.flatnonzero(~done)
+    if rest.size:
+        sub, sub_bound = problem.take(rest), bound_slice(bound, rest)
+        y0, u0 = _initial_guess(sub, sub_bound)
+        its = np.zeros(rest.size, dtype=int)
+        ok, g0, aw0 = _careful_path(sub, sub_bound, y0, u0, its)
+        y[:, rest], u[rest], ln_g[:, rest], ln_aw[rest] = y0, u0, g0, aw0
+        iterations[rest] += its
+        done[rest] = ok
+    lnc = problem.ln_k + st.nu @ y + ln_aw * st.nu_water[:, None] - ln_g
+    _store(out, rows, problem, y, u, ln_g, ln_aw, np.exp(np.minimum(lnc, LN_C_CEILING)))
+    out.iterations[rows] = iterations
+    out.status[rows[done]] = "converged"
+
+
+def _store(out: _Outputs, rows: np.ndarray, problem: _Problem, y: np.ndarray,
+           u: np.ndarray, ln_g: np.ndarray, ln_aw: np.ndarray, conc: np.ndarray) -> None:
+    st = problem.structure
+    out.y[rows], out.u[rows], out.ln_g[rows], out.ln_aw[rows] = y.T, u, ln_g.T, ln_aw
+    out.conc[rows] = conc.T
+    r = st.nu_free @ conc - problem.totals
+    scale = st.abs_nu_free @ conc + problem.scale_floor
+    out.residual[rows] = np.max(np.abs(r) / scale, axis=0, initial=0.0)
+    out.finite[rows] = np.all(np.isfinite(conc), axis=0) & np.isfinite(out.residual[rows])
+
+
+# -- the initial guess --------------------------------------------------------------------
+
+def _initial_guess(problem: _Problem, bound: BoundModel) -> tuple[np.ndarray, np.ndarray]:
+    """Cheap start: acid–base only proton balance, then rescaled for the complexes.
+
+    Complexes of two or more components are ignored at first, so each other component
+    is shared among itself and its protonated or hydrolysed forms in proportions set by
+    a(H+) alone, with γ at the fully dissociated ionic strength; the proton balance of
+    that reduced problem fixes a(H+). :data:`GUESS_SWEEPS` rescalings of each other
+    free activity by total / carried then account for the complexes. Returns
+    (y (c, k), u (k,)).
+    """
+    st = problem.structure
+    fam = st.families
+    h_col = st.proton
+    u0 = np.sqrt(problem.u_max ** 2 / IONIC_STRENGTH_CAP)
+    base = problem.ln_k - bound.ln_gamma(u0).T                      # (s, k)
+    y = problem.fixed_y.copy()
+    member_k = np.exp(np.minimum(_member_bases(base, fam), LN_C_CEILING))  # (F, M, k)
+    if h_col < 0:
+        h = np.zeros(problem.size)
+    elif not st.free[h_col]:
+        h = problem.fixed_y[h_col]
+    else:
+        h = _guess_proton(problem, base, y, member_k[fam.varying])
+    if fam.owners.size:
+        partition = _sum0(np.moveaxis(member_k * np.exp(fam.proton_numbers[:, :, None] * h),
+                                      1, 0))
+        y[fam.owners] = (np.log(np.maximum(problem.full_totals[fam.owners], 1e-300))
+                         - np.log(partition))
+    if h_col >= 0:
+        y[h_col] = h
+    conc = np.exp(np.minimum(base + st.nu @ y, LN_C_CEILING))
+    for _ in range(GUESS_SWEEPS):
+        ratio = np.clip(problem.totals[st.sweep_rows] / (st.nu_free @ conc)[st.sweep_rows],
+                        SWEEP_LIMIT ** -1, SWEEP_LIMIT)
+        y[st.sweep_components] += np.log(ratio)
+        for species, row, power in st.sweep_terms:   # c_i ∝ Π_j a_j^ν_ij: no exp needed
+            if power > 0:
+                for _ in range(power):
+                    conc[species] *= ratio[row]
+            else:
+                for _ in range(-power):
+                    conc[species] /= ratio[row]
+    u = np.sqrt(np.clip(_weighted_sum(conc, 0.5 * st.z2), 0.0, problem.u_max ** 2))
+    return y, u
+
+
+def _member_bases(base: np.ndarray, fam: _Families) -> np.ndarray:
+    """ln K − ln γ of each family member (F, M, k); −inf for padding."""
+    out = base[np.maximum(fam.members, 0)]
+    out[fam.members < 0] = -np.inf
+    return out
+
+
+def _guess_proton(problem: _Problem, base: np.ndarray, y_fixed: np.ndarray,
+                  member_k: np.ndarray) -> np.ndarray:
+    """h = ln a(H+) solving the reduced proton balance P(h) = N(h), per sample.
+
+    P collects the protons carried (ν > 0, and −T(H+) when negative), N those given up
+    (ν < 0, and T(H+) when positive); Newton steps on g = ln P − ln N, which is monotone
+    and nearly linear far from its root, are kept inside a shrinking bracket and fall
+    back to bisection outside it. Every term is K·a(H+)^ν with K computed once
+    (*member_k*, K of the members of the families whose proton number varies), so an
+    iteration needs one exponential per distinct ν, not one per species.
+    """
+    st = problem.structure
+    fam = st.families
+    nu = st.nu_dense
+    h_col = st.proton
+    k = problem.size
+    lone = np.concatenate([fam.proton_only, fam.fixed_members])
+    lone_nu = nu[lone, h_col]
+    lone_k = np.exp(np.minimum((base + st.nu @ y_fixed)[lone], LN_C_CEILING))
+    vary = fam.varying
+    member_nu = fam.proton_numbers[vary]                            # (Fv, M)
+    powers = np.unique(np.concatenate([lone_nu, member_nu.ravel(), [0.0]]))
+    lone_power = np.searchsorted(powers, lone_nu)
+    member_power = np.searchsorted(powers, member_nu)
+    pos, neg = np.maximum(member_nu, 0.0), np.maximum(-member_nu, 0.0)
+    weights = [(member_nu[:, m, None], pos[:, m, None], neg[:, m, None],
+                (pos * member_nu)[:, m, None], (neg * member_nu)[:, m, None])
+               for m in range(member_nu.shape[1])]
+    fam_tot = problem.full_totals[fam.owners[vary]]
+    const = _weighted_sum(problem.full_totals[fam.owners], fam.constant_protons)
+    t_h = problem.full_totals[h_col]
+    p_const = np.maximum(const, 0.0) + np.maximum(-t_h, 0.0)
+    n_const = np.maximum(-const, 0.0) + np.maximum(t_h, 0.0)
+    lo = np.full(k, np.log(1e-17))
+    hi = np.full(k, np.log(10.0))
+    h = np.full(k, np.log(1e-7))
+    settled = np.zeros(k, dtype=bool)
+    for _ in range(GUESS_ITERATIONS):  # all samples at once; settled ones stay put
+        x = np.exp(powers[:, None] * h)                     # a(H+)^ν for each distinct ν
+        c = lone_k * x[lone_power]
+        p, dp = p_const.copy(), np.zeros(k)
+        n, dn = n_const.copy(), np.zeros(k)
+        for v, row in zip(lone_nu, c):
+            if v > 0:
+                p += v * row
+                dp += v * v * row
+            elif v < 0:
+                n -= v * row
+                dn += v * v * row
+        if vary.size:
+            w = member_k * x[member_power]                          # (Fv, M, k)
+            sums = [np.zeros(fam_tot.shape) for _ in range(6)]
+            for m, (nu_w, pos_w, neg_w, pos_nu, neg_nu) in enumerate(weights):
+                wm = w[:, m]
+                sums[0] += wm
+                sums[1] += nu_w * wm
+                sums[2] += pos_w * wm
+                sums[3] += neg_w * wm
+                sums[4] += pos_nu * wm
+                sums[5] += neg_nu * wm
+            total, s_nu, s_pos, s_neg, s_pos_nu, s_neg_nu = sums
+            mean = s_nu / total
+            e_pos, e_neg = s_pos / total, s_neg / total
+            p += _sum0(fam_tot * e_pos)
+            dp += _sum0(fam_tot * (s_pos_nu / total - e_pos * mean))
+            n += _sum0(fam_tot * e_neg)
+            dn += _sum0(fam_tot * (e_neg * mean - s_neg_nu / total))
+        g = np.log(p / n)
+        above = g > 0
+        hi = np.where(above, h, hi)
+        lo = np.where(above, lo, h)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            trial = h - g / (dp / p + dn / n)
+        inside = (trial > lo) & (trial < hi) & np.isfinite(trial)
+        new = np.where(inside, trial, 0.5 * (lo + hi))
+        new = np.where(settled, h, new)
+        settled |= (np.abs(new - h) < GUESS_TOLERANCE) | (hi - lo < GUESS_TOLERANCE)
+        h = new
+        if settled.all():
+            break
+    return h
+
+
+# -- the fast path: u inside the Newton step ---------------------------------------------
+
+@dataclass
+class _Linearised:
+    """Residuals (m, k), their scales (m, k) and the Jacobian at k samples.
+
+    m = f + 1: the free mass balances, then I − u². The Jacobian is [[A, a], [bᵀ, d]]
+    with A (f, f) = Σ ν νᵀ c, whose non-zero entries are rows of *prod*, a (f, k) =
+    ∂r/∂u, b (f, k) = ∂I/∂y and d (k,) = ∂(I − u²)/∂u.
+    """
+
+    res: np.ndarray
+    scale: np.ndarray
+    prod: np.ndarray
+    a: np.ndarray
+    d: np.ndarray
+
+    def merit(self, scale: np.ndarray | None = None) -> np.ndarray:
+        return _sum0((self.res / (self.scale if scale is None else scale)) ** 2)
+
+    def worst(self) -> np.ndarray:
+        return np.max(np.abs(self.res) / self.scale, axis=0)
+
+    def select(self, keep: np.ndarray) -> "_Linearised":
+        """The linearisation of the samples *keep* (a mask or indices) only."""
+        return _Linearised(*(getattr(self, name)[..., keep] for name in _PARTS))
+
+
+_PARTS = ("res", "scale", "prod", "a", "d")
+
+
+def _augmented(problem: _Problem, bound: BoundModel, y: np.ndarray,
+               u: np.ndarray) -> _Linearised:
+    """Residuals (mass balances, I − u²), their scales and Jacobian at (y (c, k), u)."""
+    st = problem.structure
+    nf = st.nf
+    lnc = st.nu @ y
+    lnc += problem.ln_k
+    lnc -= bound.ln_gamma(u).T
+    np.minimum(lnc, LN_C_CEILING, out=lnc)
+    conc = np.exp(lnc, out=lnc)
+    prod = st.weights @ conc                                           # (q, k)
+    side = st.weights_u @ (conc * bound.d_ln_gamma_du(u).T)            # (f + 1, k)
+    res = np.empty((nf + 1, u.size))
+    np.subtract(prod[:nf], problem.totals, out=res[:nf])
+    np.subtract(prod[2 * nf], u * u, out=res[nf])
+    scale = np.empty_like(res)
+    np.add(prod[nf:2 * nf], problem.scale_floor, out=scale[:nf])
+    np.maximum(prod[2 * nf], u * u, out=scale[nf])
+    scale[nf] += 1e-300
+    side[nf] -= 2.0 * u
+    return _Linearised(res, scale, prod, side[:nf], side[nf])
+
+
+def _newton_step(lin: _Linearised, factor: "_SparseCholesky"
+                 ) -> tuple[np.ndarray, np.ndarray]:
+    """(dy (f, k), du (k,)) solving J·step = −res by Cholesky of A and u's Schur complement."""
+    nf = lin.a.shape[0]
+    rhs = np.empty((nf, 2, lin.d.size))
+    np.negative(lin.res[:nf], out=rhs[:, 0])
+    rhs[:, 1] = lin.a
+    sol = factor.solve(lin.prod, rhs)
+    p, q = sol[:, 0], sol[:, 1]
+    b = lin.prod[2 * nf + 1:3 * nf + 1]
+    schur = lin.d - _sum0(b * q)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        du = (-lin.res[nf] - _sum0(b * p)) / schur
+    du[~np.isfinite(du)] = 0.0
+    q *= du
+    p -= q
+    return p, du
+
+
+@dataclass(frozen=True)
+class _SparseCholesky:
+    """A Cholesky factorisation A = L Lᵀ planned once for a sparsity pattern, then run
+    for k matrices at once with every operation over contiguous sample vectors.
+
+    Components that never meet in a species (K+ and Ca+2, say) give zero entries; a
+    greedy minimum-degree order keeps the fill small, and only the non-zero entries of
+    L are stored and updated. ``entries`` lists the non-zero (i, j), i ≤ j, of A in the
+    order their rows follow ``first_row`` in the product handed to :meth:`solve`; the
+    row after them must be zero (it stands for the fill).
+    """
+
+    order: tuple[int, ...]                  # elimination order of the components
+    entries: tuple[tuple[int, int], ...]
+    source: np.ndarray                      # per entry of L: row of A (or the zero row)
+    columns: tuple[tuple[int, int], ...]    # per column: (first, end) entries of L, diag first
+    updates: tuple[tuple[tuple[int, int, int], ...], ...]  # per column: (target, src, mult)
+    lower: tuple[tuple[tuple[int, int], ...], ...]   # per column j: (entry, row i > j)
+
+    @classmethod
+    def plan(cls, present: np.ndarray, first_row: int) -> "_SparseCholesky":
+        """The plan for A = Σ ν νᵀ c whose species–component incidence is *present*."""
+        f = present.shape[1]
+        meet = (present.T.astype(int) @ present.astype(int)) > 0
+        order = _minimum_degree(meet)
+        pattern = meet[np.ix_(order, order)].copy()
+        for j in range(f):                                  # symbolic elimination: fill
+            below = np.flatnonzero(pattern[j + 1:, j]) + j + 1
+            pattern[np.ix_(below, below)] = True
+        entries = [(min(i, j), max(i, j)) for i in range(f) for j in range(i, f) if meet[i, j]]
+        row_of = {e: first_row + n for n, e in enumerate(entries)}
+        index, source, columns, lower = {}, [], [], []
+        for j in range(f):
+            rows = [j, *(i for i in range(j + 1, f) if pattern[i, j])]
+            start = len(source)
+            for i in rows:
+                index[i, j] = len(source)
+                a, b = sorted((order[i], order[j]))
+                source.append(row_of.get((a, b), -1))
+            columns.append((start, len(source)))
+            lower.append(tuple((index[i, j], i) for i in rows[1:]))
+        updates = []
+        for j in range(f):
+            ops = []
+            for p in range(j):
+                if (j, p) in index:
+                    ops.extend((index[i, j], index[i, p], index[j, p])
+                               for i in range(j, f) if (i, p) in index)
+            updates.append(tuple(ops))
+        zero_row = first_row + len(entries)
+        source = np.array([zero_row if r < 0 else r for r in source], dtype=int)
+        return cls(tuple(order), tuple(entries), source, tuple(columns),
+                   tuple(updates), tuple(lower))
+
+    def solve(self, prod: np.ndarray, b: np.ndarray) -> np.ndarray:
+        """X (f, r, k) with A X = B (f, r, k), A's entries read from the rows of *prod*.
+
+        A pivot lost to round-off is raised to :data:`PIVOT_FLOOR` × its diagonal, which
+        turns the step into a slightly damped one instead of a failure.
+        """
+        f, r, k = b.shape
+        low = np.take(prod, self.source, axis=0)
+        inv = np.empty((f, k))
+        tmp = np.empty(k)
+        for j, (start, end) in enumerate(self.columns):
+            diagonal = low[start].copy()
+            for target, src, mult in self.updates[j]:
+                np.multiply(low[src], low[mult], out=tmp)
+                low[target] -= tmp
+            pivot = np.maximum(low[start], PIVOT_FLOOR * diagonal + 1e-300)
+            np.sqrt(pivot, out=low[start])
+            np.divide(1.0, low[start], out=inv[j])
+            low[start + 1:end] *= inv[j]
+        z = b[list(self.order)]
+        t = np.empty((r, k))
+        for j in range(f):                      # forward: L z = b
+            z[j] *= inv[j]
+            for entry, i in self.lower[j]:
+                np.multiply(z[j], low[entry], out=t)
+                z[i] -= t
+        for j in range(f - 1, -1, -1):          # back: Lᵀ x = z
+            for entry, i in self.lower[j]:
+                np.multiply(z[i], low[entry], out=t)
+                z[j] -= t
+            z[j] *= inv[j]
+        x = np.empty_like(z)
+        x[list(self.order)] = z
+        return x
+
+
+def _minimum_degree(meet: np.ndarray) -> list[int]:
+    """A greedy minimum-degree elimination order of the graph *meet* (ties: lowest index).
+
+    References
+    ----------
+    George, A. & Liu, J.W.H. (1989) SIAM Review 31, 1–19 (the minimum degree ordering).
+    """
+    graph = meet.copy()
+    np.fill_diagonal(graph, False)
+    left = list(range(graph.shape[0]))
+    order = []
+    while left:
+        degree = [int(graph[v, left].sum()) for v in left]
+        v = left[int(np.argmin(degree))]
+        near = [w for w in left if graph[v, w]]
+        for a in near:
+            for b in near:
+                if a != b:
+                    graph[a, b] = True
+        order.append(v)
+        left.remove(v)
+    return order
 
 
 def _fast_path(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
-               todo: np.ndarray, iterations: np.ndarray) -> np.ndarray:
-    """Newton on (y_free, u) together; returns which of *todo* converged (y, u updated)."""
-    free = problem.free
-    nf = int(free.sum())
-    converged = np.zeros(todo.size, dtype=bool)
-    last_step = np.full(todo.size, np.inf)
-    active = np.arange(todo.size)
+               iterations: np.ndarray) -> np.ndarray:
+    """Newton on (y_free, u) together; returns which samples converged (y, u updated)."""
+    cols = np.flatnonzero(problem.structure.free)
+    converged = np.zeros(problem.size, dtype=bool)
+    active = np.arange(problem.size)
+    sub, b = problem, bound
+    lin = _augmented(sub, b, y, u)
     for _ in range(FAST_ITERATIONS):
-        rows = todo[active]
-        b = bound_slice(bound, rows)
-        res, jac, scale = _augmented(problem, b, y[rows], u[rows], rows)
-        merit0 = np.sum((res / scale) ** 2, axis=1)
-        done = _converged(res, scale) & (last_step[active] <= STEP_TOLERANCE)
-        if done.any():
-            converged[active[done]] = True
-            active, rows = active[~done], rows[~done]
-            res, jac, scale, merit0 = res[~done], jac[~done], scale[~done], merit0[~done]
-            b = bound_slice(bound, rows)
-        if not active.size:
-            break
-        iterations[rows] += 1
-        step = _linear_solve(jac, -res)
-        dy, du = step[:, :nf], step[:, nf]
-        biggest = np.max(np.abs(dy), axis=1, initial=0.0)
-        shrink = np.minimum(1.0, STEP_CAP / np.maximum(biggest, 1e-300))
-        dy *= shrink[:, None]
-        du *= shrink
-        last_step[active] = np.max(np.abs(dy), axis=1, initial=0.0)
-        y0, u0 = y[rows][:, free], u[rows]
-        alpha = np.ones(rows.size)
-        pending = np.ones(rows.size, dtype=bool)
-        for _ in range(MAX_HALVINGS):
-            yt = y[rows].copy()
-            yt[:, free] = y0 + alpha[:, None] * dy
-            ut = np.clip(u0 + alpha * du, 0.0, problem.u_max[rows])
-            rt, _, _ = _augmented(problem, b, yt, ut, rows, jacobian=False)
-            merit = np.sum((rt / scale) ** 2, axis=1)
-            ok = np.isfinite(merit) & (merit <= (1.0 - 2 * ARMIJO * alpha) * merit0)
-            ok |= merit0 < 1e-28  # at round-off: take the full step
-            accept = pending & ok
-            sel = rows[accept]
-            y[sel[:, None], np.flatnonzero(free)[None, :]] = yt[accept][:, free]
-            u[sel] = ut[accept]
-            pending &= ~ok
-            if not pending.any():
+        iterations[active] += 1
+        dy, du = _newton_step(lin, problem.structure.factor)
+        size = np.maximum(np.max(np.abs(dy), axis=0, initial=0.0),
+                          np.abs(du) / np.maximum(u[active], 1e-12))
+        worst = lin.worst()
+        merit, scale = lin.merit(), lin.scale
+        finished = (worst <= RESIDUAL_TOLERANCE) & (size <= STEP_TOLERANCE)
+        if finished.any():  # the last, tiny step is taken without a search
+            rows = active[finished]
+            y[cols[:, None], rows] += dy[:, finished]
+            u[rows] = np.clip(u[rows] + du[finished], 0.0, problem.u_max[rows])
+            converged[rows] = True
+            keep = ~finished
+            active = active[keep]
+            if not active.size:
                 break
-            alpha = np.where(pending, alpha * 0.5, alpha)
-        # samples whose search failed keep their point; the careful path takes them
-        active = active[~pending]
+            sub, b = problem.take(active), bound_slice(bound, active)
+            dy, du, worst = dy[:, keep], du[keep], worst[keep]
+            merit, scale = merit[keep], scale[:, keep]
+        biggest = np.max(np.abs(dy), axis=0, initial=0.0)
+        shrink = np.minimum(1.0, STEP_CAP / np.maximum(biggest, 1e-300))
+        dy *= shrink
+        du *= shrink
+        lin, stuck = _line_search(sub, b, y, u, active, cols, merit, scale, dy, du, shrink,
+                                  worst <= ROUND_OFF)
+        if stuck.any():  # no acceptable step: the careful path takes these samples
+            keep = ~stuck
+            active = active[keep]
+            if not active.size:
+                break
+            sub, b, lin = problem.take(active), bound_slice(bound, active), lin.select(keep)
     return converged
 
 
-def _augmented(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
-               rows: np.ndarray, jacobian: bool = True):
-    """Residual (mass balances, I − u²), its Jacobian and residual scales at (y, u)."""
-    ln_g = bound.ln_gamma(u)
-    lnc = problem.ln_k[rows] + y @ problem.nu.T - ln_g
-    conc = np.exp(np.minimum(lnc, LN_C_CEILING))
-    nu_f = problem.nu_free
-    r_mass = conc @ nu_f - problem.totals[rows]
-    ionic = 0.5 * conc @ problem.z2
-    res = np.concatenate([r_mass, (ionic - u * u)[:, None]], axis=1)
-    scale = np.concatenate([np.maximum(conc @ np.abs(nu_f), problem.scale_floor[rows]),
-                            np.maximum(ionic, u * u)[:, None] + 1e-300], axis=1)
-    if not jacobian:
-        return res, None, scale
-    dg = bound.d_ln_gamma_du(u)
-    n, nf = r_mass.shape
-    jac = np.empty((n, nf + 1, nf + 1))
-    jac[:, :nf, :nf] = np.einsum("si,ns,sj->nij", nu_f, conc, nu_f, optimize=True)
-    cdg = conc * dg
-    jac[:, :nf, nf] = -cdg @ nu_f
-    jac[:, nf, :nf] = 0.5 * (conc * problem.z2) @ nu_f
-    jac[:, nf, nf] = -0.5 * cdg @ problem.z2 - 2.0 * u
-    return res, jac, scale
+def _line_search(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
+                 active: np.ndarray, cols: np.ndarray, merit0: np.ndarray, scale0: np.ndarray,
+                 dy: np.ndarray, du: np.ndarray, shrink: np.ndarray, at_round_off: np.ndarray
+                 ) -> tuple[_Linearised, np.ndarray]:
+    """Backtrack along (dy, du) until the scaled residual drops (Armijo); update y, u.
+
+    *problem* and *bound* are restricted to *active*; *merit0* and *scale0* are the
+    merit and residual scales at the starting point, kept for every trial so that the
+    Newton direction is a descent direction of the merit. Returns the linearisation at
+    the accepted points and which samples found none.
+    """
+    y0, u0 = y[:, active], u[active]
+    alpha = np.ones(active.size)
+    pending = np.arange(active.size)
+    out = None
+    for _ in range(MAX_HALVINGS):
+        every = pending.size == active.size
+        part = problem if every else problem.take(pending)
+        b = bound if every else bound.take(pending)
+        yt = y0.copy() if every else y0[:, pending]
+        yt[cols] += alpha[pending] * dy[:, pending]
+        ut = np.clip(u0[pending] + alpha[pending] * du[pending], 0.0, part.u_max)
+        trial = _augmented(part, b, yt, ut)
+        merit = trial.merit(scale0[:, pending])
+        decrease = 1.0 - 2.0 * ARMIJO * alpha[pending] * shrink[pending]
+        ok = np.isfinite(merit) & (merit <= decrease * merit0[pending])
+        ok |= at_round_off[pending] & np.all(np.isfinite(trial.res), axis=0)
+        rows = active[pending[ok]]
+        y[:, rows], u[rows] = yt[:, ok], ut[ok]
+        if out is None and ok.all():
+            return trial, np.zeros(active.size, dtype=bool)
+        if out is None:
+            out = _Linearised(*(np.empty((*getattr(trial, n).shape[:-1], active.size))
+                                for n in _PARTS))
+        for name in _PARTS:
+            getattr(out, name)[..., pending[ok]] = getattr(trial, name)[..., ok]
+        pending = pending[~ok]
+        if not pending.size:
+            break
+        alpha[pending] *= 0.5
+    stuck = np.zeros(active.size, dtype=bool)
+    stuck[pending] = True
+    return out, stuck
 
 
-def _converged(res: np.ndarray, scale: np.ndarray) -> np.ndarray:
-    rel = np.abs(res) / scale
-    return np.all(rel <= RESIDUAL_TOLERANCE, axis=1)
-
-
-def _linear_solve(jac: np.ndarray, rhs: np.ndarray) -> np.ndarray:
-    """Batched solve; singular samples get a least-squares step instead of failing all."""
-    try:
-        return np.linalg.solve(jac, rhs[..., None])[..., 0]
-    except np.linalg.LinAlgError:
-        out = np.zeros_like(rhs)
-        for k in range(jac.shape[0]):
-            out[k] = np.linalg.lstsq(jac[k], rhs[k], rcond=None)[0]
-        return out
-
+# -- the careful path: damped fixed point on ln γ around a convex Newton solve -----------
 
 def _careful_path(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
-                  todo: np.ndarray, iterations: np.ndarray) -> np.ndarray:
-    """Damped fixed point on γ around a convex Newton solve; returns converged flags."""
-    ok = np.zeros(todo.size, dtype=bool)
-    molality = None
-    for outer in range(CAREFUL_OUTER_ITERATIONS):
-        ln_g, ln_aw, lnc = _state(problem, bound, y, u, todo, molality)
-        offset = problem.ln_k[todo] + ln_aw[:, None] * problem.nu_water - ln_g
-        inner_ok = _convex_newton(problem, offset, y, todo, iterations)
-        conc = np.exp(np.minimum(offset + y[todo] @ problem.nu.T, LN_C_CEILING))
-        u_new = np.sqrt(np.minimum(0.5 * conc @ problem.z2, problem.u_max[todo] ** 2))
-        change = np.abs(u_new ** 2 - u[todo] ** 2) / np.maximum(u_new ** 2, 1e-300)
-        damping = 1.0 if outer < 5 else 0.5
-        u[todo] = u[todo] + damping * (u_new - u[todo])
-        molality = conc
-        new_g, _, _ = _state(problem, bound, y, u, todo, molality)
-        dg = np.max(np.abs(new_g - ln_g), axis=1, initial=0.0)
-        ok = inner_ok & (change <= RESIDUAL_TOLERANCE) & (dg <= RESIDUAL_TOLERANCE)
-        if ok.all():
+                  iterations: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Solve with ln γ and ln a(H2O) frozen per round, then update them, damped.
+
+    Each round solves the convex problem exactly at the current ln γ, then moves ln γ a
+    fraction ω towards its value at the new composition; ω halves for a sample whose
+    change grew. A sample is done when its change is below :data:`GAMMA_TOLERANCE` with
+    the inner solve converged; its concentrations then satisfy the mass balances at the
+    ln γ returned. Returns (converged, ln γ (s, k), ln a(H2O) (k,)); y, u updated in place.
+    """
+    st = problem.structure
+    k = problem.size
+    ln_g = np.ascontiguousarray(bound.ln_gamma(u).T)
+    ln_aw = np.zeros(k)
+    ok = np.zeros(k, dtype=bool)
+    omega = np.ones(k)
+    last_change = np.full(k, np.inf)
+    active = np.arange(k)
+    for _ in range(CAREFUL_OUTER_ITERATIONS):
+        every = active.size == k
+        sub = problem if every else problem.take(active)
+        b = bound if every else bound.take(active)
+        offset = sub.ln_k + ln_aw[active] * st.nu_water[:, None] - ln_g[:, active]
+        ya = y[:, active]
+        inner_ok, conc = _convex_newton(sub, offset, ya, iterations, active)
+        y[:, active] = ya
+        ionic = np.minimum(_weighted_sum(conc, 0.5 * st.z2), sub.u_max ** 2)
+        u[active] = np.sqrt(ionic)
+        new_g = b.ln_gamma(u[active], conc.T).T
+        new_aw = b.ln_water_activity(conc.T)
+        new_aw = np.zeros(active.size) if new_aw is None else new_aw
+        change = np.maximum(np.max(np.abs(new_g - ln_g[:, active]), axis=0, initial=0.0),
+                            np.abs(new_aw - ln_aw[active]))
+        finished = inner_ok & (change <= GAMMA_TOLERANCE)
+        ok[active[finished]] = True
+        grew = change > last_change[active]
+        omega[active] = np.where(grew, np.maximum(omega[active] * 0.5, MIN_DAMPING),
+                                 omega[active])
+        go = ~finished
+        rows = active[go]
+        weight = omega[rows]
+        ln_g[:, rows] += weight * (new_g[:, go] - ln_g[:, rows])
+        ln_aw[rows] += weight * (new_aw[go] - ln_aw[rows])
+        last_change[rows] = change[go]
+        active = rows
+        if not active.size:
             break
-    return ok
+    return ok, ln_g, ln_aw
 
 
-def _convex_newton(problem: _Problem, offset: np.ndarray, y: np.ndarray, rows: np.ndarray,
-                   iterations: np.ndarray) -> np.ndarray:
-    """Minimise f(y) = Σ exp(offset + ν y) − T·y over free y for samples *rows*."""
-    free = problem.free
-    cols = np.flatnonzero(free)
-    nu_f = problem.nu_free
-    fixed_part = y[rows][:, ~free] @ problem.nu[:, ~free].T
-    base = offset + fixed_part
-    yf = y[rows][:, free]
-    totals = problem.totals[rows]
-    done = np.zeros(rows.size, dtype=bool)
+def _convex_newton(problem: _Problem, offset: np.ndarray, y: np.ndarray,
+                   iterations: np.ndarray, rows: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Minimise f(y) = Σ exp(offset + ν y) − T·y over the free y, for every sample.
 
-    def objective(v):
-        conc = np.exp(np.minimum(base + v @ nu_f.T, LN_C_CEILING))
-        return conc, conc.sum(axis=1) - np.sum(totals * v, axis=1)
-
-    conc, fval = objective(yf)
+    Newton steps from a Cholesky solve of the Hessian, capped, with an Armijo search on
+    f (off once the gradient is at round-off); a sample stops when its gradient and its
+    step are both small. *y* (c, k) is updated in place; *iterations* counts at *rows*.
+    Returns (converged, concentrations (s, k) at the final y).
+    """
+    st = problem.structure
+    cols = np.flatnonzero(st.free)
+    nf = st.nf
+    fixed = ~st.free
+    base = offset + (st.nu_of_fixed @ np.ascontiguousarray(y[fixed]) if fixed.any() else 0.0)
+    nu_f = st.nu_of_free
+    yf = y[cols].copy()
+    k = problem.size
+    done = np.zeros(k, dtype=bool)
+    conc = np.exp(np.minimum(base + nu_f @ yf, LN_C_CEILING))
+    weights = st.weights
+    active = np.arange(k)
     for _ in range(CAREFUL_INNER_ITERATIONS):
-        grad = conc @ nu_f - totals
-        scale = np.maximum(conc @ np.abs(nu_f), problem.scale_floor[rows])
-        done = np.all(np.abs(grad) / scale <= RESIDUAL_TOLERANCE * 0.1, axis=1)
-        if done.all():
+        ca = conc[:, active]
+        prod = weights @ ca
+        grad = prod[:nf] - problem.totals[:, active]
+        scale = prod[nf:2 * nf] + problem.scale_floor[:, active]
+        rel = np.max(np.abs(grad) / scale, axis=0, initial=0.0)
+        step = st.factor.solve(prod, -grad[:, None, :])[:, 0]
+        size = np.max(np.abs(step), axis=0, initial=0.0)
+        finished = (rel <= 0.1 * RESIDUAL_TOLERANCE) & (size <= STEP_TOLERANCE)
+        if finished.any():
+            idx = active[finished]
+            yf[:, idx] += step[:, finished]
+            conc[:, idx] = np.exp(np.minimum(base[:, idx] + nu_f @ yf[:, idx], LN_C_CEILING))
+            done[idx] = True
+        go = ~finished
+        active, step, grad, rel = active[go], step[:, go], grad[:, go], rel[go]
+        if not active.size:
             break
-        iterations[rows[~done]] += 1
-        hess = np.einsum("si,ns,sj->nij", nu_f, conc, nu_f, optimize=True)
-        step = _linear_solve(hess, -grad)
-        biggest = np.max(np.abs(step), axis=1, initial=0.0)
-        step *= np.minimum(1.0, STEP_CAP / np.maximum(biggest, 1e-300))[:, None]
-        slope = np.sum(grad * step, axis=1)
-        alpha = np.ones(rows.size)
-        pending = ~done
+        iterations[rows[active]] += 1
+        step *= np.minimum(1.0, STEP_CAP / np.maximum(np.max(np.abs(step), axis=0,
+                                                             initial=0.0), 1e-300))
+        slope = _sum0(grad * step)
+        f0 = _objective(conc[:, active], problem.totals[:, active], yf[:, active])
+        alpha = np.ones(active.size)
+        pending = np.arange(active.size)
         for _ in range(MAX_HALVINGS):
-            trial = yf + alpha[:, None] * step
-            ct, ft = objective(trial)
-            ok = (ft <= fval + ARMIJO * alpha * slope) | (np.abs(slope) < 1e-300)
-            accept = pending & ok
-            yf[accept], conc[accept], fval[accept] = trial[accept], ct[accept], ft[accept]
-            pending &= ~ok
-            if not pending.any():
+            idx = active[pending]
+            trial = yf[:, idx] + alpha[pending] * step[:, pending]
+            ct = np.exp(np.minimum(base[:, idx] + nu_f @ trial, LN_C_CEILING))
+            ft = _objective(ct, problem.totals[:, idx], trial)
+            ok = ft <= f0[pending] + ARMIJO * alpha[pending] * slope[pending]
+            ok |= (rel[pending] <= ROUND_OFF) | ~(slope[pending] < 0)
+            ok &= np.isfinite(ft)
+            yf[:, idx[ok]], conc[:, idx[ok]] = trial[:, ok], ct[:, ok]
+            pending = pending[~ok]
+            if not pending.size:
                 break
-            alpha = np.where(pending, alpha * 0.5, alpha)
-        if pending.any():  # no decrease at machine precision: take the Newton step anyway
-            trial = yf + step
-            ct, ft = objective(trial)
-            yf[pending], conc[pending], fval[pending] = trial[pending], ct[pending], ft[pending]
-    y[rows[:, None], cols[None, :]] = yf
-    return done
+            alpha[pending] *= 0.5
+        if pending.size:  # no decrease at machine precision: take the Newton step anyway
+            idx = active[pending]
+            yf[:, idx] += step[:, pending]
+            conc[:, idx] = np.exp(np.minimum(base[:, idx] + nu_f @ yf[:, idx], LN_C_CEILING))
+    y[cols] = yf
+    return done, conc
+
+
+def _objective(conc: np.ndarray, totals: np.ndarray, yf: np.ndarray) -> np.ndarray:
+    return _sum0(conc) - _sum0(totals * yf)

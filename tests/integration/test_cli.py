@@ -69,7 +69,7 @@ def test_demo_runs_and_tells_its_story():
 @pytest.mark.parametrize("body, needle", [
     ('[dissolve]\n"citric acd" = 0.01\n', "did you mean 'citric acid'"),
     ('[dissolve]\nNaCl = -0.1\n', "must be ≥ 0"),
-    ('[dissolve]\nNaCl = "lots"\n', "must be a number"),
+    ('[dissolve]\nNaCl = "lots"\n', "does not start with a number"),
     ('activity_model = "daviess"\n[dissolve]\nNaCl = 0.1\n', "did you mean 'davies'"),
     ('temperature_C = 140\n[dissolve]\nNaCl = 0.1\n', "outside 0–100 °C"),
     ('[dissolve\nNaCl = 0.1\n', "line 1"),

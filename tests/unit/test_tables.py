@@ -160,3 +160,19 @@ def test_bundled_core_table_loads_and_balances():
     assert {"H+", "H2O", "CO3-2", "PO4-3", "Ca+2"} <= set(tables.components)
     assert {"calcite", "gypsum", "dolomite"} <= set(tables.solids)
     assert tables.problems() == []
+
+
+def test_a_solid_dissolving_into_a_formed_species_divides_by_its_formation_constant(make_table):
+    # NaOH(s) = Na+ + OH-; in components Na+ + H2O − H+, so log K(components) =
+    # log Ksp − log K_f(OH-) = 1.5 − (−14.0) (mini table: log K_f(OH-) = −14.0).
+    extra = '''
+        [solids.sodium_hydroxide]
+        formula = "NaOH"
+        dissolves_to = { "Na+" = 1, "OH-" = 1 }
+        log_k = 1.5
+        source = "test"
+    '''
+    tables = TableSet([make_table(extra)])
+    res = tables.resolve("sodium_hydroxide", "solids")
+    assert res.stoichiometry == {"Na+": 1.0, "H2O": 1.0, "H+": -1.0}
+    assert sum(m * lk.log_k for _, m, lk in res.terms) == pytest.approx(15.5)

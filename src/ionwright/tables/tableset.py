@@ -112,11 +112,14 @@ class TableSet:
                                             f"{' -> '.join((*chain, name))}"])
         stoichiometry: dict[str, float] = {}
         terms: list[tuple[str, float, LogK]] = [(name, 1.0, record.logk)]
+        # A species is formed FROM its parts, so their formation constants multiply in;
+        # a solid or gas dissolves INTO its parts, so theirs divide out.
+        sign = 1.0 if kind == "species" else -1.0
         for part, coeff in record.reaction.items():
             sub = self._resolve(part, "species", (*chain, name))
             for comp, nu in sub.stoichiometry.items():
                 stoichiometry[comp] = stoichiometry.get(comp, 0.0) + coeff * nu
-            terms.extend((n, coeff * m, lk) for n, m, lk in sub.terms)
+            terms.extend((n, sign * coeff * m, lk) for n, m, lk in sub.terms)
         stoichiometry = {c: v for c, v in stoichiometry.items() if abs(v) > BALANCE_TOLERANCE}
         return Resolved(name, stoichiometry, tuple(terms))
 

@@ -1,0 +1,118 @@
+"""Benchmark: Pitzer against Davies on the same batch of seawater-like brines.
+
+Each sample is a mean-seawater-like major-ion makeup (a scenario of our own, not a
+standard) scaled by a random factor between 0.5 and 3 (I ≈ 0.35–2.1 mol/kg) with each
+ion jittered by ±10 %, at 5–35 °C. The script times, median of three runs, (1) the full
+vectorised solve of the batch and (2) one evaluation of ln γ and ln a(H2O) for the whole
+batch, and writes the table to ``benchmarks/RESULTS-pitzer.md`` (ratios are what to
+compare between machines). Pitzer depends on composition, so the solver takes its careful
+path; Davies is also timed on that path to separate the model's cost from the path's.
+
+Run: ``python benchmarks/bench_pitzer.py [--samples N] [--seed S]``.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import platform
+import statistics
+import time
+from pathlib import Path
+
+import numpy as np
+
+from ionwright import solver
+from ionwright.activity import DaviesModel, PitzerModel
+from ionwright.engine import load_tables
+from ionwright.system import compile_system
+
+RUNS = 3
+# mol per kg of water of each ingredient in the unscaled brine
+SEAWATER_LIKE = {"Na+": 0.4186 + 2 * 0.0282 + 0.0018 + 2 * 0.0002, "K+": 0.0102,
+                 "Ca+2": 0.0103, "Mg+2": 0.0528, "Cl-": 0.4186 + 0.0102 + 2 * 0.0103
+                 + 2 * 0.0528, "SO4-2": 0.0282, "CO3-2": 0.0018 + 0.0002}
+# protons carried by the ingredients: NaHCO3 brings one H+ per carbonate
+PROTONS = 0.0018
+RESULTS = Path(__file__).with_name("RESULTS-pitzer.md")
+
+
+def batch(samples: int, seed: int):
+    """The compiled system, totals (n, c) and temperatures (n,) of the benchmark brines."""
+    rng = np.random.default_rng(seed)
+    tables = load_tables(["core"])
+    system = compile_system(tables, SEAWATER_LIKE)
+    scale = rng.uniform(0.5, 3.0, samples)
+    totals = np.zeros((samples, system.n_components))
+    for j, comp in enumerate(system.components):
+        base = PROTONS if comp == "H+" else SEAWATER_LIKE[comp]
+        jitter = 1.0 if comp == "H+" else rng.uniform(0.9, 1.1, samples)
+        totals[:, j] = base * scale * jitter
+    # restore electroneutrality of the jittered salts with chloride
+    charge = {c: z for c, z in zip(system.components, system.charge[: system.n_components])}
+    excess = sum(totals[:, j] * charge[c] for j, c in enumerate(system.components) if c != "H+")
+    excess += totals[:, 0]  # the protons of bicarbonate
+    totals[:, system.components.index("Cl-")] += excess
+    return system, totals, rng.uniform(5.0, 35.0, samples)
+
+
+def median_time(work, runs: int = RUNS) -> tuple[float, object]:
+    times, out = [], None
+    for _ in range(runs):
+        start = time.perf_counter()
+        out = work()
+        times.append(time.perf_counter() - start)
+    return statistics.median(times), out
+
+
+def main() -> None:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--samples", type=int, default=2000)
+    parser.add_argument("--seed", type=int, default=20261201)
+    args = parser.parse_args()
+    system, totals, t_C = batch(args.samples, args.seed)
+    rows = {}
+    for label, model, method in (("davies", DaviesModel(), "auto"),
+                                 ("davies, careful path", DaviesModel(), "careful"),
+                                 ("pitzer", PitzerModel(), "auto")):
+        bound = model.bind(system.properties, t_C)
+        solve_s, eq = median_time(lambda: solver.solve(system, totals, bound, method=method))
+        molality = eq.molality
+        u = np.sqrt(eq.ionic_strength)
+
+        def evaluate():
+            bound.ln_gamma(u, molality)
+            bound.ln_water_activity(molality)
+
+        eval_s, _ = median_time(evaluate)
+        status = {s: int(np.sum(eq.status == s)) for s in np.unique(eq.status)}
+        rows[label] = (solve_s, eval_s, status, float(np.median(eq.iterations)),
+                       float(np.median(eq.ionic_strength)))
+    dav, careful, pit = rows["davies"], rows["davies, careful path"], rows["pitzer"]
+    n = args.samples
+    lines = [
+        "# Pitzer vs Davies: seawater-like brines",
+        "",
+        f"Written by `benchmarks/bench_pitzer.py --samples {n} --seed {args.seed}`; median of "
+        f"{RUNS} runs; {len(system.species)} species, {system.n_components} components; "
+        f"I median {pit[4]:.2f} mol/kg (0.35–2.1).",
+        f"Machine: {platform.machine()}, {os.cpu_count()} CPU, Python "
+        f"{platform.python_version()}, numpy {np.__version__}.",
+        "",
+        "| model | solve batch / s | samples/s | ln γ + ln a(H2O) batch / s | median iterations "
+        "| status |",
+        "|---|---|---|---|---|---|",
+    ]
+    for name, (solve_s, eval_s, status, its, _) in rows.items():
+        lines.append(f"| {name} | {solve_s:.3f} | {n / solve_s:,.0f} | {eval_s * 1e3:.2f} ms "
+                     f"| {its:g} | {', '.join(f'{k}: {v}' for k, v in status.items())} |")
+    lines += ["", f"Ratio Pitzer / Davies: full solve **{pit[0] / dav[0]:.1f}×**, one "
+              f"activity evaluation **{pit[1] / dav[1]:.1f}×**; Pitzer / Davies on the same "
+              f"careful path: **{pit[0] / careful[0]:.2f}×**.", ""]
+    text = "\n".join(lines)
+    RESULTS.write_text(text, encoding="utf-8")
+    print(text)
+
+
+if __name__ == "__main__":
+    main()

@@ -1,0 +1,79 @@
+"""Model comparison: the verdict rule, the per-model checks, and the result's extra keys."""
+
+from __future__ import annotations
+
+import ionwright
+from ionwright.compare import ModelOutcome, choose_trusted, compare_models
+
+BRINE = {"title": "Saltmarsh pickle brine (a scenario of our own)",
+         "dissolve": {"NaCl": 3.0, "NaHCO3": 0.01}}
+BUFFER = {"title": "Lotion-line phosphate rinse (a scenario of our own)",
+          "dissolve": {"KH2PO4": 0.01, "Na2HPO4": 0.01}}
+
+
+class _FakeResult:
+    ionic_strength = 1.2
+
+
+def _outcome(name, limit, valid, complete, missing=()):
+    return ModelOutcome(name, name, limit, _FakeResult(), None, valid, complete,
+                        tuple(missing), ())
+
+
+def test_trust_goes_to_the_widest_valid_and_complete_model():
+    outcomes = [_outcome("davies", 0.5, False, True), _outcome("truesdell-jones", 2.0, True,
+                True), _outcome("pitzer", 6.0, True, False, ["Na+–X-"])]
+    name, reason = choose_trusted(outcomes)
+    assert name == "truesdell-jones" and "widest range" in reason
+
+
+def test_without_a_complete_model_the_one_lacking_least_is_named_as_an_estimate():
+    outcomes = [_outcome("a", 2.0, True, False, ["x", "y"]), _outcome("b", 6.0, True, False,
+                ["x"])]
+    name, reason = choose_trusted(outcomes)
+    assert name == "b" and "estimate" in reason
+
+
+def test_no_model_is_trusted_when_none_is_valid():
+    name, reason = choose_trusted([_outcome("davies", 0.5, False, True)])
+    assert name is None and "no model is valid" in reason
+
+
+def test_a_strong_brine_is_given_to_pitzer():
+    comparison = compare_models(BRINE)
+    assert comparison.trusted == "pitzer"
+    pitzer = comparison.outcome("pitzer")
+    assert pitzer.valid and pitzer.complete
+    assert not comparison.outcome("davies").valid
+    assert comparison.key_species[:2] == ("Cl-", "Na+") or comparison.key_species[:2] == (
+        "Na+", "Cl-")
+    text = comparison.report()
+    assert "trust: pitzer" in text and "davies*" in text and "a(H2O)" in text
+    data = comparison.to_dict()
+    assert data["trusted"] == "pitzer"
+    assert [m["name"] for m in data["models"]][:4] == ["ideal", "davies",
+                                                       "extended-debye-huckel",
+                                                       "truesdell-jones"]
+
+
+def test_a_dilute_phosphate_buffer_is_not_given_to_pitzer_without_its_parameters():
+    comparison = compare_models(BUFFER)
+    pitzer = comparison.outcome("pitzer")
+    assert not pitzer.complete
+    assert any("PO4" in m for m in pitzer.missing)
+    assert comparison.trusted == "davies"  # valid to 0.5 and needs no per-ion parameters
+    assert "lacks" not in comparison.reason
+
+
+def test_json_of_a_result_has_water_activity_only_where_the_model_gives_it():
+    davies = ionwright.solve(BUFFER).to_dict()
+    assert davies["water_activity"] is None and davies["osmotic_coefficient"] is None
+    pitzer = ionwright.solve({**BRINE, "activity_model": "pitzer"}).to_dict()
+    assert 0.85 < pitzer["water_activity"] < 0.95
+    assert 1.0 < pitzer["osmotic_coefficient"] < 1.1
+
+
+def test_a_pitzer_result_past_its_fits_says_so():
+    result = ionwright.solve({"activity_model": "pitzer", "dissolve": {"NaCl": 6.5}})
+    assert any("past the fitted range of Na+–Cl-" in w for w in result.warnings)
+    assert any("beyond the range of the pitzer model" in w for w in result.warnings)

@@ -1,0 +1,95 @@
+"""Sweeps: one batch, analytic slopes, equivalence points, partial results kept."""
+
+from __future__ import annotations
+
+import csv
+import io
+
+import numpy as np
+import pytest
+
+from ionwright import solver, sweep
+from ionwright.errors import RecipeError
+
+ACETIC = {"title": "vinegar rinse (demo)", "dissolve": {"acetic acid": 0.05}}
+
+
+@pytest.fixture
+def solver_calls(monkeypatch):
+    calls = []
+    original = solver.solve
+
+    def counting(*args, **kwargs):
+        calls.append(np.atleast_2d(args[1]).shape[0])
+        return original(*args, **kwargs)
+
+    monkeypatch.setattr(solver, "solve", counting)
+    return calls
+
+
+def test_a_temperature_sweep_is_one_batched_solve(solver_calls):
+    result = sweep.temperature_series(ACETIC, "5:60", points=56)
+    assert solver_calls == [56]
+    assert result.values.size == 56 and result.complete
+
+
+def test_titration_slope_is_the_derivative_of_the_curve():
+    result = sweep.titration(ACETIC, "NaOH 0.1 mol/L", "800 mL", points=401)
+    v, ph = result.values, result.pH
+    # centred difference of the curve on a fine grid, away from the steep end point
+    numeric = (ph[2:] - ph[:-2]) / (v[2:] - v[:-2])
+    inner = slice(40, 200)
+    assert result.slope[1:-1][inner] == pytest.approx(numeric[inner], rel=2e-3)
+
+
+def test_acetic_acid_equivalence_point_is_at_the_stoichiometric_volume():
+    # 0.05 mol acetic acid per kg of water, 0.1 mol/L NaOH: 500 mL of titrant
+    result = sweep.titration(ACETIC, "NaOH 0.1 mol/L", "800 mL", points=201)
+    assert len(result.equivalence) == 1
+    ep = result.equivalence[0]
+    assert ep["titrant_mL"] == pytest.approx(500.0, rel=0.005)
+    assert 8.0 < ep["pH"] < 9.5
+
+
+def test_a_sweep_out_of_the_model_range_keeps_the_points_before():
+    result = sweep.titration(ACETIC, "NaOH 5 mol/L", "200 mL", points=51)
+    assert not result.complete
+    assert "beyond the davies model's range" in result.stopped
+    assert 0 < result.values.size < 51
+    assert np.all(result.ionic_strength <= 0.5)
+
+
+def test_a_temperature_sweep_past_100_c_keeps_what_it_can():
+    result = sweep.temperature_series(ACETIC, "20:120", points=11)
+    assert result.values.max() <= 100.0
+    assert "0–100 °C" in result.stopped
+
+
+def test_csv_has_a_header_and_one_row_per_point():
+    result = sweep.dilution(ACETIC, "1:100", points=5, species=("CH3COOH", "CH3COO-"))
+    rows = list(csv.DictReader(io.StringIO(result.to_csv())))
+    assert len(rows) == 5
+    assert {"dilution_factor", "pH", "m(CH3COOH)", "m(CH3COO-)"} <= set(rows[0])
+    assert float(rows[-1]["pH"]) > float(rows[0]["pH"])      # dilution raises the pH
+
+
+def test_a_ph_series_gives_fractions_that_add_up():
+    result = sweep.pH_series({"dissolve": {"NaH2PO4": 0.01}}, "2:12", points=21)
+    shares = result.fraction("PO4-3")
+    total = sum(shares.values())
+    assert np.allclose(total, 1.0)
+    assert np.all(result.beta > 0)
+
+
+def test_bad_ranges_are_refused():
+    with pytest.raises(RecipeError):
+        sweep.temperature_series(ACETIC, "five:sixty")
+    with pytest.raises(RecipeError):
+        sweep.dilution(ACETIC, "1:1")
+
+
+def test_saturation_indices_are_tabulated():
+    result = sweep.temperature_series({"dissolve": {"CaCl2": 0.003, "NaHCO3": 0.005}},
+                                      "5:80", points=8)
+    assert "calcite" in result.saturation
+    assert np.all(np.diff(result.saturation["calcite"]) > 0)   # calcite: less soluble hot
