@@ -56,13 +56,33 @@ def batch(samples: int, seed: int):
     return system, totals, rng.uniform(5.0, 35.0, samples)
 
 
-def median_time(work, runs: int = RUNS) -> tuple[float, object]:
-    times, out = [], None
+def median_time(work, runs: int = RUNS) -> tuple[float, float, object]:
+    """Median wall-clock and CPU seconds of *runs* calls of *work*, and its last result."""
+    wall, cpu, out = [], [], None
     for _ in range(runs):
-        start = time.perf_counter()
+        start, start_cpu = time.perf_counter(), time.process_time()
         out = work()
-        times.append(time.perf_counter() - start)
-    return statistics.median(times), out
+        wall.append(time.perf_counter() - start)
+        cpu.append(time.process_time() - start_cpu)
+    return statistics.median(wall), statistics.median(cpu), out
+
+
+def time_model(system, totals: np.ndarray, t_C: np.ndarray, model, method: str) -> dict:
+    """Median timings of one model on the batch: full solve, and one ln γ + ln a(H2O) call."""
+    bound = model.bind(system.properties, t_C)
+    solve_s, solve_cpu, eq = median_time(
+        lambda: solver.solve(system, totals, bound, method=method))
+    u = np.sqrt(eq.ionic_strength)
+
+    def evaluate():
+        bound.ln_gamma(u, eq.molality)
+        bound.ln_water_activity(eq.molality)
+
+    eval_s, _, _ = median_time(evaluate)
+    return {"solve": solve_s, "cpu": solve_cpu, "evaluate": eval_s,
+            "status": {str(s): int(np.sum(eq.status == s)) for s in np.unique(eq.status)},
+            "iterations": float(np.median(eq.iterations)),
+            "ionic_strength": float(np.median(eq.ionic_strength))}
 
 
 def main() -> None:
@@ -71,44 +91,34 @@ def main() -> None:
     parser.add_argument("--seed", type=int, default=20261201)
     args = parser.parse_args()
     system, totals, t_C = batch(args.samples, args.seed)
-    rows = {}
-    for label, model, method in (("davies", DaviesModel(), "auto"),
-                                 ("davies, careful path", DaviesModel(), "careful"),
-                                 ("pitzer", PitzerModel(), "auto")):
-        bound = model.bind(system.properties, t_C)
-        solve_s, eq = median_time(lambda: solver.solve(system, totals, bound, method=method))
-        molality = eq.molality
-        u = np.sqrt(eq.ionic_strength)
-
-        def evaluate():
-            bound.ln_gamma(u, molality)
-            bound.ln_water_activity(molality)
-
-        eval_s, _ = median_time(evaluate)
-        status = {s: int(np.sum(eq.status == s)) for s in np.unique(eq.status)}
-        rows[label] = (solve_s, eval_s, status, float(np.median(eq.iterations)),
-                       float(np.median(eq.ionic_strength)))
+    rows = {label: time_model(system, totals, t_C, model, method)
+            for label, model, method in (("davies", DaviesModel(), "auto"),
+                                         ("davies, careful path", DaviesModel(), "careful"),
+                                         ("pitzer", PitzerModel(), "auto"))}
     dav, careful, pit = rows["davies"], rows["davies, careful path"], rows["pitzer"]
     n = args.samples
     lines = [
         "# Pitzer vs Davies: seawater-like brines",
         "",
-        f"Written by `benchmarks/bench_pitzer.py --samples {n} --seed {args.seed}`; median of "
-        f"{RUNS} runs; {len(system.species)} species, {system.n_components} components; "
-        f"I median {pit[4]:.2f} mol/kg (0.35–2.1).",
-        f"Machine: {platform.machine()}, {os.cpu_count()} CPU, Python "
-        f"{platform.python_version()}, numpy {np.__version__}.",
+        (f"Written by `benchmarks/bench_pitzer.py --samples {n} --seed {args.seed}`; median "
+         f"of {RUNS} runs; {len(system.species)} species, {system.n_components} components; "
+         f"I median {pit['ionic_strength']:.2f} mol/kg (0.35–2.1)."),
+        (f"Machine: {platform.machine()}, {os.cpu_count()} CPU, load average "
+         f"{os.getloadavg()[0]:.1f} at the end, Python {platform.python_version()}, numpy "
+         f"{np.__version__}. Wall-clock times; CPU seconds of the solve in brackets."),
         "",
-        "| model | solve batch / s | samples/s | ln γ + ln a(H2O) batch / s | median iterations "
-        "| status |",
+        ("| model | solve batch / s | samples/s | ln γ + ln a(H2O) batch | median "
+         "iterations | status |"),
         "|---|---|---|---|---|---|",
     ]
-    for name, (solve_s, eval_s, status, its, _) in rows.items():
-        lines.append(f"| {name} | {solve_s:.3f} | {n / solve_s:,.0f} | {eval_s * 1e3:.2f} ms "
-                     f"| {its:g} | {', '.join(f'{k}: {v}' for k, v in status.items())} |")
-    lines += ["", f"Ratio Pitzer / Davies: full solve **{pit[0] / dav[0]:.1f}×**, one "
-              f"activity evaluation **{pit[1] / dav[1]:.1f}×**; Pitzer / Davies on the same "
-              f"careful path: **{pit[0] / careful[0]:.2f}×**.", ""]
+    for name, r in rows.items():
+        status = ", ".join(f"{k}: {v}" for k, v in r["status"].items())
+        lines.append(f"| {name} | {r['solve']:.3f} ({r['cpu']:.3f}) | {n / r['solve']:,.0f} "
+                     f"| {r['evaluate'] * 1e3:.2f} ms | {r['iterations']:g} | {status} |")
+    lines += ["", (f"Ratio Pitzer / Davies: full solve **{pit['solve'] / dav['solve']:.1f}×**, "
+                   f"one activity evaluation **{pit['evaluate'] / dav['evaluate']:.1f}×**; "
+                   f"Pitzer / Davies on the same careful path: "
+                   f"**{pit['solve'] / careful['solve']:.2f}×**."), ""]
     text = "\n".join(lines)
     RESULTS.write_text(text, encoding="utf-8")
     print(text)

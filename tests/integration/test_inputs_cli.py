@@ -11,7 +11,7 @@ import pytest
 
 def run(*args, cwd=None):
     return subprocess.run([sys.executable, "-m", "ionwright", *args], capture_output=True,
-                          text=True, cwd=cwd, timeout=120)
+                          text=True, cwd=cwd, timeout=120, check=False)
 
 
 BAD = {

@@ -12,7 +12,7 @@ from hypothesis import strategies as st
 
 from ionwright.activity import PitzerModel
 from ionwright.activity.base import SpeciesProperties
-from ionwright.activity.pitzer import ALPHA_2_2, CationAnion, PitzerParameters
+from ionwright.activity.pitzer_table import ALPHA_2_2, CationAnion, PitzerParameters
 from ionwright.formula import parse_formula
 from ionwright.water import osmotic_A_phi
 

@@ -11,8 +11,8 @@ from scipy.integrate import quad
 
 from ionwright.activity import DaviesModel, ExtendedDebyeHuckelModel, PitzerModel
 from ionwright.activity.base import SpeciesProperties
-from ionwright.activity.pitzer import (ALPHA_2_2, NOT_FORMED_LN_GAMMA, SERIES_BELOW, _g,
-                                       bundled_parameters, j_function, parse_parameters)
+from ionwright.activity.pitzer import NOT_FORMED_LN_GAMMA, SERIES_BELOW, _g, j_function
+from ionwright.activity.pitzer_table import ALPHA_2_2, bundled_parameters, parse_parameters
 from ionwright.errors import TableError
 from ionwright.water import debye_huckel_A, osmotic_A_phi
 

@@ -1,0 +1,90 @@
+"""``ionwright batch``: CSV and Parquet in and out, in chunks, nothing lost, exit status."""
+
+from __future__ import annotations
+
+import subprocess
+import sys
+
+import pandas as pd
+import pytest
+
+from ionwright.cli import main
+
+BAD_ROWS = """sample,NaCl,CaCl2,pH,Ca [mg/gallon],temperature_C
+good,0.01,0.001,,0,25
+empty-cell,0.01,,7.5,0,25
+text,lots,0.001,,0,25
+unknown-unit,0.01,0.001,8,4.2,25
+negative,-0.01,0.001,8,0,25
+too-hot,0.01,0.001,8,0,130
+"""
+
+
+def test_a_file_with_bad_rows_gives_output_for_every_row(tmp_path, capsys):
+    source, target = tmp_path / "in.csv", tmp_path / "out.csv"
+    source.write_text(BAD_ROWS, encoding="utf-8")
+    assert main(["batch", str(source), "-o", str(target), "--chunk-rows", "2"]) == 0
+    out = pd.read_csv(target)
+    assert list(out["sample"]) == ["good", "empty-cell", "text", "unknown-unit", "negative",
+                                   "too-hot"]
+    assert list(out["status"]) == ["converged"] + ["invalid"] * 5
+    named = dict(zip(out["sample"], out["message"]))
+    assert "column 'CaCl2'" in named["empty-cell"] and "empty" in named["empty-cell"]
+    assert "column 'NaCl'" in named["text"] and "not a number" in named["text"]
+    assert "column 'Ca [mg/gallon]'" in named["unknown-unit"]
+    assert "column 'NaCl'" in named["negative"] and "negative" in named["negative"]
+    assert "column 'temperature_C'" in named["too-hot"]
+    summary = capsys.readouterr().out
+    assert "6 rows: 1 converged, 0 failed, 5 invalid" in summary
+
+
+def _waters(n: int) -> pd.DataFrame:
+    return pd.DataFrame({"site": [f"well-{k}" for k in range(n)],
+                         "NaCl": [0.001 * (1 + k % 7) for k in range(n)],
+                         "CaCl2": [0.0005 * (1 + k % 3) for k in range(n)],
+                         "NaHCO3": [0.002] * n,
+                         "temperature_C": [5.0 + k % 30 for k in range(n)]})
+
+
+@pytest.mark.parametrize("suffix_in, suffix_out", [(".csv", ".parquet"), (".parquet", ".csv"),
+                                                   (".parquet", ".parquet")])
+def test_chunked_streaming_equals_one_batch(tmp_path, suffix_in, suffix_out):
+    frame = _waters(23)
+    source, target = tmp_path / f"in{suffix_in}", tmp_path / f"out{suffix_out}"
+    frame.to_csv(source, index=False) if suffix_in == ".csv" else frame.to_parquet(source)
+    assert main(["batch", str(source), "-o", str(target), "--chunk-rows", "5",
+                 "--species", "CaCO3", "HCO3-"]) == 0
+    out = pd.read_csv(target) if suffix_out == ".csv" else pd.read_parquet(target)
+    whole = __import__("ionwright").solve_batch(frame, species=["CaCO3", "HCO3-"])
+    assert len(out) == 23 and list(out["site"]) == list(frame["site"])
+    for column in ("solved pH", "m(CaCO3) [mol/kg]", "SI(calcite)"):
+        assert out[column].to_numpy() == pytest.approx(whole[column].to_numpy(), rel=1e-12)
+
+
+def test_exit_status_is_one_when_a_row_fails(tmp_path, monkeypatch, capsys):
+    from ionwright import solver
+
+    monkeypatch.setattr(solver, "FAST_ITERATIONS", 1)
+    monkeypatch.setattr(solver, "CAREFUL_OUTER_ITERATIONS", 1)
+    monkeypatch.setattr(solver, "CAREFUL_INNER_ITERATIONS", 1)
+    source, target = tmp_path / "in.csv", tmp_path / "out.csv"
+    source.write_text("KH2PO4,CaCl2,NaHCO3\n0.5,0.2,0.3\n", encoding="utf-8")
+    assert main(["batch", str(source), "-o", str(target)]) == 1
+    assert pd.read_csv(target)["status"].tolist() == ["failed"]  # written all the same
+    assert "1 row(s) failed" in capsys.readouterr().err
+
+
+def test_a_wrong_suffix_is_a_user_error(tmp_path, capsys):
+    source = tmp_path / "in.csv"
+    source.write_text("NaCl\n0.1\n", encoding="utf-8")
+    assert main(["batch", str(source), "-o", str(tmp_path / "out.xlsx")]) == 2
+    assert "neither .csv nor .parquet" in capsys.readouterr().err
+
+
+def test_no_progress_bar_when_not_a_terminal(tmp_path):
+    source, target = tmp_path / "in.csv", tmp_path / "out.csv"
+    _waters(4).to_csv(source, index=False)
+    done = subprocess.run([sys.executable, "-m", "ionwright", "batch", str(source), "-o",
+                           str(target)], capture_output=True, text=True, check=True)
+    assert done.stderr == ""
+    assert done.stdout.startswith("4 rows: 4 converged")
