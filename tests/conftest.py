@@ -40,12 +40,12 @@ MINI_TABLE = textwrap.dedent('''
 
     [species."OH-"]
     from = { H2O = 1, "H+" = -1 }
-    log_k = -14.0
+    log10_k = -14.0
     source = "test"
     ion_size = 3.5
     [species.CH3COOH]
     from = { "CH3COO-" = 1, "H+" = 1 }
-    log_k = 4.756
+    log10_k = 4.756
     source = "test"
 
     [reagents."acetic acid"]

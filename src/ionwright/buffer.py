@@ -137,8 +137,8 @@ def mean_protons(component: str, tables, pH: float, t_C: float) -> float:
     """Average protons bound per buffer molecule at *pH* and *t_C* (ideal solution)."""
     species = _protonated(component, tables)
     k = np.array([0.0, *species])
-    log_k = np.array([0.0, *(float(_log10_k_total(tables, s, t_C)) for s in species.values())])
-    weight = log_k - k * pH
+    log10_k = np.array([0.0, *(float(_log10_k_total(tables, s, t_C)) for s in species.values())])
+    weight = log10_k - k * pH
     w = np.exp((weight - weight.max()) * np.log(10.0))
     return float((k * w).sum() / w.sum())
 

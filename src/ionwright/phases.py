@@ -472,7 +472,7 @@ class _Work:
         self.p_old = np.array([s.stoichiometry for s in self.solids]).reshape(m, c)
         self.p_new = self.basis.new_direction(self.p_old) if m else self.p_old
         self.water = np.array([s.water for s in self.solids])
-        self.log_k = (np.array([s.log10_k(self.t_C) for s in self.solids]).T if m
+        self.log10_k = (np.array([s.log10_k(self.t_C) for s in self.solids]).T if m
                       else np.zeros((n, 0)))
         mode = np.array([x.mode for x in self.modes], dtype=object)
         self.precipitate_only = mode == PRECIPITATE_ONLY
@@ -504,7 +504,7 @@ class _Work:
             return np.zeros((rows.size, 0))
         old = self.basis.old_log_activity(eq.log_activity, eq.ln_water_activity, self.t_C[rows])
         log_iap = (old @ self.p_old.T + eq.ln_water_activity[:, None] * self.water) / LN10
-        si = log_iap - self.log_k[rows]
+        si = log_iap - self.log10_k[rows]
         return np.where(eq.status[:, None] == "converged", si, np.nan)
 
     # -- the whole iteration -----------------------------------------------------------------

@@ -23,8 +23,8 @@ KIND = {"species": "species", "solids": "solid", "gases": "gas", "components": "
 PLURAL = {"species": "species", "solid": "solids", "gas": "gases"}
 
 # (label, record attribute or LogK attribute, unit) compared when one entry overrides another
-_COMPARED = (("log K", "log_k", ""), ("ΔH°", "delta_h", " kJ/mol"),
-             ("ΔCp°", "delta_cp", " J/(mol K)"), ("analytic", "analytic", ""),
+_COMPARED = (("log K", "log10_k", ""), ("ΔH°", "enthalpy_kJ", " kJ/mol"),
+             ("ΔCp°", "heat_capacity_J", " J/(mol K)"), ("analytic", "analytic", ""),
              ("range", "range_C", " °C"), ("reaction", "reaction", ""),
              ("formula", "formula", ""), ("ion size", "ion_size", " Å"),
              ("tj_a", "tj_a", " Å"), ("tj_b", "tj_b", " kg/mol"),
@@ -117,8 +117,8 @@ def constants_section(result) -> list[str]:
         lines.append(f"  {table:<16}{parts}{recalled}")
     for e in entries:
         for old in e["overrides"]:
-            lines.append(f"  override        {e['name']}: log K {old['log_k_25C']:g} "
-                         f"({old['table']}) -> {e['log_k_25C']:g} ({e['table']})")
+            lines.append(f"  override        {e['name']}: log K {old['log10_k_25C']:g} "
+                         f"({old['table']}) -> {e['log10_k_25C']:g} ({e['table']})")
     return lines
 
 
@@ -136,7 +136,7 @@ def explain(result) -> str:
         known = (f", known {e['range_C'][0]:g}–{e['range_C'][1]:g} °C" if e["range_C"] else "")
         spread = f" ± {e['uncertainty']:g}" if e["uncertainty"] is not None else ""
         lines += ["", f"{e['name']} ({e['kind']}): {e['reaction']}",
-                  f"  log K {e['log_k_25C']:g}{spread} at 25 °C, {e['log_k_at_T']:.4f} at "
+                  f"  log K {e['log10_k_25C']:g}{spread} at 25 °C, {e['log10_k_at_T']:.4f} at "
                   f"{t:g} °C ({e['temperature_method']}){known}",
                   f"  table {e['table']} ({e['table_origin']})",
                   f"  source {e['source']}" + ("  [from memory: verify]" if e["from_memory"]
@@ -144,8 +144,8 @@ def explain(result) -> str:
         if e["note"]:
             lines.append(f"  note {e['note']}")
         for old in e["overrides"]:
-            lines.append(f"  overrides table {old['table']}: log K {old['log_k_25C']:g} at "
-                         f"25 °C, {old['log_k_at_T']:.4f} at {t:g} °C "
+            lines.append(f"  overrides table {old['table']}: log K {old['log10_k_25C']:g} at "
+                         f"25 °C, {old['log10_k_at_T']:.4f} at {t:g} °C "
                          f"({old['temperature_method']}); source {old['source']}"
                          + ("  [from memory]" if old["from_memory"] else ""))
     return "\n".join(lines)
@@ -181,7 +181,7 @@ def _used_entries(result) -> list[tuple[str, str]]:
 
 def _logk_fields(record, t: np.ndarray) -> dict[str, Any]:
     logk = record.logk
-    return {"log_k_25C": logk.log_k, "log_k_at_T": float(log10_k_at(logk, t)[0]),
+    return {"log10_k_25C": logk.log10_k, "log10_k_at_T": float(log10_k_at(logk, t)[0]),
             "temperature_method": "none" if logk.method.startswith("none") else logk.method}
 
 

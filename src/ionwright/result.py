@@ -95,8 +95,8 @@ class Result:
             if not set(res.stoichiometry) <= allowed:
                 continue
             log_iap = sum(nu * log_a[c] for c, nu in res.stoichiometry.items())
-            log_k = sum(m * float(log10_k_at(lk, t)[0]) for _, m, lk in res.terms)
-            out[name] = float(log_iap - log_k)
+            log10_k = sum(m * float(log10_k_at(lk, t)[0]) for _, m, lk in res.terms)
+            out[name] = float(log_iap - log10_k)
         return out
 
     def distribution(self) -> dict[str, dict[str, float]]:

@@ -27,11 +27,11 @@ def log10_k_at(logk: LogK, t_C: np.ndarray) -> np.ndarray:
     T = np.asarray(t_C, dtype=float) + KELVIN
     if logk.analytic is not None:
         return temperature.analytic(logk.analytic, T)
-    if logk.delta_cp is not None:
-        return temperature.van_t_hoff_cp(logk.log_k, logk.delta_h, logk.delta_cp, T)
-    if logk.delta_h is not None:
-        return temperature.van_t_hoff(logk.log_k, logk.delta_h, T)
-    return np.full_like(T, logk.log_k)
+    if logk.heat_capacity_J is not None:
+        return temperature.van_t_hoff_cp(logk.log10_k, logk.enthalpy_kJ, logk.heat_capacity_J, T)
+    if logk.enthalpy_kJ is not None:
+        return temperature.van_t_hoff(logk.log10_k, logk.enthalpy_kJ, T)
+    return np.full_like(T, logk.log10_k)
 
 
 @dataclass(frozen=True)

@@ -27,7 +27,7 @@ _LN10 = np.log(10.0)
 _ANALYTIC_TERMS = 5  # a, b, c, d, e
 
 
-def van_t_hoff(log_k25: ArrayOrFloat, delta_h_kJ: ArrayOrFloat, T: ArrayOrFloat) -> ArrayOrFloat:
+def van_t_hoff(log_k25: ArrayOrFloat, enthalpy_kJ: ArrayOrFloat, T: ArrayOrFloat) -> ArrayOrFloat:
     """log10 K at *T* from log10 K at 298.15 K and a temperature-independent ΔH°.
 
     log10 K(T) = log10 K(T_r) − ΔH°/(R ln 10) · (1/T − 1/T_r).
@@ -36,7 +36,7 @@ def van_t_hoff(log_k25: ArrayOrFloat, delta_h_kJ: ArrayOrFloat, T: ArrayOrFloat)
     ----------
     log_k25 : float or ndarray
         log10 K at :data:`T_REF`.
-    delta_h_kJ : float or ndarray
+    enthalpy_kJ : float or ndarray
         Standard reaction enthalpy ΔH° in kJ/mol.
     T : float or ndarray
         Temperature in K.
@@ -46,11 +46,11 @@ def van_t_hoff(log_k25: ArrayOrFloat, delta_h_kJ: ArrayOrFloat, T: ArrayOrFloat)
     van 't Hoff, J.H. (1884), Études de dynamique chimique, Amsterdam.
     """
     T = np.asarray(T, dtype=float)
-    delta_h = np.asarray(delta_h_kJ, dtype=float) * 1000.0
-    return log_k25 - delta_h / (R * _LN10) * (1.0 / T - 1.0 / T_REF)
+    enthalpy_J = np.asarray(enthalpy_kJ, dtype=float) * 1000.0
+    return log_k25 - enthalpy_J / (R * _LN10) * (1.0 / T - 1.0 / T_REF)
 
 
-def van_t_hoff_cp(log_k25: ArrayOrFloat, delta_h_kJ: ArrayOrFloat, delta_cp_J: ArrayOrFloat,
+def van_t_hoff_cp(log_k25: ArrayOrFloat, enthalpy_kJ: ArrayOrFloat, heat_capacity_J: ArrayOrFloat,
                   T: ArrayOrFloat) -> ArrayOrFloat:
     """log10 K at *T* from log10 K, ΔH° (kJ/mol) and a constant ΔCp° (J/mol/K) at 298.15 K.
 
@@ -64,9 +64,9 @@ def van_t_hoff_cp(log_k25: ArrayOrFloat, delta_h_kJ: ArrayOrFloat, delta_cp_J: A
     Goldberg, R.N., Kishore, N. & Lennen, R.M. (2002), J. Phys. Chem. Ref. Data 31, 231–370.
     """
     T = np.asarray(T, dtype=float)
-    delta_cp = np.asarray(delta_cp_J, dtype=float)
-    heat_capacity_term = delta_cp / (R * _LN10) * (T_REF / T - 1.0 + np.log(T / T_REF))
-    return van_t_hoff(log_k25, delta_h_kJ, T) + heat_capacity_term
+    heat_capacity = np.asarray(heat_capacity_J, dtype=float)
+    heat_capacity_term = heat_capacity / (R * _LN10) * (T_REF / T - 1.0 + np.log(T / T_REF))
+    return van_t_hoff(log_k25, enthalpy_kJ, T) + heat_capacity_term
 
 
 def _analytic_coefficients(coeffs: Sequence[float]) -> npt.NDArray[np.float64]:

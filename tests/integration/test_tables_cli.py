@@ -27,17 +27,17 @@ CLEAN = textwrap.dedent('''
     [species.HLac]
     formula = "C3H6O3"
     from = { "Lac-" = 1, "H+" = 1 }
-    log_k = 3.86
-    delta_h = 0.3
+    log10_k = 3.86
+    enthalpy_kJ = 0.3
     source = "nb7"
     [species.CH3COOH]
     from = { "CH3COO-" = 1, "H+" = 1 }
-    log_k = 4.80
+    log10_k = 4.80
     source = "nb7"
     [solids."calcium lactate"]
     formula = "CaC6H10O6"
     dissolves_to = { "Ca+2" = 1, "Lac-" = 2 }
-    log_k = -3.0
+    log10_k = -3.0
     source = "nb7"
 ''')
 
@@ -75,44 +75,44 @@ def test_check_passes_a_clean_in_house_table_that_uses_core_components(tmp_path,
 
 
 def test_check_reports_a_toml_syntax_error_with_file_and_line(tmp_path, capsys):
-    path = write(tmp_path, "typo.toml", CLEAN.replace("log_k = 3.86", "log_k = 3.86.1"))
+    path = write(tmp_path, "typo.toml", CLEAN.replace("log10_k = 3.86", "log10_k = 3.86.1"))
     code, out, _ = run(capsys, "tables", "check", path)
     assert code == 1
     assert "typo.toml: 1 problem(s)" in out
-    assert "TOML syntax error at line 14, column 13" in out
+    assert "TOML syntax error at line 14, column 15" in out
 
 
 def test_check_names_a_duplicate_entry_and_both_lines(tmp_path, capsys):
     twice = CLEAN + textwrap.dedent('''
         [species.HLac]
         from = { "Lac-" = 1, "H+" = 1 }
-        log_k = 3.9
+        log10_k = 3.9
         source = "nb7"
     ''')
     code, out, _ = run(capsys, "tables", "check", write(tmp_path, "twice.toml", twice))
     assert code == 1
     assert "duplicate: species 'HLac' is defined twice (line 11 and line 27)" in out
-    repeated_key = CLEAN.replace("log_k = 3.86\n", "log_k = 3.86\nlog_k = 3.87\n")
+    repeated_key = CLEAN.replace("log10_k = 3.86\n", "log10_k = 3.86\nlog10_k = 3.87\n")
     code, out, _ = run(capsys, "tables", "check", write(tmp_path, "key.toml", repeated_key))
-    assert "duplicate: species 'HLac': log_k is given twice (line 14 and line 15)" in out
+    assert "duplicate: species 'HLac': log10_k is given twice (line 14 and line 15)" in out
 
 
 def test_check_lists_every_problem_of_a_file_not_only_the_first(tmp_path, capsys):
     bad = (CLEAN
            .replace('from = { "Lac-" = 1, "H+" = 1 }', 'from = { "Lac-" = 1, "H+" = 2 }')
-           .replace("delta_h = 0.3", "delta_h = 300000")                  # J/mol, not kJ/mol
+           .replace("enthalpy_kJ = 0.3", "enthalpy_kJ = 300000")                  # J/mol, not kJ/mol
            .replace('dissolves_to = { "Ca+2" = 1, "Lac-" = 2 }',
                     'dissolves_to = { "Ca+2" = 1, "Lactate-" = 2 }')       # unknown name
-           .replace('[species.CH3COOH]\nfrom = { "CH3COO-" = 1, "H+" = 1 }\nlog_k = 4.80\n'
+           .replace('[species.CH3COOH]\nfrom = { "CH3COO-" = 1, "H+" = 1 }\nlog10_k = 4.80\n'
                     'source = "nb7"',
-                    '[species.CH3COOH]\nfrom = { "CH3COO-" = 1, "H+" = 1 }\nlog_k = 4.80\n'
+                    '[species.CH3COOH]\nfrom = { "CH3COO-" = 1, "H+" = 1 }\nlog10_k = 4.80\n'
                     'range_C = [60.0, 5.0]')                               # no source, range
            + '[components."Zn+2"]\nion_size = 60\nsource = "nb7"\n')       # Å out of range
     code, out, _ = run(capsys, "tables", "check", write(tmp_path, "bad.toml", bad))
     assert code == 1
     assert "bad.toml: 7 problem(s)" in out
     for expected in (
-            "species 'HLac': delta_h = 300000.0 kJ/mol is outside ±500; is it in J/mol?",
+            "species 'HLac': enthalpy_kJ = 300000.0 kJ/mol is outside ±500; is it in J/mol?",
             "species 'CH3COOH': missing source",
             "species 'CH3COOH': range_C = [60.0, 5.0] must be two ordered temperatures in °C",
             "component 'Zn+2': ion size 60.0 Å must be in (0, 15] Å",
@@ -243,7 +243,7 @@ def test_solve_explain_prints_every_constant_and_json_has_them(tmp_path, capsys)
     code, out, _ = run(capsys, "solve", recipe, "--json")
     used = {e["name"]: e for e in json.loads(out)["constants_used"]}
     assert used["CH3COOH"]["table"] == "bench"
-    assert used["CH3COOH"]["overrides"][0]["log_k_25C"] == 4.756
+    assert used["CH3COOH"]["overrides"][0]["log10_k_25C"] == 4.756
 
 
 def test_show_a_kind_lists_every_entry_of_it(capsys):

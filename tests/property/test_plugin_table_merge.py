@@ -51,11 +51,11 @@ def distinct_tables(draw) -> list[dict]:
     tables = [{"about": {"name": f"lab-{i}", "format_version": 1},
                "sources": {"demo": "invented values for a property test"}, "species": {}}
               for i in range(n)]
-    for index, owner, log_k, delta_h in zip(chosen, owners, log_ks, delta_hs):
+    for index, owner, log10_k, enthalpy_kJ in zip(chosen, owners, log_ks, delta_hs):
         name, reaction, formula = POOL[index]
-        entry = {"formula": formula, "from": reaction, "log_k": log_k, "source": "demo"}
-        if delta_h is not None:
-            entry["delta_h"] = delta_h
+        entry = {"formula": formula, "from": reaction, "log10_k": log10_k, "source": "demo"}
+        if enthalpy_kJ is not None:
+            entry["enthalpy_kJ"] = enthalpy_kJ
         tables[owner]["species"][name] = entry
     return tables
 
@@ -84,9 +84,9 @@ def merged(*datas: dict) -> dict:
 def system_view(tables: TableSet) -> dict:
     """Every species of the compiled system: its stoichiometry and log10 K at three T."""
     system = compile_system(tables, PRESENT)
-    log_k = system.log10_k(TEMPERATURES)
+    log10_k = system.log10_k(TEMPERATURES)
     return {name: (tuple(system.nu[i]), system.nu_water[i], system.charge[i],
-                   tuple(np.round(log_k[:, i], 12)))
+                   tuple(np.round(log10_k[:, i], 12)))
             for i, name in enumerate(system.species)} | {"#components": system.components}
 
 

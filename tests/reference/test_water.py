@@ -205,8 +205,8 @@ def test_kw_enthalpy_and_heat_capacity_at_25_C():
     assert _ionization_enthalpy_kJ(25.0) == pytest.approx(55.815, abs=0.7)
     # Singh, Woolley, McCurdy & Hepler (1976), Can. J. Chem. 54, 3315:
     # ΔCp° = −215.2 ± 4.5 J/K/mol at 298 K
-    delta_cp = (_ionization_enthalpy_kJ(25.5) - _ionization_enthalpy_kJ(24.5)) * 1000.0
-    assert delta_cp == pytest.approx(-215.2, abs=9.0)
+    heat_capacity_J = (_ionization_enthalpy_kJ(25.5) - _ionization_enthalpy_kJ(24.5)) * 1000.0
+    assert heat_capacity_J == pytest.approx(-215.2, abs=9.0)
 
 
 def test_kw_uses_the_given_density():

@@ -29,11 +29,11 @@ EXTRA = textwrap.dedent('''
 
     [species.HOCl]
     from = { "OCl-" = 1, "H+" = 1 }
-    log_k = 7.53
+    log10_k = 7.53
     source = "Morris1966"
     [species.HCN]
     from = { "CN-" = 1, "H+" = 1 }
-    log_k = 9.21
+    log10_k = 9.21
     source = "SmithMartell"
 
     [reagents."sodium hypochlorite"]

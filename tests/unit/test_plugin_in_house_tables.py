@@ -15,7 +15,7 @@ PLUGIN_VARIABLES = ("IONWRIGHT_NO_PLUGINS", "IONWRIGHT_TRACE_PLUGINS",
                     "IONWRIGHT_EXCLUDE_PLUGINS", "IONWRIGHT_PLUGIN_CONFLICTS", "IONWRIGHT_TABLES")
 
 
-def house_table(name: str, log_k: float = 4.80) -> str:
+def house_table(name: str, log10_k: float = 4.80) -> str:
     """An in-house table that re-measures acetic acid (demo value, not data)."""
     return textwrap.dedent(f'''
         [about]
@@ -25,7 +25,7 @@ def house_table(name: str, log_k: float = 4.80) -> str:
         bench = "in-house titration, notebook 7 (demo value for the tests)"
         [species.CH3COOH]
         from = {{ "CH3COO-" = 1, "H+" = 1 }}
-        log_k = {log_k}
+        log10_k = {log10_k}
         source = "bench"
     ''')
 
@@ -58,7 +58,7 @@ def test_ionwright_tables_registers_files_and_folders_by_their_about_name(tmp_pa
     assert registry.owner("table", "house-a") == str(single)
     assert registry.owner("table", "house-b") == str(folder / "b.toml")
     result = ionwright.solve(acetic(["core", "house-b"]))
-    assert [e["log_k_25C"] for e in result.to_dict()["constants_used"]
+    assert [e["log10_k_25C"] for e in result.to_dict()["constants_used"]
             if e["name"] == "CH3COOH"] == [4.70]
 
 
@@ -88,7 +88,7 @@ def test_same_name_in_folder_and_environment_is_a_conflict_and_the_later_wins(
 
 def test_a_missing_or_broken_in_house_file_blocks_solves_until_excluded(tmp_path, monkeypatch):
     broken = tmp_path / "broken.toml"
-    broken.write_text(house_table("broken").replace("log_k = 4.8", "log_k = 4.8 4.9"),
+    broken.write_text(house_table("broken").replace("log10_k = 4.8", "log10_k = 4.8 4.9"),
                       encoding="utf-8")
     missing = tmp_path / "gone.toml"
     monkeypatch.setenv("IONWRIGHT_TABLES", os.pathsep.join([str(broken), str(missing)]))

@@ -38,7 +38,7 @@ ACID_TABLE = textwrap.dedent('''
     [species.HBz]
     formula = "C3H4O2"
     from = { "Bz-" = 1, "H+" = 1 }
-    log_k = 4.30
+    log10_k = 4.30
     source = "demo"
     [reagents."bench acid"]
     formula = "C3H4O2"
@@ -350,7 +350,7 @@ def test_a_table_reagent_overrides_a_plugin_reagent_and_the_result_says_so():
 
 
 def test_build_table_applies_the_loader_checks_to_a_mapping():
-    with pytest.raises(TableError, match="species 'X': missing log_k"):
+    with pytest.raises(TableError, match="species 'X': missing log10_k"):
         build_table({"about": {"name": "m", "format_version": 1},
                      "species": {"X": {"formula": "HCl", "from": {"H+": 1, "Cl-": 1},
                                        "source": "s"}}}, origin="<mapping>")

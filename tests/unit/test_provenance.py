@@ -22,8 +22,8 @@ REVIEW = textwrap.dedent('''
     review = "{citation}"
     [species.CH3COOH]
     from = {{ "CH3COO-" = 1, "H+" = 1 }}
-    log_k = {log_k}
-    delta_h = 0.41
+    log10_k = {log10_k}
+    enthalpy_kJ = 0.41
     source = "review"
 ''')
 
@@ -41,9 +41,9 @@ def no_plugins(monkeypatch):
     default_registry.cache_clear()
 
 
-def review(tmp_path, name="review", log_k=4.80, citation="Bench review 2025 (demo)"):
+def review(tmp_path, name="review", log10_k=4.80, citation="Bench review 2025 (demo)"):
     path = tmp_path / f"{name}.toml"
-    path.write_text(REVIEW.format(name=name, log_k=log_k, citation=citation), encoding="utf-8")
+    path.write_text(REVIEW.format(name=name, log10_k=log10_k, citation=citation), encoding="utf-8")
     return str(path)
 
 
@@ -63,8 +63,8 @@ def test_every_species_constant_of_the_system_is_listed_once_with_its_fields():
     for e in entries:
         section = {"species": "species", "solid": "solids", "gas": "gases"}[e["kind"]]
         record = getattr(result.tables, section)[e["name"]]
-        assert e["log_k_25C"] == record.logk.log_k
-        assert e["log_k_at_T"] == pytest.approx(float(log10_k_at(record.logk, t)[0]))
+        assert e["log10_k_25C"] == record.logk.log10_k
+        assert e["log10_k_at_T"] == pytest.approx(float(log10_k_at(record.logk, t)[0]))
         assert e["temperature_method"] in {"van 't Hoff", "van 't Hoff + ΔCp°", "analytic",
                                            "none"}
         assert e["table"] == "core" and e["table_origin"] == core.origin
@@ -94,11 +94,11 @@ def test_a_one_species_override_changes_exactly_that_constant(tmp_path):
     changed = [s for s, a, b in zip(base.system.species, k_base, k_over) if a != b]
     assert changed == ["CH3COOH"]
     old, new = by_name(base)["CH3COOH"], by_name(over)["CH3COOH"]
-    assert new["log_k_25C"] == 4.80 and new["table"] == "review"
+    assert new["log10_k_25C"] == 4.80 and new["table"] == "review"
     assert new["source"] == "Bench review 2025 (demo)"
     assert new["overrides"] == [{
-        "table": "core", "table_origin": old["table_origin"], "log_k_25C": 4.756,
-        "log_k_at_T": old["log_k_at_T"], "temperature_method": "van 't Hoff + ΔCp°",
+        "table": "core", "table_origin": old["table_origin"], "log10_k_25C": 4.756,
+        "log10_k_at_T": old["log10_k_at_T"], "temperature_method": "van 't Hoff + ΔCp°",
         "source": old["source"], "from_memory": old["from_memory"]}]
     others = {k: v for k, v in by_name(over).items() if k != "CH3COOH"}
     assert others == {k: v for k, v in by_name(base).items() if k != "CH3COOH"}
@@ -110,16 +110,16 @@ def test_a_chain_of_overrides_lists_every_replaced_entry_newest_first(tmp_path):
     tables = ["core", review(tmp_path, "first", 4.78, "First review (demo)"),
               review(tmp_path, "second", 4.81, "Second review (demo)")]
     entry = by_name(ionwright.solve({**RECIPE, "tables": tables}))["CH3COOH"]
-    assert entry["log_k_25C"] == 4.81
-    assert [(o["table"], o["log_k_25C"], o["source"][:5]) for o in entry["overrides"]] == [
+    assert entry["log10_k_25C"] == 4.81
+    assert [(o["table"], o["log10_k_25C"], o["source"][:5]) for o in entry["overrides"]] == [
         ("first", 4.78, "First"), ("core", 4.756, "Goldb")]
 
 
 def test_overrides_the_solve_did_not_use_are_named_in_one_warning(tmp_path):
-    text = REVIEW.format(name="wide", log_k=4.8, citation="c") + textwrap.dedent('''
+    text = REVIEW.format(name="wide", log10_k=4.8, citation="c") + textwrap.dedent('''
         [species."NH4+"]
         from = { NH3 = 1, "H+" = 1 }
-        log_k = 9.25
+        log10_k = 9.25
         source = "review"
     ''')
     path = tmp_path / "wide.toml"
@@ -134,7 +134,7 @@ def test_constants_used_is_in_the_json_result_and_serialises(tmp_path):
     result = ionwright.solve({**RECIPE, "tables": ["core", review(tmp_path)]})
     data = json.loads(json.dumps(result.to_dict(), ensure_ascii=False))
     assert data["constants_used"] == constants_used(result)
-    assert {"name", "kind", "reaction", "log_k_25C", "log_k_at_T", "temperature_method",
+    assert {"name", "kind", "reaction", "log10_k_25C", "log10_k_at_T", "temperature_method",
             "uncertainty", "range_C", "table", "table_origin", "source", "from_memory",
             "note", "overrides"} == set(data["constants_used"][0])
 

@@ -47,24 +47,24 @@ def test_every_problem_is_listed_not_only_the_first(make_table):
         [species.X1]
         formula = "NaCl"
         from = { "Na+" = 1, "Cl-" = 1 }
-        log_k = 0.5
-        delta_h = 5000
+        log10_k = 0.5
+        enthalpy_kJ = 5000
         source = "test"
         [species.X2]
         formula = "NaOH"
         from = { "Na+" = 1, "OH-" = 1 }
-        log_k = 0.1
+        log10_k = 0.1
         colour = "blue"
         source = "test"
         [species.X3]
         formula = "KCl"
         from = { "K+" = 1, "Cl-" = 1 }
-        log_k = 0.1
+        log10_k = 0.1
     '''
     with pytest.raises(TableError) as err:
         make_table(extra)
     problems = err.value.problems
-    assert any("delta_h = 5000" in p and "kJ/mol" in p for p in problems)
+    assert any("enthalpy_kJ = 5000" in p and "kJ/mol" in p for p in problems)
     assert any("unknown key(s) colour" in p for p in problems)
     assert any("X3" in p and "missing source" in p for p in problems)
 
@@ -73,7 +73,7 @@ def test_unbalanced_reaction_shows_both_sides(make_table):
     extra = '''
         [species.NaOH]
         from = { "Na+" = 1, "H2O" = 1 }
-        log_k = -14.2
+        log10_k = -14.2
         source = "test"
     '''
     with pytest.raises(TableError) as err:
@@ -90,7 +90,7 @@ def test_unknown_component_is_named(make_table):
         [species.NaSO4]
         formula = "NaSO4-"
         from = { "Na+" = 1, "SO4-2" = 1 }
-        log_k = 0.7
+        log10_k = 0.7
         source = "test"
     '''
     with pytest.raises(TableError) as err:
@@ -107,14 +107,14 @@ def test_later_table_overrides_and_the_override_is_recorded(make_table):
         lab = "in-house titration, 2026"
         [species.CH3COOH]
         from = { "CH3COO-" = 1, "H+" = 1 }
-        log_k = 4.80
+        log10_k = 4.80
         source = "lab"
     ''')
     house = parse_table(override, origin="house.toml")
     tables = TableSet([make_table(), house])
-    assert tables.species["CH3COOH"].logk.log_k == 4.80
+    assert tables.species["CH3COOH"].logk.log10_k == 4.80
     (record,) = tables.overrides
-    assert record.name == "CH3COOH" and record.old.logk.log_k == 4.756
+    assert record.name == "CH3COOH" and record.old.logk.log10_k == 4.756
     assert tables.citation(tables.species["CH3COOH"]) == "in-house titration, 2026"
 
 
@@ -124,17 +124,17 @@ def test_species_built_on_species_resolve_to_components_and_add_log_k(make_table
         source = "test"
         [species."HCO3-"]
         from = { "CO3-2" = 1, "H+" = 1 }
-        log_k = 10.3
+        log10_k = 10.3
         source = "test"
         [species.CO2]
         from = { "HCO3-" = 1, "H+" = 1, H2O = -1 }
-        log_k = 6.35
+        log10_k = 6.35
         source = "test"
     '''
     tables = TableSet([make_table(extra)])
     res = tables.resolve("CO2")
     assert res.stoichiometry == {"CO3-2": 1.0, "H+": 2.0, "H2O": -1.0}
-    assert sum(m * lk.log_k for _, m, lk in res.terms) == pytest.approx(16.65)
+    assert sum(m * lk.log10_k for _, m, lk in res.terms) == pytest.approx(16.65)
 
 
 def test_missing_basis_is_reported(mini_text):
@@ -169,10 +169,10 @@ def test_a_solid_dissolving_into_a_formed_species_divides_by_its_formation_const
         [solids.sodium_hydroxide]
         formula = "NaOH"
         dissolves_to = { "Na+" = 1, "OH-" = 1 }
-        log_k = 1.5
+        log10_k = 1.5
         source = "test"
     '''
     tables = TableSet([make_table(extra)])
     res = tables.resolve("sodium_hydroxide", "solids")
     assert res.stoichiometry == {"Na+": 1.0, "H2O": 1.0, "H+": -1.0}
-    assert sum(m * lk.log_k for _, m, lk in res.terms) == pytest.approx(15.5)
+    assert sum(m * lk.log10_k for _, m, lk in res.terms) == pytest.approx(15.5)

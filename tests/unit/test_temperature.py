@@ -21,9 +21,9 @@ from ionwright.temperature import (
 
 LN10 = math.log(10.0)
 
-log_k = st.floats(-20.0, 20.0)
-delta_h_kJ = st.floats(-200.0, 200.0)
-delta_cp_J = st.floats(-500.0, 500.0)
+log10_k = st.floats(-20.0, 20.0)
+enthalpy_kJ = st.floats(-200.0, 200.0)
+heat_capacity_J = st.floats(-500.0, 500.0)
 kelvin = st.floats(273.15, 373.15)
 
 deterministic = settings(derandomize=True, deadline=None, max_examples=200)
@@ -36,14 +36,14 @@ def slope_in_inverse_T(log_k_of_T, T: float, step: float = 1e-9) -> float:
 
 
 @deterministic
-@given(log_k, delta_h_kJ)
+@given(log10_k, enthalpy_kJ)
 def test_van_t_hoff_returns_log_k25_at_the_reference_temperature(log_k25, dh):
     """At T = 298.15 K the van 't Hoff correction vanishes, whatever ΔH°."""
     assert van_t_hoff(log_k25, dh, T_REF) == pytest.approx(log_k25, abs=1e-12)
 
 
 @deterministic
-@given(log_k, delta_h_kJ, kelvin)
+@given(log10_k, enthalpy_kJ, kelvin)
 def test_van_t_hoff_slope_in_inverse_T_is_minus_delta_h_over_R_ln10(log_k25, dh, T):
     """d log10 K / d(1/T) = −ΔH°/(R ln 10) everywhere (constant ΔH°)."""
     slope = slope_in_inverse_T(lambda t: van_t_hoff(log_k25, dh, t), T)
@@ -51,7 +51,7 @@ def test_van_t_hoff_slope_in_inverse_T_is_minus_delta_h_over_R_ln10(log_k25, dh,
 
 
 @deterministic
-@given(log_k, delta_h_kJ, delta_cp_J, kelvin)
+@given(log10_k, enthalpy_kJ, heat_capacity_J, kelvin)
 def test_van_t_hoff_cp_slope_follows_delta_h_of_T(log_k25, dh, dcp, T):
     """With constant ΔCp°, d log10 K / d(1/T) = −[ΔH° + ΔCp°(T − T_r)]/(R ln 10)."""
     slope = slope_in_inverse_T(lambda t: van_t_hoff_cp(log_k25, dh, dcp, t), T)
@@ -60,14 +60,14 @@ def test_van_t_hoff_cp_slope_follows_delta_h_of_T(log_k25, dh, dcp, T):
 
 
 @deterministic
-@given(log_k, delta_h_kJ, delta_cp_J)
+@given(log10_k, enthalpy_kJ, heat_capacity_J)
 def test_van_t_hoff_cp_returns_log_k25_at_the_reference_temperature(log_k25, dh, dcp):
     """Both correction terms vanish at T_r."""
     assert van_t_hoff_cp(log_k25, dh, dcp, T_REF) == pytest.approx(log_k25, abs=1e-12)
 
 
 @deterministic
-@given(log_k, delta_h_kJ, kelvin)
+@given(log10_k, enthalpy_kJ, kelvin)
 def test_van_t_hoff_cp_with_zero_cp_is_van_t_hoff(log_k25, dh, T):
     """ΔCp° = 0 turns the heat-capacity form into the plain van 't Hoff form."""
     assert van_t_hoff_cp(log_k25, dh, 0.0, T) == pytest.approx(van_t_hoff(log_k25, dh, T),
@@ -75,7 +75,7 @@ def test_van_t_hoff_cp_with_zero_cp_is_van_t_hoff(log_k25, dh, T):
 
 
 @deterministic
-@given(log_k, delta_h_kJ, delta_cp_J, kelvin)
+@given(log10_k, enthalpy_kJ, heat_capacity_J, kelvin)
 def test_van_t_hoff_cp_is_an_analytic_expression_with_the_same_enthalpy(log_k25, dh, dcp, T):
     """Constant ΔCp° is a + c/T + d·log10 T with d = ΔCp°/R; its ΔH(T) is ΔH° + ΔCp°(T−T_r).
 
@@ -161,8 +161,8 @@ def test_phosphate_pk2_at_37_C_from_goldberg_parameters():
       pK(37 °C) = 7.198 − 0.0244021 + 0.0092311 = 7.182829
     This checks the formula, not the data.
     """
-    log_k = van_t_hoff_cp(-7.198, 3.6, -230.0, 310.15)
-    assert -log_k == pytest.approx(7.182829, abs=2e-6)
+    log10_k = van_t_hoff_cp(-7.198, 3.6, -230.0, 310.15)
+    assert -log10_k == pytest.approx(7.182829, abs=2e-6)
 
 
 @pytest.mark.parametrize("coeffs, goldberg_delta_h_kJ", [

@@ -230,11 +230,11 @@ def _describe(section: str, record) -> str:
     logk = record.logk
     extra = "".join([
         f" ± {logk.uncertainty:g}" if logk.uncertainty is not None else "",
-        f", ΔH° {logk.delta_h:g} kJ/mol" if logk.delta_h is not None else "",
-        f", ΔCp° {logk.delta_cp:g} J/(mol K)" if logk.delta_cp is not None else "",
+        f", ΔH° {logk.enthalpy_kJ:g} kJ/mol" if logk.enthalpy_kJ is not None else "",
+        f", ΔCp° {logk.heat_capacity_J:g} J/(mol K)" if logk.heat_capacity_J is not None else "",
         ", analytic" if logk.analytic is not None else "",
         f", {logk.range_C[0]:g}–{logk.range_C[1]:g} °C" if logk.range_C else ""])
-    return f"{equation(section, record)}; log K {logk.log_k:g}{extra}"
+    return f"{equation(section, record)}; log K {logk.log10_k:g}{extra}"
 
 
 def _terms(amounts) -> str:
@@ -395,7 +395,7 @@ def _skeleton(section: str, entry) -> dict:
         return {}
     out = {k: entry[k] for k in _SKELETON_KEYS[section] if k in entry}
     if section in ("species", "solids", "gases"):
-        out["log_k"] = 0.0
+        out["log10_k"] = 0.0
     return {**out, "source": "(placeholder for the balance check)"}
 
 

@@ -23,7 +23,7 @@ from .records import Component, ConstantTable, LogK, Phase, Reagent, Species, fr
 
 FORMAT_VERSION = 1
 
-_LOGK_KEYS = {"log_k", "delta_h", "delta_cp", "analytic", "range_C", "uncertainty"}
+_LOGK_KEYS = {"log10_k", "enthalpy_kJ", "heat_capacity_J", "analytic", "range_C", "uncertainty"}
 _COMMON = {"source", "from_memory", "note", "formula"}
 _ALLOWED = {
     "components": _COMMON | {"ion_size", "tj_a", "tj_b"},
@@ -180,9 +180,9 @@ class _Builder:
         return {k: float(v) for k, v in value.items()}
 
     def _logk(self, where: str, entry: dict) -> LogK | None:
-        log_k = self._number(where, entry, "log_k", required=True)
-        dh = self._number(where, entry, "delta_h")
-        dcp = self._number(where, entry, "delta_cp")
+        log10_k = self._number(where, entry, "log10_k", required=True)
+        dh = self._number(where, entry, "enthalpy_kJ")
+        dcp = self._number(where, entry, "heat_capacity_J")
         unc = self._number(where, entry, "uncertainty")
         analytic = _number_list(entry.get("analytic"))
         range_c = _number_list(entry.get("range_C"))
@@ -191,9 +191,9 @@ class _Builder:
         if entry.get("range_C") is not None and (range_c is None or len(range_c) != 2):
             self.problems.append(f"{where}: range_C must be [low, high] in °C")
             range_c = None
-        if log_k is None:
+        if log10_k is None:
             return None
-        record = LogK(log_k, dh, dcp, analytic, range_c, unc)
+        record = LogK(log10_k, dh, dcp, analytic, range_c, unc)
         problems = record.problems(where)
         self.problems.extend(problems)
         return None if problems else record

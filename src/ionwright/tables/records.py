@@ -29,12 +29,12 @@ class LogK:
     """log10 K of one reaction at 25 °C and how it changes with temperature.
 
     ``analytic`` (a, b, c, d, e) means log10 K = a + bT + c/T + d log10 T + e/T²
-    and takes precedence over ``delta_h`` (kJ/mol) and ``delta_cp`` (J/(mol K)).
+    and takes precedence over ``enthalpy_kJ`` (kJ/mol) and ``heat_capacity_J`` (J/(mol K)).
     """
 
-    log_k: float
-    delta_h: float | None = None
-    delta_cp: float | None = None
+    log10_k: float
+    enthalpy_kJ: float | None = None
+    heat_capacity_J: float | None = None
     analytic: tuple[float, ...] | None = None
     range_C: tuple[float, float] | None = None
     uncertainty: float | None = None
@@ -42,15 +42,15 @@ class LogK:
     def problems(self, where: str) -> list[str]:
         """Every out-of-range or inconsistent field, as messages naming *where*."""
         out = []
-        if self.delta_h is not None and abs(self.delta_h) > DELTA_H_LIMIT_KJ:
-            out.append(f"{where}: delta_h = {self.delta_h} kJ/mol is outside "
-                       f"±{DELTA_H_LIMIT_KJ:g}; is it in J/mol? delta_h is in kJ/mol")
-        if self.delta_cp is not None:
-            if abs(self.delta_cp) > DELTA_CP_LIMIT_J:
-                out.append(f"{where}: delta_cp = {self.delta_cp} J/(mol K) is outside "
+        if self.enthalpy_kJ is not None and abs(self.enthalpy_kJ) > DELTA_H_LIMIT_KJ:
+            out.append(f"{where}: enthalpy_kJ = {self.enthalpy_kJ} kJ/mol is outside "
+                       f"±{DELTA_H_LIMIT_KJ:g}; is it in J/mol? enthalpy_kJ is in kJ/mol")
+        if self.heat_capacity_J is not None:
+            if abs(self.heat_capacity_J) > DELTA_CP_LIMIT_J:
+                out.append(f"{where}: heat_capacity_J = {self.heat_capacity_J} J/(mol K) is outside "
                            f"±{DELTA_CP_LIMIT_J:g}")
-            if self.delta_h is None:
-                out.append(f"{where}: delta_cp needs delta_h as well")
+            if self.enthalpy_kJ is None:
+                out.append(f"{where}: heat_capacity_J needs enthalpy_kJ as well")
         if self.analytic is not None and not 1 <= len(self.analytic) <= 5:
             out.append(f"{where}: analytic needs 1 to 5 coefficients [a, b, c, d, e], "
                        f"got {len(self.analytic)}")
@@ -68,9 +68,9 @@ class LogK:
         """Name of the temperature description this record carries."""
         if self.analytic is not None:
             return "analytic"
-        if self.delta_cp is not None:
+        if self.heat_capacity_J is not None:
             return "van 't Hoff + ΔCp°"
-        if self.delta_h is not None:
+        if self.enthalpy_kJ is not None:
             return "van 't Hoff"
         return "none (25 °C value)"
 
