@@ -41,6 +41,13 @@ class Makeup:
 
 def makeup(name: str, tables: TableSet) -> Makeup:
     """The :class:`Makeup` of ingredient *name*; raise a clear error when it has none."""
+    known = tables.memo.setdefault("makeup", {})
+    if name not in known:
+        known[name] = _makeup(name, tables)
+    return known[name]
+
+
+def _makeup(name: str, tables: TableSet) -> Makeup:
     reagent = tables.reagent(name)
     if reagent is not None:
         if reagent.makes is not None:

@@ -61,6 +61,7 @@ class TableSet:
             for label in (reagent.name, *reagent.aliases):
                 self._reagent_index[label.casefold()] = reagent
         self._resolved: dict[str, Resolved] = {}
+        self.memo: dict[str, dict] = {}  # results derived from the (immutable) set, by kind
         problems = self.problems()
         if problems:
             raise TableError(" + ".join(t.origin for t in tables), problems)
