@@ -5,6 +5,7 @@
 >>> result.pH                                                  # doctest: +SKIP
 """
 
+from .batch import solve_batch
 from .design import target
 from .engine import load_tables, solve
 from .errors import (ConvergenceError, FormulaError, IonwrightError, PluginError,
@@ -15,6 +16,7 @@ from .result import Result
 
 __version__ = "0.1.0"
 
-__all__ = ["solve", "target", "load_tables", "read_recipe", "Recipe", "Result", "hookimpl",
+__all__ = ["solve", "solve_batch", "target", "load_tables", "read_recipe", "Recipe", "Result",
+           "hookimpl",
            "IonwrightError", "ConvergenceError", "FormulaError", "PluginError",
            "RecipeError", "TableError", "UnknownNameError", "__version__"]

@@ -7,9 +7,10 @@ f(y) = Σ_i c_i(y) − Σ_j T_j y_j, whose Hessian Σ_i ν_i ν_iᵀ c_i is posi
 Samples are solved in chunks of :data:`CHUNK_SIZE`, with the sample axis last so that
 every operation runs over contiguous vectors of samples. The fast path (models whose γ
 depend on ionic strength alone) puts u into the Newton step. Residuals, their scales
-and the whole Jacobian are linear in c and in c·∂lnγ/∂u, so one sparse matrix product
-gives them for a chunk; the mass-balance block is factorised by a batched Cholesky and
-u is eliminated through its Schur complement. Every step is capped, then an Armijo
+and the whole Jacobian are linear in c and in c·∂lnγ/∂u, so two sparse matrix products
+(one for each) give them for a whole chunk; the mass-balance block is factorised by a
+batched sparse Cholesky (planned once per system, in a minimum-degree order) and u is
+eliminated through its Schur complement. Every step is capped, then an Armijo
 search on the scaled residual accepts it (switched off once the residual is at
 round-off); a sample stops when its residual *and* its Newton step are both small, and
 leaves the active set. Samples the fast path does not finish, and models whose γ depend
@@ -33,10 +34,11 @@ and §3.2.10 (block elimination by a Schur complement).
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field, replace
+from typing import Any
 
 import numpy as np
-from scipy import sparse
 
 from .activity.base import BoundModel
 from .errors import UnknownNameError
@@ -50,7 +52,7 @@ STEP_CAP = 4.0                 # largest change of any ln a in one Newton step
 LN_C_CEILING = 300.0           # keeps exp() finite on wild iterates
 IONIC_STRENGTH_CAP = 1.5       # u² stays below this × the fully dissociated ionic strength
 ROUND_OFF = 1e-13              # relative residual below which the line search is switched off
-CHUNK_SIZE = 8192              # samples per chunk: amortises numpy calls, stays in cache
+CHUNK_SIZE = 8192              # samples per chunk: amortises numpy's per-call cost
 FAST_ITERATIONS = 60
 CAREFUL_OUTER_ITERATIONS = 200
 CAREFUL_INNER_ITERATIONS = 100
@@ -105,7 +107,7 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     free = np.isnan(fixed[0]) if n else np.ones(c, dtype=bool)
     if not np.array_equal(np.isnan(fixed), np.broadcast_to(free, (n, c))):
         raise ValueError("every sample of a batch must fix the same components")
-    structure = _Structure.build(system, free)
+    structure = _structure(system, free)
     s = len(system.species)
     out = _Outputs.empty(n, c, s)
     infeasible = _infeasible(system, totals, free)
@@ -144,6 +146,23 @@ def bound_slice(bound: BoundModel, rows: np.ndarray) -> BoundModel:
 
 
 # -- the fixed structure of a system --------------------------------------------------------
+
+_STRUCTURES: dict[tuple, "_Structure"] = {}
+STRUCTURE_CACHE_SIZE = 256
+
+
+def _structure(system: ChemicalSystem, free: np.ndarray) -> "_Structure":
+    """The :class:`_Structure` of *system* with *free* components, built once and reused
+    (engine and batch compile the same systems again and again)."""
+    key = (system.components, system.species, system.nu.tobytes(), system.nu_water.tobytes(),
+           system.charge.tobytes(), free.tobytes())
+    found = _STRUCTURES.get(key)
+    if found is None:
+        if len(_STRUCTURES) >= STRUCTURE_CACHE_SIZE:
+            _STRUCTURES.clear()
+        found = _STRUCTURES[key] = _Structure.build(system, free)
+    return found
+
 
 @dataclass(frozen=True)
 class _Families:
@@ -205,23 +224,23 @@ class _Structure:
     """
 
     nu_dense: np.ndarray
-    nu: sparse.csr_array
-    nu_of_free: sparse.csr_array    # (s, f): the free columns of ν
-    nu_of_fixed: sparse.csr_array   # (s, c − f): the fixed columns of ν
-    nu_free: sparse.csr_array       # (f, s): Σ ν c of the free components
-    abs_nu_free: sparse.csr_array
+    nu: Any                         # scipy.sparse.csr_array (s, c)
+    nu_of_free: Any                 # (s, f): the free columns of ν
+    nu_of_fixed: Any                # (s, c − f): the fixed columns of ν
+    nu_free: Any                    # (f, s): Σ ν c of the free components
+    abs_nu_free: Any
     nu_water: np.ndarray
     z2: np.ndarray
     free: np.ndarray
-    weights: sparse.csr_array
-    weights_u: sparse.csr_array
+    weights: Any
+    weights_u: Any
     factor: "_SparseCholesky"
     nf: int
     proton: int
     families: _Families
     sweep_rows: np.ndarray          # rows of the free totals rescaled by the guess
     sweep_components: np.ndarray    # their components
-    sweep_terms: tuple[tuple[int, int, int], ...]  # (species, sweep row, ν) non-zeros
+    sweep_terms: tuple[tuple[int, int, float], ...]  # (species, sweep row, ν) non-zeros
 
     @classmethod
     def build(cls, system: ChemicalSystem, free: np.ndarray) -> "_Structure":
@@ -241,12 +260,14 @@ class _Structure:
             scaled[proton] = False
         sweep_rows = np.flatnonzero(scaled[free])
         sweep_components = np.flatnonzero(scaled)
-        sweep_terms = tuple((i, r, int(nu[i, j])) for r, j in enumerate(sweep_components)
+        sweep_terms = tuple((i, r, float(nu[i, j])) for r, j in enumerate(sweep_components)
                             for i in np.flatnonzero(nu[:, j]))
-        csr = sparse.csr_array
+        from scipy.sparse import csr_array as csr  # imported here: keeps `import` quick
+
         return cls(sweep_rows=sweep_rows, sweep_components=sweep_components,
-                   sweep_terms=sweep_terms, nu_dense=nu, nu=csr(nu), nu_of_free=csr(nu_f), nu_of_fixed=csr(nu[:, ~free]),
-                   nu_free=csr(nu_f.T), abs_nu_free=csr(np.abs(nu_f).T),
+                   sweep_terms=sweep_terms, nu_dense=nu, nu=csr(nu), nu_of_free=csr(nu_f),
+                   nu_of_fixed=csr(nu[:, ~free]), nu_free=csr(nu_f.T),
+                   abs_nu_free=csr(np.abs(nu_f).T),
                    nu_water=system.nu_water, z2=z2, free=free, weights=csr(weights),
                    weights_u=csr(weights_u), factor=factor, nf=nf, proton=proton,
                    families=_Families.of(nu, proton, free))
@@ -421,8 +442,9 @@ def _initial_guess(problem: _Problem, bound: BoundModel) -> tuple[np.ndarray, np
     else:
         h = _guess_proton(problem, base, y, member_k[fam.varying])
     if fam.owners.size:
-        partition = _sum0(np.moveaxis(member_k * np.exp(fam.proton_numbers[:, :, None] * h),
-                                      1, 0))
+        powers, where = np.unique(fam.proton_numbers, return_inverse=True)
+        x = np.exp(powers[:, None] * h)                     # a(H+)^ν for each distinct ν
+        partition = _sum0(np.moveaxis(member_k * x[where.reshape(fam.members.shape)], 1, 0))
         y[fam.owners] = (np.log(np.maximum(problem.full_totals[fam.owners], 1e-300))
                          - np.log(partition))
     if h_col >= 0:
@@ -433,12 +455,10 @@ def _initial_guess(problem: _Problem, bound: BoundModel) -> tuple[np.ndarray, np
                         SWEEP_LIMIT ** -1, SWEEP_LIMIT)
         y[st.sweep_components] += np.log(ratio)
         for species, row, power in st.sweep_terms:   # c_i ∝ Π_j a_j^ν_ij: no exp needed
-            if power > 0:
-                for _ in range(power):
-                    conc[species] *= ratio[row]
+            if power == 1:
+                conc[species] *= ratio[row]
             else:
-                for _ in range(-power):
-                    conc[species] /= ratio[row]
+                conc[species] *= ratio[row] ** power
     u = np.sqrt(np.clip(_weighted_sum(conc, 0.5 * st.z2), 0.0, problem.u_max ** 2))
     return y, u
 
@@ -468,7 +488,8 @@ def _guess_proton(problem: _Problem, base: np.ndarray, y_fixed: np.ndarray,
     k = problem.size
     lone = np.concatenate([fam.proton_only, fam.fixed_members])
     lone_nu = nu[lone, h_col]
-    lone_k = np.exp(np.minimum((base + st.nu @ y_fixed)[lone], LN_C_CEILING))
+    lone_lnc = (base + st.nu @ y_fixed)[lone] if (~st.free).any() else base[lone]
+    lone_k = np.exp(np.minimum(lone_lnc, LN_C_CEILING))
     vary = fam.varying
     member_nu = fam.proton_numbers[vary]                            # (Fv, M)
     powers = np.unique(np.concatenate([lone_nu, member_nu.ravel(), [0.0]]))
@@ -667,6 +688,8 @@ class _SparseCholesky:
         turns the step into a slightly damped one instead of a failure.
         """
         f, r, k = b.shape
+        if k == 1:
+            return self._solve_one(prod[:, 0], b[:, :, 0])[:, :, None]
         low = np.take(prod, self.source, axis=0)
         inv = np.empty((f, k))
         tmp = np.empty(k)
@@ -692,6 +715,37 @@ class _SparseCholesky:
                 z[j] -= t
             z[j] *= inv[j]
         x = np.empty_like(z)
+        x[list(self.order)] = z
+        return x
+
+
+    def _solve_one(self, prod: np.ndarray, b: np.ndarray) -> np.ndarray:
+        """:meth:`solve` for one sample, on Python floats: the same IEEE operations in the
+        same order (so the same bits) without numpy's per-call cost."""
+        f = b.shape[0]
+        if not f:
+            return np.empty(b.shape)
+        low = prod[self.source].tolist()
+        inv = [0.0] * f
+        for j, (start, end) in enumerate(self.columns):
+            diagonal = low[start]
+            for target, src, mult in self.updates[j]:
+                low[target] = low[target] - low[src] * low[mult]
+            pivot = max(low[start], PIVOT_FLOOR * diagonal + 1e-300)
+            low[start] = pivot if math.isnan(pivot) else math.sqrt(pivot)
+            inv[j] = 1.0 / low[start]
+            for e in range(start + 1, end):
+                low[e] = low[e] * inv[j]
+        z = b[list(self.order)].tolist()
+        for j in range(f):
+            z[j] = [v * inv[j] for v in z[j]]
+            for entry, i in self.lower[j]:
+                z[i] = [zi - zj * low[entry] for zi, zj in zip(z[i], z[j])]
+        for j in range(f - 1, -1, -1):
+            for entry, i in self.lower[j]:
+                z[j] = [zj - zi * low[entry] for zj, zi in zip(z[j], z[i])]
+            z[j] = [v * inv[j] for v in z[j]]
+        x = np.empty(b.shape)
         x[list(self.order)] = z
         return x
 
@@ -790,10 +844,11 @@ def _line_search(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndar
         decrease = 1.0 - 2.0 * ARMIJO * alpha[pending] * shrink[pending]
         ok = np.isfinite(merit) & (merit <= decrease * merit0[pending])
         ok |= at_round_off[pending] & np.all(np.isfinite(trial.res), axis=0)
+        if out is None and ok.all():  # the usual case: every full step is taken
+            y[:, active], u[active] = yt, ut
+            return trial, np.zeros(active.size, dtype=bool)
         rows = active[pending[ok]]
         y[:, rows], u[rows] = yt[:, ok], ut[ok]
-        if out is None and ok.all():
-            return trial, np.zeros(active.size, dtype=bool)
         if out is None:
             out = _Linearised(*(np.empty((*getattr(trial, n).shape[:-1], active.size))
                                 for n in _PARTS))
@@ -904,6 +959,8 @@ def _convex_newton(problem: _Problem, offset: np.ndarray, y: np.ndarray,
                                                              initial=0.0), 1e-300))
         slope = _sum0(grad * step)
         f0 = _objective(conc[:, active], problem.totals[:, active], yf[:, active])
+        # below f's own rounding no decrease can be seen: take the full Newton step
+        blind = ~(np.abs(slope) > ROUND_OFF * (np.abs(f0) + _sum0(conc[:, active])))
         alpha = np.ones(active.size)
         pending = np.arange(active.size)
         for _ in range(MAX_HALVINGS):
@@ -911,8 +968,8 @@ def _convex_newton(problem: _Problem, offset: np.ndarray, y: np.ndarray,
             trial = yf[:, idx] + alpha[pending] * step[:, pending]
             ct = np.exp(np.minimum(base[:, idx] + nu_f @ trial, LN_C_CEILING))
             ft = _objective(ct, problem.totals[:, idx], trial)
-            ok = ft <= f0[pending] + ARMIJO * alpha[pending] * slope[pending]
-            ok |= (rel[pending] <= ROUND_OFF) | ~(slope[pending] < 0)
+            ok = ft < f0[pending] + ARMIJO * alpha[pending] * slope[pending]
+            ok |= blind[pending] | (rel[pending] <= ROUND_OFF) | ~(slope[pending] < 0)
             ok &= np.isfinite(ft)
             yf[:, idx[ok]], conc[:, idx[ok]] = trial[:, ok], ct[:, ok]
             pending = pending[~ok]

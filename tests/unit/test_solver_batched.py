@@ -92,7 +92,7 @@ def test_a_returned_answer_needs_no_further_newton_step():
                                     np.full(totals.shape, np.nan))
     lin = solver._augmented(problem, bound, eq.log_activity.T.copy(),
                             np.sqrt(eq.ionic_strength))
-    dy, du = solver._newton_step(lin, structure.factor)
+    dy, _ = solver._newton_step(lin, structure.factor)
     assert np.abs(dy).max() <= solver.STEP_TOLERANCE
     assert lin.worst().max() <= solver.RESIDUAL_TOLERANCE
 
