@@ -67,5 +67,6 @@ def _survey(texts: list[str], as_json: bool) -> int:
         for warning in result.warnings:
             if warning.startswith(("CAUTION", "DATA QUALITY")):
                 print(f"\n{label}: {warning}")
-    print("\nEach sample in full: `ionwright solve` on its file (src/ionwright/demos/lake-*.toml).")
+    folder = files("ionwright") / "demos"
+    print(f"\nEach sample in full: `ionwright solve {folder}/lake-3-deep.toml` (and the others).")
     return 0
