@@ -17,7 +17,10 @@ is fixed or excluded (``IONWRIGHT_EXCLUDE_PLUGINS=name``).
 from __future__ import annotations
 
 from collections.abc import Mapping
-from importlib.resources.abc import Traversable
+try:
+    from importlib.resources.abc import Traversable
+except ImportError:  # Python 3.10
+    from importlib.abc import Traversable
 from pathlib import Path
 from typing import Union
 

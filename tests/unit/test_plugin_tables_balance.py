@@ -7,7 +7,10 @@ constants/ and plugins/. An example table may use the core table's components.
 
 from __future__ import annotations
 
-import tomllib
+try:
+    import tomllib
+except ModuleNotFoundError:  # Python 3.10
+    import tomli as tomllib
 from pathlib import Path
 
 import pytest

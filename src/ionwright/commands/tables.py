@@ -360,10 +360,9 @@ def _valid_part(text: str, origin: str):
     skeleton (formula and reaction only), so that its balance is checked too and the
     entries built on it do not report a missing name.
     """
-    import tomllib
-
     from ..errors import TableError
     from ..plugins import build_table
+    from ..tables.loader import tomllib
 
     data = tomllib.loads(text)
     header = {k: data[k] for k in ("about", "sources") if k in data}

@@ -7,7 +7,10 @@ table per cation, each key an anion with ``value`` (kg/mol), ``uncertainty``, ``
 
 from __future__ import annotations
 
-import tomllib
+try:
+    import tomllib
+except ModuleNotFoundError:  # Python 3.10
+    import tomli as tomllib
 from dataclasses import dataclass
 from functools import lru_cache
 from importlib.resources import files
