@@ -15,7 +15,7 @@ import numpy as np
 
 from .derived import charge_balance_error_percent
 from .formula import parse_formula
-from .system import PROTON, WATER, log10_k_at
+from .system import log10_k_at
 
 CORROSIVE_LOW_PH = 2.0     # 40 CFR 261.22(a)(1): pH ≤ 2 or ≥ 12.5 is corrosive
 CORROSIVE_HIGH_PH = 12.5
@@ -78,8 +78,7 @@ def _share(result, formula) -> tuple[float, str] | None:
     name = _species(result, formula)
     if name is None:
         return None
-    parents = [c for c in result.tables.resolve(name).stoichiometry if c not in (PROTON, WATER)]
-    total = sum(result.totals.get(c, 0.0) for c in parents)
+    total = result.parent_total(name)
     if total <= 0:
         return None
     return result.species_molality(name) / total, name

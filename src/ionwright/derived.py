@@ -14,7 +14,7 @@ from typing import Any
 import numpy as np
 
 from .formula import Formula, parse_formula
-from .system import PROTON, WATER, ChemicalSystem, log10_k_at
+from .system import WATER, ChemicalSystem, log10_k_at
 
 #: Acids with pK above this are proton acceptors' zero level (Dickson 1981).
 ALKALINITY_END_POINT_PH = 4.5
@@ -143,8 +143,7 @@ def _ammonia(result) -> tuple[float, float] | None:
     free = _species(result, _AMMONIA)
     if free is None:
         return None
-    carrier = [c for c in result.tables.resolve(free).stoichiometry if c not in (PROTON, WATER)]
-    total = sum(result.totals.get(c, 0.0) for c in carrier)
+    total = result.parent_total(free)
     if total <= 0:
         return None
     m = result.species_molality(free)

@@ -73,6 +73,11 @@ class Result:
     def species_molality(self, name: str) -> float:
         return float(self.molality[self.system.index(name)])
 
+    def parent_total(self, name: str) -> float:
+        """Total mol/kg of the components (but H+ and H2O) that species *name* is made of."""
+        parents = [c for c in self.tables.resolve(name).stoichiometry if c not in (PROTON, WATER)]
+        return float(sum(self.totals.get(c, 0.0) for c in parents))
+
     def species_activity(self, name: str) -> float:
         return float(self.activity[self.system.index(name)])
 
