@@ -34,13 +34,12 @@ and §3.2.10 (block elimination by a Schur complement).
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field, replace
-from typing import Any
 
 import numpy as np
 
 from .activity.base import BoundModel
+from .batched_sparse import SparseCholesky, SparseRows
 from .errors import UnknownNameError
 from .system import PROTON, ChemicalSystem
 
@@ -63,7 +62,6 @@ SWEEP_LIMIT = 1e20             # largest factor one rescaling may apply
 ARMIJO = 1e-4
 MAX_HALVINGS = 30
 MIN_DAMPING = 1.0 / 64         # smallest weight of a new ln γ in a careful round
-PIVOT_FLOOR = 1e-14            # relative Cholesky pivot below which it is regularised
 STATUSES = ("converged", "max-iterations", "non-finite", "infeasible")
 METHODS = ("auto", "careful")
 
@@ -116,9 +114,11 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
             and FAST_ITERATIONS > 0)
     todo = np.flatnonzero(~infeasible)
     ln_k_all = LN10 * system.log10_k(bound.t_C) if n else np.zeros((0, s))
+    coupling = _coupling(structure, bound, fast)
     for start in range(0, todo.size, CHUNK_SIZE):
         rows = todo[start:start + CHUNK_SIZE]
-        problem = _Problem.build(structure, totals[rows], ln_k_all[rows], fixed[rows])
+        problem = _Problem.build(structure, totals[rows], ln_k_all[rows], fixed[rows],
+                                 coupling)
         _solve_chunk(problem, bound_slice(bound, rows), fast, out, rows)
     if infeasible.any():  # report the state at the totals given, flagged
         rows = np.flatnonzero(infeasible)
@@ -220,27 +220,38 @@ class _Structure:
     free mass balances Σ ν c (f), their scales Σ |ν| c (f), the ionic strength ½ Σ z² c,
     its gradient in y (f) and the structurally non-zero entries of the Hessian Σ ν νᵀ c,
     in the order ``factor`` reads them. ``weights_u`` (f + 1, s) maps c·∂lnγ/∂u to the u
-    column of the Jacobian.
+    column of the Jacobian; :meth:`coupling` joins both to an activity model's terms.
     """
 
     nu_dense: np.ndarray
-    nu: Any                         # scipy.sparse.csr_array (s, c)
-    nu_of_free: Any                 # (s, f): the free columns of ν
-    nu_of_fixed: Any                # (s, c − f): the fixed columns of ν
-    nu_free: Any                    # (f, s): Σ ν c of the free components
-    abs_nu_free: Any
+    nu: SparseRows                  # (s, c)
+    nu_of_free: SparseRows          # (s, f): the free columns of ν
+    nu_of_fixed: SparseRows         # (s, c − f): the fixed columns of ν
+    nu_free: SparseRows             # (f, s): Σ ν c of the free components
+    abs_nu_free: SparseRows
     nu_water: np.ndarray
     z2: np.ndarray
     free: np.ndarray
-    weights: Any
-    weights_u: Any
-    factor: "_SparseCholesky"
+    weights: np.ndarray
+    weights_u: np.ndarray
+    factor: SparseCholesky
     nf: int
     proton: int
     families: _Families
     sweep_rows: np.ndarray          # rows of the free totals rescaled by the guess
     sweep_components: np.ndarray    # their components
     sweep_terms: tuple[tuple[int, int, float], ...]  # (species, sweep row, ν) non-zeros
+    couplings: dict = field(default_factory=dict, compare=False)
+
+    def coupling(self, weights: np.ndarray, own_terms: bool) -> "_Coupling":
+        """The :class:`_Coupling` to a model with term weights *weights* (s, p), cached."""
+        key = (weights.shape, weights.tobytes(), own_terms)
+        found = self.couplings.get(key)
+        if found is None:
+            if len(self.couplings) >= STRUCTURE_CACHE_SIZE:
+                self.couplings.clear()
+            found = self.couplings[key] = _Coupling.build(self, weights, own_terms)
+        return found
 
     @classmethod
     def build(cls, system: ChemicalSystem, free: np.ndarray) -> "_Structure":
@@ -248,7 +259,7 @@ class _Structure:
         nu_f = nu[:, free]
         nf, s = nu_f.shape[1], nu.shape[0]
         z2 = system.charge ** 2
-        factor = _SparseCholesky.plan(nu_f != 0, first_row=3 * nf + 1)
+        factor = SparseCholesky.plan(nu_f != 0, first_row=3 * nf + 1)
         hessian = (np.stack([nu_f[:, i] * nu_f[:, j] for i, j in factor.entries])
                    if factor.entries else np.zeros((0, s)))
         weights = np.concatenate([nu_f.T, np.abs(nu_f).T, 0.5 * z2[None, :],
@@ -262,15 +273,68 @@ class _Structure:
         sweep_components = np.flatnonzero(scaled)
         sweep_terms = tuple((i, r, float(nu[i, j])) for r, j in enumerate(sweep_components)
                             for i in np.flatnonzero(nu[:, j]))
-        from scipy.sparse import csr_array as csr  # imported here: keeps `import` quick
-
+        rows = SparseRows
         return cls(sweep_rows=sweep_rows, sweep_components=sweep_components,
-                   sweep_terms=sweep_terms, nu_dense=nu, nu=csr(nu), nu_of_free=csr(nu_f),
-                   nu_of_fixed=csr(nu[:, ~free]), nu_free=csr(nu_f.T),
-                   abs_nu_free=csr(np.abs(nu_f).T),
-                   nu_water=system.nu_water, z2=z2, free=free, weights=csr(weights),
-                   weights_u=csr(weights_u), factor=factor, nf=nf, proton=proton,
+                   sweep_terms=sweep_terms, nu_dense=nu, nu=rows(nu), nu_of_free=rows(nu_f),
+                   nu_of_fixed=rows(nu[:, ~free]), nu_free=rows(nu_f.T),
+                   abs_nu_free=rows(np.abs(nu_f).T),
+                   nu_water=system.nu_water, z2=z2, free=free, weights=weights,
+                   weights_u=weights_u, factor=factor, nf=nf, proton=proton,
                    families=_Families.of(nu, proton, free))
+
+
+@dataclass(frozen=True)
+class _Coupling:
+    """A structure's products joined to an activity model whose ln γ = W φ(u).
+
+    ``nu`` (s, c + p) = [ν | −W] gives ln c − ln K from [ln a; φ] in one product.
+    ``weights`` is the structure's rows followed by p blocks of f + 1 rows,
+    weights_u·diag(W_p), so that the u column of the Jacobian is Σ_p (block p @ c)·∂φ_p/∂u
+    without an (s, k) array of ∂lnγ/∂u. ``gamma`` (s, p) is W itself. A model without
+    terms of its own is coupled with W = identity and φ = ln γ (*own_terms* false).
+    """
+
+    nu: SparseRows
+    weights: SparseRows
+    gamma: SparseRows
+    side_row: int
+    terms: int
+    own_terms: bool
+
+    @classmethod
+    def build(cls, st: _Structure, weights: np.ndarray, own_terms: bool) -> "_Coupling":
+        blocks = [st.weights_u * weights[:, p][None, :] for p in range(weights.shape[1])]
+        return cls(nu=SparseRows(np.concatenate([st.nu_dense, -weights], axis=1)),
+                   weights=SparseRows(np.concatenate([st.weights, *blocks])),
+                   gamma=SparseRows(weights), side_row=st.weights.shape[0],
+                   terms=weights.shape[1], own_terms=own_terms)
+
+
+def _coupling(structure: _Structure, bound: BoundModel, fast: bool) -> "_Coupling | None":
+    """The coupling the solve needs: the model's own terms, else ln γ as terms on the
+    fast path, else none (composition-dependent models use ln γ directly)."""
+    weights = getattr(bound, "weights", None)
+    if weights is not None:
+        return structure.coupling(np.asarray(weights, dtype=float), True)
+    if fast:
+        return structure.coupling(np.eye(structure.nu_dense.shape[0]), False)
+    return None
+
+
+def _terms(bound: BoundModel, coupling: _Coupling, u: np.ndarray
+           ) -> tuple[np.ndarray, np.ndarray]:
+    """(φ, ∂φ/∂u) of the coupled model at u, sample axis last."""
+    if coupling.own_terms:
+        return bound.terms(u)
+    return (np.ascontiguousarray(bound.ln_gamma(u).T),
+            np.ascontiguousarray(bound.d_ln_gamma_du(u).T))
+
+
+def _ln_gamma(coupling: "_Coupling | None", bound: BoundModel, u: np.ndarray) -> np.ndarray:
+    """ln γ (s, k) at u from the model's terms where it has them (γ at I alone)."""
+    if coupling is not None and coupling.own_terms:
+        return coupling.gamma @ bound.terms(u)[0]
+    return np.ascontiguousarray(bound.ln_gamma(u).T)
 
 
 @dataclass
@@ -278,6 +342,7 @@ class _Problem:
     """The per-sample data of one chunk, sample axis last; :meth:`take` slices samples."""
 
     structure: _Structure
+    coupling: _Coupling | None
     ln_k: np.ndarray         # (s, k)
     totals: np.ndarray       # (f, k)
     full_totals: np.ndarray  # (c, k)
@@ -289,12 +354,12 @@ class _Problem:
 
     @classmethod
     def build(cls, structure: _Structure, totals: np.ndarray, ln_k: np.ndarray,
-              fixed: np.ndarray) -> "_Problem":
+              fixed: np.ndarray, coupling: _Coupling | None = None) -> "_Problem":
         free = structure.free
         t = np.ascontiguousarray(totals.T)
         fixed_y = np.ascontiguousarray(np.nan_to_num(LN10 * fixed).T)
         ln_k = np.ascontiguousarray(ln_k.T)
-        problem = cls(structure, ln_k, t[free], t, fixed_y,
+        problem = cls(structure, coupling, ln_k, t[free], t, fixed_y,
                       np.maximum(np.abs(t[free]), 1e-300), np.zeros(t.shape[1]))
         problem.u_max = np.sqrt(_ionic_strength_ceiling(problem))
         return problem
@@ -389,7 +454,9 @@ def _solve_chunk(problem: _Problem, bound: BoundModel, fast: bool, out: _Outputs
     if fast:
         done = _fast_path(problem, bound, y, u, iterations)
         if done.any():
-            ln_g[:, done] = bound_slice(bound, np.flatnonzero(done)).ln_gamma(u[done]).T
+            done_rows = np.flatnonzero(done)
+            ln_g[:, done] = _ln_gamma(problem.coupling, bound_slice(bound, done_rows),
+                                      u[done])
     rest = np.flatnonzero(~done)
     if rest.size:
         sub, sub_bound = problem.take(rest), bound_slice(bound, rest)
@@ -432,7 +499,7 @@ def _initial_guess(problem: _Problem, bound: BoundModel) -> tuple[np.ndarray, np
     fam = st.families
     h_col = st.proton
     u0 = np.sqrt(problem.u_max ** 2 / IONIC_STRENGTH_CAP)
-    base = problem.ln_k - bound.ln_gamma(u0).T                      # (s, k)
+    base = problem.ln_k - _ln_gamma(problem.coupling, bound, u0)             # (s, k)
     y = problem.fixed_y.copy()
     member_k = np.exp(np.minimum(_member_bases(base, fam), LN_C_CEILING))  # (F, M, k)
     if h_col < 0:
@@ -588,15 +655,18 @@ _PARTS = ("res", "scale", "prod", "a", "d")
 def _augmented(problem: _Problem, bound: BoundModel, y: np.ndarray,
                u: np.ndarray) -> _Linearised:
     """Residuals (mass balances, I − u²), their scales and Jacobian at (y (c, k), u)."""
-    st = problem.structure
+    st, cp = problem.structure, problem.coupling
     nf = st.nf
-    lnc = st.nu @ y
+    phi, dphi = _terms(bound, cp, u)
+    lnc = cp.nu @ np.concatenate((y, phi))                            # ln c − ln K
     lnc += problem.ln_k
-    lnc -= bound.ln_gamma(u).T
     np.minimum(lnc, LN_C_CEILING, out=lnc)
     conc = np.exp(lnc, out=lnc)
-    prod = st.weights @ conc                                           # (q, k)
-    side = st.weights_u @ (conc * bound.d_ln_gamma_du(u).T)            # (f + 1, k)
+    prod = cp.weights @ conc                                           # (q + p(f+1), k)
+    side = np.zeros((nf + 1, u.size))
+    for p in range(cp.terms):
+        first = cp.side_row + p * (nf + 1)
+        side += prod[first:first + nf + 1] * dphi[p]
     res = np.empty((nf + 1, u.size))
     np.subtract(prod[:nf], problem.totals, out=res[:nf])
     np.subtract(prod[2 * nf], u * u, out=res[nf])
@@ -608,7 +678,7 @@ def _augmented(problem: _Problem, bound: BoundModel, y: np.ndarray,
     return _Linearised(res, scale, prod, side[:nf], side[nf])
 
 
-def _newton_step(lin: _Linearised, factor: "_SparseCholesky"
+def _newton_step(lin: _Linearised, factor: SparseCholesky
                  ) -> tuple[np.ndarray, np.ndarray]:
     """(dy (f, k), du (k,)) solving J·step = −res by Cholesky of A and u's Schur complement."""
     nf = lin.a.shape[0]
@@ -625,153 +695,6 @@ def _newton_step(lin: _Linearised, factor: "_SparseCholesky"
     q *= du
     p -= q
     return p, du
-
-
-@dataclass(frozen=True)
-class _SparseCholesky:
-    """A Cholesky factorisation A = L Lᵀ planned once for a sparsity pattern, then run
-    for k matrices at once with every operation over contiguous sample vectors.
-
-    Components that never meet in a species (K+ and Ca+2, say) give zero entries; a
-    greedy minimum-degree order keeps the fill small, and only the non-zero entries of
-    L are stored and updated. ``entries`` lists the non-zero (i, j), i ≤ j, of A in the
-    order their rows follow ``first_row`` in the product handed to :meth:`solve`; the
-    row after them must be zero (it stands for the fill).
-    """
-
-    order: tuple[int, ...]                  # elimination order of the components
-    entries: tuple[tuple[int, int], ...]
-    source: np.ndarray                      # per entry of L: row of A (or the zero row)
-    columns: tuple[tuple[int, int], ...]    # per column: (first, end) entries of L, diag first
-    updates: tuple[tuple[tuple[int, int, int], ...], ...]  # per column: (target, src, mult)
-    lower: tuple[tuple[tuple[int, int], ...], ...]   # per column j: (entry, row i > j)
-
-    @classmethod
-    def plan(cls, present: np.ndarray, first_row: int) -> "_SparseCholesky":
-        """The plan for A = Σ ν νᵀ c whose species–component incidence is *present*."""
-        f = present.shape[1]
-        meet = (present.T.astype(int) @ present.astype(int)) > 0
-        order = _minimum_degree(meet)
-        pattern = meet[np.ix_(order, order)].copy()
-        for j in range(f):                                  # symbolic elimination: fill
-            below = np.flatnonzero(pattern[j + 1:, j]) + j + 1
-            pattern[np.ix_(below, below)] = True
-        entries = [(min(i, j), max(i, j)) for i in range(f) for j in range(i, f) if meet[i, j]]
-        row_of = {e: first_row + n for n, e in enumerate(entries)}
-        index, source, columns, lower = {}, [], [], []
-        for j in range(f):
-            rows = [j, *(i for i in range(j + 1, f) if pattern[i, j])]
-            start = len(source)
-            for i in rows:
-                index[i, j] = len(source)
-                a, b = sorted((order[i], order[j]))
-                source.append(row_of.get((a, b), -1))
-            columns.append((start, len(source)))
-            lower.append(tuple((index[i, j], i) for i in rows[1:]))
-        updates = []
-        for j in range(f):
-            ops = []
-            for p in range(j):
-                if (j, p) in index:
-                    ops.extend((index[i, j], index[i, p], index[j, p])
-                               for i in range(j, f) if (i, p) in index)
-            updates.append(tuple(ops))
-        zero_row = first_row + len(entries)
-        source = np.array([zero_row if r < 0 else r for r in source], dtype=int)
-        return cls(tuple(order), tuple(entries), source, tuple(columns),
-                   tuple(updates), tuple(lower))
-
-    def solve(self, prod: np.ndarray, b: np.ndarray) -> np.ndarray:
-        """X (f, r, k) with A X = B (f, r, k), A's entries read from the rows of *prod*.
-
-        A pivot lost to round-off is raised to :data:`PIVOT_FLOOR` × its diagonal, which
-        turns the step into a slightly damped one instead of a failure.
-        """
-        f, r, k = b.shape
-        if k == 1:
-            return self._solve_one(prod[:, 0], b[:, :, 0])[:, :, None]
-        low = np.take(prod, self.source, axis=0)
-        inv = np.empty((f, k))
-        tmp = np.empty(k)
-        for j, (start, end) in enumerate(self.columns):
-            diagonal = low[start].copy()
-            for target, src, mult in self.updates[j]:
-                np.multiply(low[src], low[mult], out=tmp)
-                low[target] -= tmp
-            pivot = np.maximum(low[start], PIVOT_FLOOR * diagonal + 1e-300)
-            np.sqrt(pivot, out=low[start])
-            np.divide(1.0, low[start], out=inv[j])
-            low[start + 1:end] *= inv[j]
-        z = b[list(self.order)]
-        t = np.empty((r, k))
-        for j in range(f):                      # forward: L z = b
-            z[j] *= inv[j]
-            for entry, i in self.lower[j]:
-                np.multiply(z[j], low[entry], out=t)
-                z[i] -= t
-        for j in range(f - 1, -1, -1):          # back: Lᵀ x = z
-            for entry, i in self.lower[j]:
-                np.multiply(z[i], low[entry], out=t)
-                z[j] -= t
-            z[j] *= inv[j]
-        x = np.empty_like(z)
-        x[list(self.order)] = z
-        return x
-
-
-    def _solve_one(self, prod: np.ndarray, b: np.ndarray) -> np.ndarray:
-        """:meth:`solve` for one sample, on Python floats: the same IEEE operations in the
-        same order (so the same bits) without numpy's per-call cost."""
-        f = b.shape[0]
-        if not f:
-            return np.empty(b.shape)
-        low = prod[self.source].tolist()
-        inv = [0.0] * f
-        for j, (start, end) in enumerate(self.columns):
-            diagonal = low[start]
-            for target, src, mult in self.updates[j]:
-                low[target] = low[target] - low[src] * low[mult]
-            pivot = max(low[start], PIVOT_FLOOR * diagonal + 1e-300)
-            low[start] = pivot if math.isnan(pivot) else math.sqrt(pivot)
-            inv[j] = 1.0 / low[start]
-            for e in range(start + 1, end):
-                low[e] = low[e] * inv[j]
-        z = b[list(self.order)].tolist()
-        for j in range(f):
-            z[j] = [v * inv[j] for v in z[j]]
-            for entry, i in self.lower[j]:
-                z[i] = [zi - zj * low[entry] for zi, zj in zip(z[i], z[j])]
-        for j in range(f - 1, -1, -1):
-            for entry, i in self.lower[j]:
-                z[j] = [zj - zi * low[entry] for zj, zi in zip(z[j], z[i])]
-            z[j] = [v * inv[j] for v in z[j]]
-        x = np.empty(b.shape)
-        x[list(self.order)] = z
-        return x
-
-
-def _minimum_degree(meet: np.ndarray) -> list[int]:
-    """A greedy minimum-degree elimination order of the graph *meet* (ties: lowest index).
-
-    References
-    ----------
-    George, A. & Liu, J.W.H. (1989) SIAM Review 31, 1–19 (the minimum degree ordering).
-    """
-    graph = meet.copy()
-    np.fill_diagonal(graph, False)
-    left = list(range(graph.shape[0]))
-    order = []
-    while left:
-        degree = [int(graph[v, left].sum()) for v in left]
-        v = left[int(np.argmin(degree))]
-        near = [w for w in left if graph[v, w]]
-        for a in near:
-            for b in near:
-                if a != b:
-                    graph[a, b] = True
-        order.append(v)
-        left.remove(v)
-    return order
 
 
 def _fast_path(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
@@ -833,7 +756,7 @@ def _line_search(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndar
     pending = np.arange(active.size)
     out = None
     for _ in range(MAX_HALVINGS):
-        every = pending.size == active.size
+        every = out is None
         part = problem if every else problem.take(pending)
         b = bound if every else bound.take(pending)
         yt = y0.copy() if every else y0[:, pending]
@@ -844,16 +767,16 @@ def _line_search(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndar
         decrease = 1.0 - 2.0 * ARMIJO * alpha[pending] * shrink[pending]
         ok = np.isfinite(merit) & (merit <= decrease * merit0[pending])
         ok |= at_round_off[pending] & np.all(np.isfinite(trial.res), axis=0)
-        if out is None and ok.all():  # the usual case: every full step is taken
+        if every and ok.all():  # the usual case: every full step is taken
             y[:, active], u[active] = yt, ut
             return trial, np.zeros(active.size, dtype=bool)
         rows = active[pending[ok]]
         y[:, rows], u[rows] = yt[:, ok], ut[ok]
-        if out is None:
-            out = _Linearised(*(np.empty((*getattr(trial, n).shape[:-1], active.size))
-                                for n in _PARTS))
-        for name in _PARTS:
-            getattr(out, name)[..., pending[ok]] = getattr(trial, name)[..., ok]
+        if every:  # the first trial covers every sample; later ones only the rejected
+            out = trial
+        else:
+            for name in _PARTS:
+                getattr(out, name)[..., pending[ok]] = getattr(trial, name)[..., ok]
         pending = pending[~ok]
         if not pending.size:
             break
@@ -877,7 +800,7 @@ def _careful_path(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.nda
     """
     st = problem.structure
     k = problem.size
-    ln_g = np.ascontiguousarray(bound.ln_gamma(u).T)
+    ln_g = _ln_gamma(problem.coupling, bound, u)
     ln_aw = np.zeros(k)
     ok = np.zeros(k, dtype=bool)
     omega = np.ones(k)

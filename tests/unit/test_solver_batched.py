@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 
 import ionwright
-from ionwright import solver
+from ionwright import batched_sparse, solver
 from ionwright.activity import DaviesModel
 from ionwright.engine import component_totals
 from ionwright.recipe import read_recipe
@@ -89,7 +89,8 @@ def test_a_returned_answer_needs_no_further_newton_step():
     free = np.ones(system.n_components, dtype=bool)
     structure = solver._Structure.build(system, free)
     problem = solver._Problem.build(structure, totals, np.log(10) * system.log10_k(t),
-                                    np.full(totals.shape, np.nan))
+                                    np.full(totals.shape, np.nan),
+                                    solver._coupling(structure, bound, True))
     lin = solver._augmented(problem, bound, eq.log_activity.T.copy(),
                             np.sqrt(eq.ionic_strength))
     dy, _ = solver._newton_step(lin, structure.factor)
@@ -111,7 +112,7 @@ def test_a_fixed_high_pH_is_not_held_back_by_the_ionic_strength_cap():
 def test_the_sparse_cholesky_solves_like_a_dense_solver():
     system, _, _ = _waters(1)
     free = np.ones(system.n_components, dtype=bool)
-    plan = solver._SparseCholesky.plan(system.nu[:, free] != 0, first_row=0)
+    plan = batched_sparse.SparseCholesky.plan(system.nu[:, free] != 0, first_row=0)
     f = int(free.sum())
     assert sorted(plan.order) == list(range(f))
     assert len(plan.source) < f * (f + 1) // 2          # the zeros are not stored

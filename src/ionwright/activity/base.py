@@ -62,13 +62,30 @@ class ActivityModel(Protocol):
 
 @dataclass
 class IonicStrengthModel:
-    """Base for models of the form ln γ_i = f_i(√I, T); subclasses give f and ∂f/∂u."""
+    """Base for models of the form ln γ_i = Σ_p w_ip φ_p(√I, T).
+
+    A subclass gives the species weights ``weights`` (s, p), fixed for the species, and
+    :meth:`terms`, the functions φ_p of u and temperature with their u-derivatives. The
+    solver uses that split directly (γ of every species from p ≪ s functions, with the
+    sample axis last); :meth:`ln_gamma` and :meth:`d_ln_gamma_du` follow from it.
+    """
 
     species: SpeciesProperties
     t_C: np.ndarray
     notes: list[str] = field(default_factory=list)
     depends_on_ionic_strength_only: bool = True
+    weights: np.ndarray = field(default=None)  # (s, p)
     per_sample = ("t_C",)  # fields sliced by take(); subclasses add theirs
+
+    def terms(self, u: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """(φ, ∂φ/∂u), each of shape (p, n), at u = √I of shape (n,)."""
+        raise NotImplementedError
+
+    def ln_gamma(self, u: np.ndarray, molality: np.ndarray | None = None) -> np.ndarray:
+        return _combine(self.weights, self.terms(u)[0], u.shape[0])
+
+    def d_ln_gamma_du(self, u: np.ndarray) -> np.ndarray:
+        return _combine(self.weights, self.terms(u)[1], u.shape[0])
 
     def ln_water_activity(self, molality: np.ndarray) -> None:
         return None
@@ -77,9 +94,15 @@ class IonicStrengthModel:
         """The same model for the samples *rows* only (per-sample arrays are sliced)."""
         return replace(self, **{name: getattr(self, name)[rows] for name in self.per_sample})
 
-    def _neutral(self, u: np.ndarray) -> np.ndarray:
-        """Setschenow term ln10·b·I for neutral species (zero where b unknown)."""
-        return LN10 * self.species.setschenow[None, :] * (u * u)[:, None]
 
-    def _d_neutral(self, u: np.ndarray) -> np.ndarray:
-        return LN10 * self.species.setschenow[None, :] * (2.0 * u)[:, None]
+def neutral_weights(species: SpeciesProperties) -> np.ndarray:
+    """Weights (s,) of the term u² = I: the Setschenow term ln10·b·I of neutral species."""
+    return LN10 * species.setschenow
+
+
+def _combine(weights: np.ndarray, phi: np.ndarray, n: int) -> np.ndarray:
+    """Σ_p w_ip φ_p as an (n, s) array, added term by term (same bits for any n)."""
+    out = np.zeros((n, weights.shape[0]))
+    for p in range(weights.shape[1]):
+        out += phi[p][:, None] * weights[:, p][None, :]
+    return out

@@ -12,25 +12,22 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..water import debye_huckel_A
-from .base import LN10, IonicStrengthModel, SpeciesProperties
+from .base import LN10, IonicStrengthModel, SpeciesProperties, neutral_weights
 
 DAVIES_LINEAR_TERM = 0.3
 
 
 @dataclass
 class _BoundDavies(IonicStrengthModel):
+    """ln γ = −ln10 z² · A (u/(1+u) − 0.3u²) + ln10 b u²: two terms for every species."""
+
     A: np.ndarray = field(default=None)  # (n,)
     per_sample = ("t_C", "A")
 
-    def ln_gamma(self, u: np.ndarray, molality: np.ndarray | None = None) -> np.ndarray:
-        z2 = self.species.charge[None, :] ** 2
-        shape = (u / (1.0 + u) - DAVIES_LINEAR_TERM * u * u)[:, None]
-        return -LN10 * self.A[:, None] * z2 * shape + self._neutral(u)
-
-    def d_ln_gamma_du(self, u: np.ndarray) -> np.ndarray:
-        z2 = self.species.charge[None, :] ** 2
-        dshape = (1.0 / (1.0 + u) ** 2 - 2.0 * DAVIES_LINEAR_TERM * u)[:, None]
-        return -LN10 * self.A[:, None] * z2 * dshape + self._d_neutral(u)
+    def terms(self, u: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        shape = u / (1.0 + u) - DAVIES_LINEAR_TERM * u * u
+        slope = 1.0 / (1.0 + u) ** 2 - 2.0 * DAVIES_LINEAR_TERM * u
+        return np.stack([self.A * shape, u * u]), np.stack([self.A * slope, 2.0 * u])
 
 
 class DaviesModel:
@@ -40,4 +37,6 @@ class DaviesModel:
     reference = "Davies (1962) Ion Association, Butterworths"
 
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> _BoundDavies:
-        return _BoundDavies(species, t_C, A=np.asarray(debye_huckel_A(t_C), dtype=float))
+        weights = np.stack([-LN10 * species.charge ** 2, neutral_weights(species)], axis=1)
+        return _BoundDavies(species, t_C, weights=weights,
+                            A=np.asarray(debye_huckel_A(t_C), dtype=float))

@@ -17,30 +17,40 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..water import debye_huckel_A, debye_huckel_B
-from .base import LN10, IonicStrengthModel, SpeciesProperties
+from .base import LN10, IonicStrengthModel, SpeciesProperties, neutral_weights
 
 DEFAULT_ION_SIZE = 4.0  # Å, a middling Kielland value; used only with a note
 
 
 @dataclass
 class _BoundSized(IonicStrengthModel):
+    """One term A u / (1 + B å u) per distinct ion size å, and one term u² for b I."""
+
     A: np.ndarray = field(default=None)      # (n,)
     B: np.ndarray = field(default=None)      # (n,)
-    size: np.ndarray = field(default=None)   # (s,)
-    b: np.ndarray = field(default=None)      # (s,) linear term, kg/mol (log10)
+    sizes: np.ndarray = field(default=None)  # (p − 1,) the distinct å of charged species
     per_sample = ("t_C", "A", "B")
 
-    def ln_gamma(self, u: np.ndarray, molality: np.ndarray | None = None) -> np.ndarray:
-        z2 = self.species.charge[None, :] ** 2
-        denom = 1.0 + self.B[:, None] * self.size[None, :] * u[:, None]
-        dh = -self.A[:, None] * z2 * u[:, None] / denom
-        return LN10 * (dh + self.b[None, :] * (u * u)[:, None]) + self._neutral(u)
+    def terms(self, u: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        denom = 1.0 + self.sizes[:, None] * (self.B * u)[None, :]
+        phi = np.concatenate([self.A * u / denom, (u * u)[None, :]])
+        dphi = np.concatenate([self.A / (denom * denom), (2.0 * u)[None, :]])
+        return phi, dphi
 
-    def d_ln_gamma_du(self, u: np.ndarray) -> np.ndarray:
-        z2 = self.species.charge[None, :] ** 2
-        denom = 1.0 + self.B[:, None] * self.size[None, :] * u[:, None]
-        ddh = -self.A[:, None] * z2 / denom ** 2
-        return LN10 * (ddh + self.b[None, :] * (2.0 * u)[:, None]) + self._d_neutral(u)
+
+def _bind_sized(species: SpeciesProperties, t_C: np.ndarray, size: np.ndarray,
+                b: np.ndarray, notes: list[str]) -> _BoundSized:
+    """The weights: −ln10 z² on the term of the species' own å, ln10 (b + Setschenow b) on I."""
+    charged = species.charge != 0
+    sizes = np.unique(size[charged])
+    weights = np.zeros((len(species.names), sizes.size + 1))
+    for p, a in enumerate(sizes):
+        mine = charged & (size == a)
+        weights[mine, p] = -LN10 * species.charge[mine] ** 2
+    weights[:, -1] = LN10 * b + neutral_weights(species)
+    return _BoundSized(species, t_C, notes, weights=weights,
+                       A=np.asarray(debye_huckel_A(t_C), float),
+                       B=np.asarray(debye_huckel_B(t_C), float), sizes=sizes)
 
 
 def _sizes(species: SpeciesProperties, first: np.ndarray, second: np.ndarray, label: str,
@@ -63,9 +73,7 @@ class ExtendedDebyeHuckelModel:
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> _BoundSized:
         notes: list[str] = []
         size = _sizes(species, species.ion_size, species.tj_a, self.name, notes)
-        return _BoundSized(species, t_C, notes, A=np.asarray(debye_huckel_A(t_C), float),
-                           B=np.asarray(debye_huckel_B(t_C), float), size=size,
-                           b=np.zeros(len(species.names)))
+        return _bind_sized(species, t_C, size, np.zeros(len(species.names)), notes)
 
 
 class TruesdellJonesModel:
@@ -83,5 +91,4 @@ class TruesdellJonesModel:
             notes.append(f"{self.name}: no b parameter for {names}; used b = 0 "
                          f"(extended Debye–Hückel form) for them")
         b = np.where(np.isnan(species.tj_b) | (species.charge == 0), 0.0, species.tj_b)
-        return _BoundSized(species, t_C, notes, A=np.asarray(debye_huckel_A(t_C), float),
-                           B=np.asarray(debye_huckel_B(t_C), float), size=size, b=b)
+        return _bind_sized(species, t_C, size, b, notes)

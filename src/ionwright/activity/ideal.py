@@ -11,11 +11,10 @@ from .base import IonicStrengthModel, SpeciesProperties
 
 @dataclass
 class _BoundIdeal(IonicStrengthModel):
-    def ln_gamma(self, u: np.ndarray, molality: np.ndarray | None = None) -> np.ndarray:
-        return np.zeros((u.shape[0], len(self.species.names)))
+    """No terms at all: ln γ = 0."""
 
-    def d_ln_gamma_du(self, u: np.ndarray) -> np.ndarray:
-        return np.zeros((u.shape[0], len(self.species.names)))
+    def terms(self, u: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        return np.zeros((0, u.shape[0])), np.zeros((0, u.shape[0]))
 
 
 class IdealModel:
@@ -25,4 +24,4 @@ class IdealModel:
     reference = "limit of infinite dilution"
 
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> _BoundIdeal:
-        return _BoundIdeal(species, t_C)
+        return _BoundIdeal(species, t_C, weights=np.zeros((len(species.names), 0)))
