@@ -291,8 +291,9 @@ class GasBasis:
             out[:, col] = gas.log10_k(t_C)
         return out
 
-    def log10_k(self, t_C: np.ndarray) -> np.ndarray:
-        return self.base.log10_k(t_C) + self.kappa(t_C) @ self.nu.T
+    def log10_k(self, t_C: np.ndarray, samples_last: bool = False) -> np.ndarray:
+        out = self.base.log10_k(t_C) + self.kappa(t_C) @ self.nu.T
+        return np.ascontiguousarray(out.T) if samples_last else out
 
     def new_totals(self, totals: np.ndarray) -> np.ndarray:
         return totals @ self.inverse

@@ -113,16 +113,18 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     fast = (method == "auto" and bound.depends_on_ionic_strength_only
             and FAST_ITERATIONS > 0)
     todo = np.flatnonzero(~infeasible)
-    ln_k_all = LN10 * system.log10_k(bound.t_C) if n else np.zeros((0, s))
     coupling = _coupling(structure, bound, fast)
+
+    def ln_k(rows: np.ndarray) -> np.ndarray:
+        return LN10 * system.log10_k(bound.t_C[rows], samples_last=True)
+
     for start in range(0, todo.size, CHUNK_SIZE):
         rows = todo[start:start + CHUNK_SIZE]
-        problem = _Problem.build(structure, totals[rows], ln_k_all[rows], fixed[rows],
-                                 coupling)
+        problem = _Problem.build(structure, totals[rows], ln_k(rows), fixed[rows], coupling)
         _solve_chunk(problem, bound_slice(bound, rows), fast, out, rows)
     if infeasible.any():  # report the state at the totals given, flagged
         rows = np.flatnonzero(infeasible)
-        problem = _Problem.build(structure, totals[rows], ln_k_all[rows], fixed[rows])
+        problem = _Problem.build(structure, totals[rows], ln_k(rows), fixed[rows])
         y = problem.fixed_y.copy()
         lnc = problem.ln_k + structure.nu @ y
         _store(out, rows, problem, y, np.zeros(rows.size), np.zeros_like(lnc),
@@ -355,10 +357,10 @@ class _Problem:
     @classmethod
     def build(cls, structure: _Structure, totals: np.ndarray, ln_k: np.ndarray,
               fixed: np.ndarray, coupling: _Coupling | None = None) -> "_Problem":
+        """From totals and fixed log10 a (k, c) and ln K already samples-last (s, k)."""
         free = structure.free
         t = np.ascontiguousarray(totals.T)
         fixed_y = np.ascontiguousarray(np.nan_to_num(LN10 * fixed).T)
-        ln_k = np.ascontiguousarray(ln_k.T)
         problem = cls(structure, coupling, ln_k, t[free], t, fixed_y,
                       np.maximum(np.abs(t[free]), 1e-300), np.zeros(t.shape[1]))
         problem.u_max = np.sqrt(_ionic_strength_ceiling(problem))
@@ -641,8 +643,10 @@ class _Linearised:
     def merit(self, scale: np.ndarray | None = None) -> np.ndarray:
         return _sum0((self.res / (self.scale if scale is None else scale)) ** 2)
 
-    def worst(self) -> np.ndarray:
-        return np.max(np.abs(self.res) / self.scale, axis=0)
+    def measures(self) -> tuple[np.ndarray, np.ndarray]:
+        """(worst relative residual, merit) at the linearisation's own scales."""
+        scaled = self.res / self.scale
+        return np.max(np.abs(scaled), axis=0), _sum0(scaled * scaled)
 
     def select(self, keep: np.ndarray) -> "_Linearised":
         """The linearisation of the samples *keep* (a mask or indices) only."""
@@ -700,90 +704,103 @@ def _newton_step(lin: _Linearised, factor: SparseCholesky
 def _fast_path(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
                iterations: np.ndarray) -> np.ndarray:
     """Newton on (y_free, u) together; returns which samples converged (y, u updated)."""
-    cols = np.flatnonzero(problem.structure.free)
+    free = problem.structure.free
+    cols = slice(None) if free.all() else np.flatnonzero(free)
     converged = np.zeros(problem.size, dtype=bool)
     active = np.arange(problem.size)
     sub, b = problem, bound
     lin = _augmented(sub, b, y, u)
-    for _ in range(FAST_ITERATIONS):
-        iterations[active] += 1
+    for it in range(1, FAST_ITERATIONS + 1):
         dy, du = _newton_step(lin, problem.structure.factor)
-        size = np.maximum(np.max(np.abs(dy), axis=0, initial=0.0),
-                          np.abs(du) / np.maximum(u[active], 1e-12))
-        worst = lin.worst()
-        merit, scale = lin.merit(), lin.scale
+        biggest = np.max(np.abs(dy), axis=0, initial=0.0)
+        size = np.maximum(biggest, np.abs(du) / np.maximum(u[active], 1e-12))
+        worst, merit = lin.measures()
+        scale = lin.scale
         finished = (worst <= RESIDUAL_TOLERANCE) & (size <= STEP_TOLERANCE)
         if finished.any():  # the last, tiny step is taken without a search
             rows = active[finished]
-            y[cols[:, None], rows] += dy[:, finished]
+            iterations[rows] = it
+            y[_at(cols, rows)] += dy[:, finished]
             u[rows] = np.clip(u[rows] + du[finished], 0.0, problem.u_max[rows])
             converged[rows] = True
             keep = ~finished
             active = active[keep]
             if not active.size:
-                break
+                return converged
             sub, b = problem.take(active), bound_slice(bound, active)
-            dy, du, worst = dy[:, keep], du[keep], worst[keep]
+            dy, du, worst, biggest = dy[:, keep], du[keep], worst[keep], biggest[keep]
             merit, scale = merit[keep], scale[:, keep]
-        biggest = np.max(np.abs(dy), axis=0, initial=0.0)
         shrink = np.minimum(1.0, STEP_CAP / np.maximum(biggest, 1e-300))
         dy *= shrink
         du *= shrink
         lin, stuck = _line_search(sub, b, y, u, active, cols, merit, scale, dy, du, shrink,
                                   worst <= ROUND_OFF)
         if stuck.any():  # no acceptable step: the careful path takes these samples
+            iterations[active[stuck]] = it
             keep = ~stuck
             active = active[keep]
             if not active.size:
-                break
+                return converged
             sub, b, lin = problem.take(active), bound_slice(bound, active), lin.select(keep)
+    iterations[active] = FAST_ITERATIONS
     return converged
 
 
 def _line_search(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
-                 active: np.ndarray, cols: np.ndarray, merit0: np.ndarray, scale0: np.ndarray,
-                 dy: np.ndarray, du: np.ndarray, shrink: np.ndarray, at_round_off: np.ndarray
-                 ) -> tuple[_Linearised, np.ndarray]:
+                 active: np.ndarray, cols: np.ndarray | slice, merit0: np.ndarray,
+                 scale0: np.ndarray, dy: np.ndarray, du: np.ndarray, shrink: np.ndarray,
+                 at_round_off: np.ndarray) -> tuple[_Linearised, np.ndarray]:
     """Backtrack along (dy, du) until the scaled residual drops (Armijo); update y, u.
 
     *problem* and *bound* are restricted to *active*; *merit0* and *scale0* are the
     merit and residual scales at the starting point, kept for every trial so that the
-    Newton direction is a descent direction of the merit. Returns the linearisation at
+    Newton direction is a descent direction of the merit. The full step is tried for
+    every sample, then halved for the rejected ones only. Returns the linearisation at
     the accepted points and which samples found none.
     """
-    y0, u0 = y[:, active], u[active]
-    alpha = np.ones(active.size)
-    pending = np.arange(active.size)
-    out = None
-    for _ in range(MAX_HALVINGS):
-        every = out is None
-        part = problem if every else problem.take(pending)
-        b = bound if every else bound.take(pending)
-        yt = y0.copy() if every else y0[:, pending]
-        yt[cols] += alpha[pending] * dy[:, pending]
-        ut = np.clip(u0[pending] + alpha[pending] * du[pending], 0.0, part.u_max)
-        trial = _augmented(part, b, yt, ut)
-        merit = trial.merit(scale0[:, pending])
-        decrease = 1.0 - 2.0 * ARMIJO * alpha[pending] * shrink[pending]
-        ok = np.isfinite(merit) & (merit <= decrease * merit0[pending])
-        ok |= at_round_off[pending] & np.all(np.isfinite(trial.res), axis=0)
-        if every and ok.all():  # the usual case: every full step is taken
-            y[:, active], u[active] = yt, ut
-            return trial, np.zeros(active.size, dtype=bool)
-        rows = active[pending[ok]]
-        y[:, rows], u[rows] = yt[:, ok], ut[ok]
-        if every:  # the first trial covers every sample; later ones only the rejected
-            out = trial
-        else:
-            for name in _PARTS:
-                getattr(out, name)[..., pending[ok]] = getattr(trial, name)[..., ok]
-        pending = pending[~ok]
+    yt = y[:, active]
+    yt[cols] += dy
+    ut = np.clip(u[active] + du, 0.0, problem.u_max)
+    out = _augmented(problem, bound, yt, ut)
+    decrease = 1.0 - 2.0 * ARMIJO * shrink
+    ok = _acceptable(out, scale0, merit0, decrease, at_round_off)
+    if ok.all():  # the usual case: every full step is taken
+        y[:, active], u[active] = yt, ut
+        return out, np.zeros(active.size, dtype=bool)
+    y[:, active[ok]], u[active[ok]] = yt[:, ok], ut[ok]
+    pending = np.flatnonzero(~ok)
+    alpha = np.full(pending.size, 0.5)
+    for _ in range(MAX_HALVINGS - 1):
+        rows = active[pending]
+        yt = y[:, rows]
+        yt[cols] += alpha * dy[:, pending]
+        ut = np.clip(u[rows] + alpha * du[pending], 0.0, problem.u_max[pending])
+        trial = _augmented(problem.take(pending), bound.take(pending), yt, ut)
+        ok = _acceptable(trial, scale0[:, pending], merit0[pending],
+                         1.0 - 2.0 * ARMIJO * alpha * shrink[pending], at_round_off[pending])
+        y[:, rows[ok]], u[rows[ok]] = yt[:, ok], ut[ok]
+        for name in _PARTS:
+            getattr(out, name)[..., pending[ok]] = getattr(trial, name)[..., ok]
+        pending, alpha = pending[~ok], 0.5 * alpha[~ok]
         if not pending.size:
             break
-        alpha[pending] *= 0.5
     stuck = np.zeros(active.size, dtype=bool)
     stuck[pending] = True
     return out, stuck
+
+
+def _at(cols: np.ndarray | slice, rows: np.ndarray) -> tuple:
+    """Index of the free components *cols* at samples *rows* of a (c, k) array."""
+    return (cols, rows) if isinstance(cols, slice) else (cols[:, None], rows)
+
+
+def _acceptable(trial: _Linearised, scale0: np.ndarray, merit0: np.ndarray,
+                decrease: np.ndarray, at_round_off: np.ndarray) -> np.ndarray:
+    """Which trial points lower the merit enough (Armijo), or are at round-off anyway."""
+    merit = trial.merit(scale0)
+    ok = np.isfinite(merit) & (merit <= decrease * merit0)
+    ok |= at_round_off & np.all(np.isfinite(trial.res), axis=0)
+    return ok
 
 
 # -- the careful path: damped fixed point on ln γ around a convex Newton solve -----------

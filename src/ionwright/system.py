@@ -8,6 +8,7 @@ is a component whose activity is fixed by the activity model, so it has no mass 
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import cached_property
 from typing import Iterable
 
 import numpy as np
@@ -24,14 +25,18 @@ KELVIN = 273.15
 
 def log10_k_at(logk: LogK, t_C: np.ndarray) -> np.ndarray:
     """log10 K of one reaction at temperatures *t_C* by the description it carries."""
-    T = np.asarray(t_C, dtype=float) + KELVIN
-    if logk.analytic is not None:
-        return temperature.analytic(logk.analytic, T)
-    if logk.heat_capacity_J is not None:
-        return temperature.van_t_hoff_cp(logk.log10_k, logk.enthalpy_kJ, logk.heat_capacity_J, T)
-    if logk.enthalpy_kJ is not None:
-        return temperature.van_t_hoff(logk.log10_k, logk.enthalpy_kJ, T)
-    return np.full_like(T, logk.log10_k)
+    t_C = np.asarray(t_C, dtype=float)
+    terms = temperature.basis(t_C.ravel() + KELVIN)
+    out = np.zeros(terms.shape[1])
+    for weight, term in zip(basis_coefficients(logk), terms):  # in order: same bits for any n
+        out += weight * term
+    return out.reshape(t_C.shape)
+
+
+def basis_coefficients(logk: LogK) -> np.ndarray:
+    """Weights (5,) of :func:`temperature.basis` that give this reaction's log10 K(T)."""
+    return temperature.basis_coefficients(logk.log10_k, logk.enthalpy_kJ,
+                                          logk.heat_capacity_J, logk.analytic)
 
 
 @dataclass(frozen=True)
@@ -51,13 +56,29 @@ class ChemicalSystem:
     def n_components(self) -> int:
         return len(self.components)
 
-    def log10_k(self, t_C: np.ndarray) -> np.ndarray:
-        """log10 K of formation of every species, shape (n, s), at *t_C* of shape (n,)."""
-        t_C = np.atleast_1d(np.asarray(t_C, dtype=float))
-        out = np.zeros((t_C.shape[0], len(self.species)))
+    def log10_k(self, t_C: np.ndarray, samples_last: bool = False) -> np.ndarray:
+        """log10 K of formation of every species at *t_C* of shape (n,): (n, s), or
+        (s, n) with *samples_last* (the solver's layout). Summed term by term over the
+        temperature basis, so a sample's values do not depend on the batch."""
+        terms = temperature.basis(np.asarray(t_C, dtype=float) + KELVIN)
+        weights = self._log10_k_weights
+        if samples_last:
+            out = np.zeros((weights.shape[0], terms.shape[1]))
+            for p in range(terms.shape[0]):
+                out += weights[:, p][:, None] * terms[p][None, :]
+            return out
+        out = np.zeros((terms.shape[1], weights.shape[0]))
+        for p in range(terms.shape[0]):
+            out += terms[p][:, None] * weights[:, p][None, :]
+        return out
+
+    @cached_property
+    def _log10_k_weights(self) -> np.ndarray:
+        """(s, 5): each species' formation log10 K as weights of the temperature basis."""
+        out = np.zeros((len(self.species), 5))
         for i, res in enumerate(self.resolved):
             for _, mult, logk in res.terms:
-                out[:, i] += mult * log10_k_at(logk, t_C)
+                out[i] += mult * basis_coefficients(logk)
         return out
 
     def temperature_notes(self, t_C: np.ndarray) -> list[str]:

@@ -117,3 +117,36 @@ def delta_h_from_analytic(coeffs: Sequence[float], T: ArrayOrFloat) -> ArrayOrFl
     _, b, c, d, e = _analytic_coefficients(coeffs)
     T = np.asarray(T, dtype=float)
     return R * _LN10 * (b * T**2 - c + d * T / _LN10 - 2.0 * e / T) / 1000.0
+
+
+def basis(T: ArrayOrFloat) -> npt.NDArray[np.float64]:
+    """The functions (1, T, 1/T, log10 T, 1/T²) of *T* (K), shape (5, n).
+
+    Every form above is a fixed combination of them (:func:`basis_coefficients`), so a
+    table of reactions at a batch of temperatures is one small weighted sum.
+    """
+    T = np.atleast_1d(np.asarray(T, dtype=float))
+    return np.stack([np.ones_like(T), T, 1.0 / T, np.log10(T), 1.0 / (T * T)])
+
+
+def basis_coefficients(log_k25: float, enthalpy_kJ: float | None = None,
+                       heat_capacity_J: float | None = None,
+                       analytic_terms: Sequence[float] | None = None) -> npt.NDArray[np.float64]:
+    """Weights (5,) of :func:`basis` giving the same log10 K(T) as the form these data take.
+
+    An analytic expression is its own coefficients; van 't Hoff puts ΔH°/(R ln 10) on
+    1/T; a constant ΔCp° adds ΔCp°/(R ln 10)·(T_r/T − 1 + ln 10·log10 T − ln T_r).
+    """
+    if analytic_terms is not None:
+        return _analytic_coefficients(analytic_terms)
+    out = np.array([log_k25, 0.0, 0.0, 0.0, 0.0])
+    if enthalpy_kJ is not None:
+        h = enthalpy_kJ * 1000.0 / (R * _LN10)
+        out[0] += h / T_REF
+        out[2] -= h
+    if heat_capacity_J is not None:
+        g = heat_capacity_J / (R * _LN10)
+        out[0] -= g * (1.0 + np.log(T_REF))
+        out[2] += g * T_REF
+        out[3] += g * _LN10
+    return out

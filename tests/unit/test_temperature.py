@@ -14,6 +14,8 @@ from ionwright.temperature import (
     T_REF,
     R,
     analytic,
+    basis,
+    basis_coefficients,
     delta_h_from_analytic,
     van_t_hoff,
     van_t_hoff_cp,
@@ -175,3 +177,18 @@ def test_carbonate_delta_h_from_plummer_busenberg_matches_goldberg(coeffs, goldb
     carbonic acid agrees with the values selected by Goldberg, Kishore & Lennen (2002),
     Table (carbonate pK1, pK2; values from memory) to 0.3 kJ/mol (P&B give 9.11, 14.90)."""
     assert delta_h_from_analytic(coeffs, T_REF) == pytest.approx(goldberg_delta_h_kJ, abs=0.3)
+
+
+@deterministic
+@given(log10_k, enthalpy_kJ, heat_capacity_J, kelvin)
+def test_the_temperature_basis_reproduces_every_closed_form(log_k25, dh, dcp, T):
+    """The solver's weighted sum over (1, T, 1/T, log10 T, 1/T²) is the same function."""
+    terms = basis(np.array([T]))[:, 0]
+    assert basis_coefficients(log_k25) @ terms == pytest.approx(log_k25, abs=1e-12)
+    assert basis_coefficients(log_k25, dh) @ terms == pytest.approx(
+        van_t_hoff(log_k25, dh, T), abs=1e-11)
+    assert basis_coefficients(log_k25, dh, dcp) @ terms == pytest.approx(
+        van_t_hoff_cp(log_k25, dh, dcp, T), abs=1e-11)
+    coeffs = (log_k25, 0.01, -dh * 10.0, 2.0, dcp * 1e3)
+    assert basis_coefficients(0.0, analytic_terms=coeffs) @ terms == pytest.approx(
+        analytic(coeffs, T), abs=1e-11)
