@@ -20,6 +20,43 @@ except ImportError:  # pragma: no cover - a scipy without it takes the public ro
 PIVOT_FLOOR = 1e-14            # relative Cholesky pivot below which it is regularised
 
 
+def weighted_sum(a: np.ndarray, weights: np.ndarray | None = None) -> np.ndarray:
+    """Σ_i w_i a[i] over the first axis of *a* (w = 1 when None), added in index order.
+
+    One call to the CSR kernel whatever the number of rows, and the same bits as the
+    loop ``acc = 0; acc += w_i a[i]`` over the non-zero w_i (numpy's own sum is pairwise
+    and depends on the shape).
+    """
+    m = a.shape[0]
+    indptr, indices, data = _sum_plan(m, weights)
+    flat = np.ascontiguousarray(a, dtype=float).reshape(m, math.prod(a.shape[1:]))
+    out = np.zeros(flat.shape[1])
+    if _csr_matvecs is None:  # pragma: no cover
+        for i, w in zip(indices, data):
+            out += w * flat[i]
+    elif indices.size:
+        _csr_matvecs(1, m, flat.shape[1], indptr, indices, data, flat.ravel(), out)
+    return out.reshape(a.shape[1:])
+
+
+_SUM_PLANS: dict[tuple, tuple[np.ndarray, np.ndarray, np.ndarray]] = {}
+
+
+def _sum_plan(m: int, weights: np.ndarray | None) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """The one-row CSR matrix (indptr, indices, data) of *weights* over *m* rows, cached
+    (the solver sums with a handful of fixed weight vectors, many times)."""
+    w = np.ones(m) if weights is None else np.asarray(weights, dtype=float)
+    key = (m, None if weights is None else w.tobytes())
+    plan = _SUM_PLANS.get(key)
+    if plan is None:
+        if len(_SUM_PLANS) > 4096:
+            _SUM_PLANS.clear()
+        keep = np.flatnonzero(w[:m])
+        plan = _SUM_PLANS[key] = (np.array([0, keep.size], dtype=np.int32),
+                                  keep.astype(np.int32), w[keep])
+    return plan
+
+
 class SparseRows:
     """A constant sparse matrix M (m, n) for products M @ X with X (n, k), k samples.
 

@@ -35,11 +35,12 @@ and §3.2.10 (block elimination by a Schur complement).
 from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
+from functools import cached_property
 
 import numpy as np
 
 from .activity.base import BoundModel
-from .batched_sparse import SparseCholesky, SparseRows
+from .batched_sparse import SparseCholesky, SparseRows, weighted_sum
 from .errors import UnknownNameError
 from .system import PROTON, ChemicalSystem
 
@@ -242,8 +243,12 @@ class _Structure:
     families: _Families
     sweep_rows: np.ndarray          # rows of the free totals rescaled by the guess
     sweep_components: np.ndarray    # their components
-    sweep_terms: tuple[tuple[int, int, float], ...]  # (species, sweep row, ν) non-zeros
+    sweep_passes: tuple[tuple[np.ndarray, np.ndarray, np.ndarray], ...]  # see _sweep_passes
     couplings: dict = field(default_factory=dict, compare=False)
+
+    @cached_property
+    def guess_plan(self) -> "_GuessPlan":
+        return _GuessPlan.of(self)
 
     def coupling(self, weights: np.ndarray, own_terms: bool) -> "_Coupling":
         """The :class:`_Coupling` to a model with term weights *weights* (s, p), cached."""
@@ -273,16 +278,76 @@ class _Structure:
             scaled[proton] = False
         sweep_rows = np.flatnonzero(scaled[free])
         sweep_components = np.flatnonzero(scaled)
-        sweep_terms = tuple((i, r, float(nu[i, j])) for r, j in enumerate(sweep_components)
-                            for i in np.flatnonzero(nu[:, j]))
+        sweep_passes = _sweep_passes(nu[:, sweep_components])
         rows = SparseRows
         return cls(sweep_rows=sweep_rows, sweep_components=sweep_components,
-                   sweep_terms=sweep_terms, nu_dense=nu, nu=rows(nu), nu_of_free=rows(nu_f),
+                   sweep_passes=sweep_passes, nu_dense=nu, nu=rows(nu), nu_of_free=rows(nu_f),
                    nu_of_fixed=rows(nu[:, ~free]), nu_free=rows(nu_f.T),
                    abs_nu_free=rows(np.abs(nu_f).T),
                    nu_water=system.nu_water, z2=z2, free=free, weights=weights,
                    weights_u=weights_u, factor=factor, nf=nf, proton=proton,
                    families=_Families.of(nu, proton, free))
+
+
+def _sweep_passes(nu_swept: np.ndarray) -> tuple[tuple[np.ndarray, np.ndarray, np.ndarray], ...]:
+    """The factors a rescaling applies, as passes (species, rescaled row, ν) in which each
+    species occurs at most once: pass p holds every species' p-th factor, rows in order,
+    so that a species' factors multiply in the same order whatever the batch."""
+    terms = [[(r, nu_swept[i, r]) for r in np.flatnonzero(nu_swept[i])]
+             for i in range(nu_swept.shape[0])]
+    passes = []
+    for p in range(max((len(t) for t in terms), default=0)):
+        mine = [(i, *t[p]) for i, t in enumerate(terms) if len(t) > p]
+        passes.append((np.array([m[0] for m in mine]), np.array([m[1] for m in mine]),
+                       np.array([m[2] for m in mine], dtype=float)))
+    return tuple(passes)
+
+
+@dataclass(frozen=True)
+class _GuessPlan:
+    """What the initial guess needs that depends on the structure alone.
+
+    For the proton balance: the lone proton-bearing species (``lone``), the distinct
+    powers ν of a(H+) that occur and, per term (lone species, then every member of the
+    families whose proton number varies, padding included), the index of its power.
+    ``moments`` maps those terms to [Σν⁺c, Σν⁺²c, Σν⁻c, Σν⁻²c] of the lone species and,
+    per varying family, [Σw, Σνw, Σν⁺w, Σν⁻w, Σν⁺νw, Σν⁻νw]; ``families`` sums the
+    four family contributions over families. For the share-out among members: the
+    distinct ν(H+) of all families and each member's index into them.
+    """
+
+    lone: np.ndarray
+    powers: np.ndarray
+    term_power: np.ndarray
+    moments: SparseRows
+    families: SparseRows
+    family_powers: np.ndarray
+    family_power: np.ndarray
+
+    @classmethod
+    def of(cls, st: "_Structure") -> "_GuessPlan":
+        fam = st.families
+        lone = np.concatenate([fam.proton_only, fam.fixed_members])
+        lone_nu = st.nu_dense[lone, st.proton]
+        member_nu = fam.proton_numbers[fam.varying]                 # (Fv, M)
+        nf, width = member_nu.shape
+        powers = np.unique(np.concatenate([lone_nu, member_nu.ravel(), [0.0]]))
+        pos, neg = np.maximum(lone_nu, 0.0), np.maximum(-lone_nu, 0.0)
+        lone_rows = np.zeros((4, lone.size + nf * width))
+        lone_rows[:, :lone.size] = [pos, pos * pos, neg, neg * neg]
+        family_rows = np.zeros((6 * nf, lone.size + nf * width))
+        for f in range(nf):
+            cols = lone.size + f * width + np.arange(width)
+            v = member_nu[f]
+            vp, vn = np.maximum(v, 0.0), np.maximum(-v, 0.0)
+            for q, weight in enumerate((np.ones(width), v, vp, vn, vp * v, vn * v)):
+                family_rows[q * nf + f, cols] = weight
+        blocks = np.kron(np.eye(4), np.ones((1, nf)))               # (4, 4 Fv)
+        family_powers, where = np.unique(fam.proton_numbers, return_inverse=True)
+        return cls(lone, powers,
+                   np.searchsorted(powers, np.concatenate([lone_nu, member_nu.ravel()])),
+                   SparseRows(np.concatenate([lone_rows, family_rows])), SparseRows(blocks),
+                   family_powers, where.reshape(fam.members.shape))
 
 
 @dataclass(frozen=True)
@@ -384,11 +449,11 @@ def _ionic_strength_ceiling(problem: _Problem) -> np.ndarray:
     st = problem.structure
     c = st.nu_dense.shape[1]
     z2 = np.maximum(st.z2[:c], 1.0)
-    ions = _weighted_sum(np.abs(problem.full_totals), 0.5 * z2)
+    ions = weighted_sum(np.abs(problem.full_totals), 0.5 * z2)
     only_fixed = np.flatnonzero(~np.any(st.nu_dense[:, st.free] != 0, axis=1))
     if only_fixed.size:
         lnc = (problem.ln_k + st.nu @ problem.fixed_y)[only_fixed]
-        ions += _weighted_sum(np.exp(np.minimum(lnc, LN_C_CEILING)), 0.5 * st.z2[only_fixed])
+        ions += weighted_sum(np.exp(np.minimum(lnc, LN_C_CEILING)), 0.5 * st.z2[only_fixed])
     return IONIC_STRENGTH_CAP * ions + 1e-6
 
 
@@ -397,27 +462,6 @@ def _infeasible(system: ChemicalSystem, totals: np.ndarray, free: np.ndarray) ->
     proton = np.array([name == PROTON for name in system.components])
     check = free & ~proton
     return np.any(totals[:, check] <= 0.0, axis=1) | ~np.all(np.isfinite(totals), axis=1)
-
-
-# -- deterministic reductions ------------------------------------------------------------
-
-def _sum0(a: np.ndarray) -> np.ndarray:
-    """Σ over the first axis, added in order (numpy's pairwise sum depends on the shape)."""
-    if not a.shape[0]:
-        return np.zeros(a.shape[1:])
-    acc = a[0].copy()
-    for row in a[1:]:
-        acc += row
-    return acc
-
-
-def _weighted_sum(a: np.ndarray, weights: np.ndarray) -> np.ndarray:
-    """Σ_i w_i a[i] over the first axis, in order."""
-    acc = np.zeros(a.shape[1:])
-    for w, row in zip(weights, a):
-        if w:
-            acc += w * row
-    return acc
 
 
 # -- one chunk ------------------------------------------------------------------------------
@@ -511,9 +555,9 @@ def _initial_guess(problem: _Problem, bound: BoundModel) -> tuple[np.ndarray, np
     else:
         h = _guess_proton(problem, base, y, member_k[fam.varying])
     if fam.owners.size:
-        powers, where = np.unique(fam.proton_numbers, return_inverse=True)
-        x = np.exp(powers[:, None] * h)                     # a(H+)^ν for each distinct ν
-        partition = _sum0(np.moveaxis(member_k * x[where.reshape(fam.members.shape)], 1, 0))
+        plan = st.guess_plan
+        x = np.exp(plan.family_powers[:, None] * h)         # a(H+)^ν for each distinct ν
+        partition = weighted_sum(np.moveaxis(member_k * x[plan.family_power], 1, 0))
         y[fam.owners] = (np.log(np.maximum(problem.full_totals[fam.owners], 1e-300))
                          - np.log(partition))
     if h_col >= 0:
@@ -523,12 +567,13 @@ def _initial_guess(problem: _Problem, bound: BoundModel) -> tuple[np.ndarray, np
         ratio = np.clip(problem.totals[st.sweep_rows] / (st.nu_free @ conc)[st.sweep_rows],
                         SWEEP_LIMIT ** -1, SWEEP_LIMIT)
         y[st.sweep_components] += np.log(ratio)
-        for species, row, power in st.sweep_terms:   # c_i ∝ Π_j a_j^ν_ij: no exp needed
-            if power == 1:
-                conc[species] *= ratio[row]
-            else:
-                conc[species] *= ratio[row] ** power
-    u = np.sqrt(np.clip(_weighted_sum(conc, 0.5 * st.z2), 0.0, problem.u_max ** 2))
+        for species, row, power in st.sweep_passes:  # c_i ∝ Π_j a_j^ν_ij: no exp needed
+            factor = ratio[row]
+            odd = power != 1.0
+            if odd.any():
+                factor[odd] **= power[odd, None]
+            conc[species] *= factor
+    u = np.sqrt(np.clip(weighted_sum(conc, 0.5 * st.z2), 0.0, problem.u_max ** 2))
     return y, u
 
 
@@ -546,80 +591,59 @@ def _guess_proton(problem: _Problem, base: np.ndarray, y_fixed: np.ndarray,
     P collects the protons carried (ν > 0, and −T(H+) when negative), N those given up
     (ν < 0, and T(H+) when positive); Newton steps on g = ln P − ln N, which is monotone
     and nearly linear far from its root, are kept inside a shrinking bracket and fall
-    back to bisection outside it. Every term is K·a(H+)^ν with K computed once
-    (*member_k*, K of the members of the families whose proton number varies), so an
-    iteration needs one exponential per distinct ν, not one per species.
+    back to bisection outside it. Every term is K·a(H+)^ν with K computed once (the lone
+    species and *member_k*, the members of the families whose proton number varies), so
+    an iteration needs one exponential per distinct ν, and two sparse products give
+    P, dP/dh, N and dN/dh of every sample.
     """
     st = problem.structure
     fam = st.families
-    nu = st.nu_dense
-    h_col = st.proton
+    plan = st.guess_plan
     k = problem.size
-    lone = np.concatenate([fam.proton_only, fam.fixed_members])
-    lone_nu = nu[lone, h_col]
-    lone_lnc = (base + st.nu @ y_fixed)[lone] if (~st.free).any() else base[lone]
-    lone_k = np.exp(np.minimum(lone_lnc, LN_C_CEILING))
-    vary = fam.varying
-    member_nu = fam.proton_numbers[vary]                            # (Fv, M)
-    powers = np.unique(np.concatenate([lone_nu, member_nu.ravel(), [0.0]]))
-    lone_power = np.searchsorted(powers, lone_nu)
-    member_power = np.searchsorted(powers, member_nu)
-    pos, neg = np.maximum(member_nu, 0.0), np.maximum(-member_nu, 0.0)
-    weights = [(member_nu[:, m, None], pos[:, m, None], neg[:, m, None],
-                (pos * member_nu)[:, m, None], (neg * member_nu)[:, m, None])
-               for m in range(member_nu.shape[1])]
-    fam_tot = problem.full_totals[fam.owners[vary]]
-    const = _weighted_sum(problem.full_totals[fam.owners], fam.constant_protons)
-    t_h = problem.full_totals[h_col]
-    p_const = np.maximum(const, 0.0) + np.maximum(-t_h, 0.0)
-    n_const = np.maximum(-const, 0.0) + np.maximum(t_h, 0.0)
+    lone_lnc = (base + st.nu @ y_fixed)[plan.lone] if (~st.free).any() else base[plan.lone]
+    term_k = np.concatenate([np.exp(np.minimum(lone_lnc, LN_C_CEILING)),
+                             member_k.reshape(-1, k)])
+    nv = fam.varying.size
+    fam_tot = problem.full_totals[fam.owners[fam.varying]]
+    const = weighted_sum(problem.full_totals[fam.owners], fam.constant_protons)
+    t_h = problem.full_totals[st.proton]
+    fixed_part = np.zeros((4, k))                           # [P, dP/dh, N, dN/dh]
+    fixed_part[0] = np.maximum(const, 0.0) + np.maximum(-t_h, 0.0)
+    fixed_part[2] = np.maximum(-const, 0.0) + np.maximum(t_h, 0.0)
     lo = np.full(k, np.log(1e-17))
     hi = np.full(k, np.log(10.0))
     h = np.full(k, np.log(1e-7))
     settled = np.zeros(k, dtype=bool)
-    for _ in range(GUESS_ITERATIONS):  # all samples at once; settled ones stay put
-        x = np.exp(powers[:, None] * h)                     # a(H+)^ν for each distinct ν
-        c = lone_k * x[lone_power]
-        p, dp = p_const.copy(), np.zeros(k)
-        n, dn = n_const.copy(), np.zeros(k)
-        for v, row in zip(lone_nu, c):
-            if v > 0:
-                p += v * row
-                dp += v * v * row
-            elif v < 0:
-                n -= v * row
-                dn += v * v * row
-        if vary.size:
-            w = member_k * x[member_power]                          # (Fv, M, k)
-            sums = [np.zeros(fam_tot.shape) for _ in range(6)]
-            for m, (nu_w, pos_w, neg_w, pos_nu, neg_nu) in enumerate(weights):
-                wm = w[:, m]
-                sums[0] += wm
-                sums[1] += nu_w * wm
-                sums[2] += pos_w * wm
-                sums[3] += neg_w * wm
-                sums[4] += pos_nu * wm
-                sums[5] += neg_nu * wm
-            total, s_nu, s_pos, s_neg, s_pos_nu, s_neg_nu = sums
-            mean = s_nu / total
-            e_pos, e_neg = s_pos / total, s_neg / total
-            p += _sum0(fam_tot * e_pos)
-            dp += _sum0(fam_tot * (s_pos_nu / total - e_pos * mean))
-            n += _sum0(fam_tot * e_neg)
-            dn += _sum0(fam_tot * (e_neg * mean - s_neg_nu / total))
-        g = np.log(p / n)
-        above = g > 0
-        hi = np.where(above, h, hi)
-        lo = np.where(above, lo, h)
-        with np.errstate(divide="ignore", invalid="ignore"):
+    share = np.empty((4, nv, k))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        for _ in range(GUESS_ITERATIONS):  # all samples at once; settled ones stay put
+            x = np.exp(plan.powers[:, None] * h)            # a(H+)^ν for each distinct ν
+            moments = plan.moments @ (term_k * x[plan.term_power])
+            balance = fixed_part + moments[:4]
+            if nv:
+                total, s_nu, s_pos, s_neg, s_pos_nu, s_neg_nu = moments[4:].reshape(6, nv, k)
+                mean = s_nu / total
+                np.divide(s_pos, total, out=share[0])
+                np.divide(s_pos_nu, total, out=share[1])
+                share[1] -= share[0] * mean
+                np.divide(s_neg, total, out=share[2])
+                np.multiply(share[2], mean, out=share[3])
+                share[3] -= s_neg_nu / total
+                share *= fam_tot
+                balance += plan.families @ share.reshape(4 * nv, k)
+            p, dp, n, dn = balance
+            g = np.log(p / n)
+            above = g > 0
+            hi = np.where(above, h, hi)
+            lo = np.where(above, lo, h)
             trial = h - g / (dp / p + dn / n)
-        inside = (trial > lo) & (trial < hi) & np.isfinite(trial)
-        new = np.where(inside, trial, 0.5 * (lo + hi))
-        new = np.where(settled, h, new)
-        settled |= (np.abs(new - h) < GUESS_TOLERANCE) | (hi - lo < GUESS_TOLERANCE)
-        h = new
-        if settled.all():
-            break
+            inside = (trial > lo) & (trial < hi) & np.isfinite(trial)
+            new = np.where(inside, trial, 0.5 * (lo + hi))
+            new = np.where(settled, h, new)
+            settled |= (np.abs(new - h) < GUESS_TOLERANCE) | (hi - lo < GUESS_TOLERANCE)
+            h = new
+            if settled.all():
+                break
     return h
 
 
@@ -641,12 +665,12 @@ class _Linearised:
     d: np.ndarray
 
     def merit(self, scale: np.ndarray | None = None) -> np.ndarray:
-        return _sum0((self.res / (self.scale if scale is None else scale)) ** 2)
+        return weighted_sum((self.res / (self.scale if scale is None else scale)) ** 2)
 
     def measures(self) -> tuple[np.ndarray, np.ndarray]:
         """(worst relative residual, merit) at the linearisation's own scales."""
         scaled = self.res / self.scale
-        return np.max(np.abs(scaled), axis=0), _sum0(scaled * scaled)
+        return np.max(np.abs(scaled), axis=0), weighted_sum(scaled * scaled)
 
     def select(self, keep: np.ndarray) -> "_Linearised":
         """The linearisation of the samples *keep* (a mask or indices) only."""
@@ -692,9 +716,9 @@ def _newton_step(lin: _Linearised, factor: SparseCholesky
     sol = factor.solve(lin.prod, rhs)
     p, q = sol[:, 0], sol[:, 1]
     b = lin.prod[2 * nf + 1:3 * nf + 1]
-    schur = lin.d - _sum0(b * q)
+    schur = lin.d - weighted_sum(b * q)
     with np.errstate(divide="ignore", invalid="ignore"):
-        du = (-lin.res[nf] - _sum0(b * p)) / schur
+        du = (-lin.res[nf] - weighted_sum(b * p)) / schur
     du[~np.isfinite(du)] = 0.0
     q *= du
     p -= q
@@ -831,7 +855,7 @@ def _careful_path(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.nda
         ya = y[:, active]
         inner_ok, conc = _convex_newton(sub, offset, ya, iterations, active)
         y[:, active] = ya
-        ionic = np.minimum(_weighted_sum(conc, 0.5 * st.z2), sub.u_max ** 2)
+        ionic = np.minimum(weighted_sum(conc, 0.5 * st.z2), sub.u_max ** 2)
         u[active] = np.sqrt(ionic)
         new_g = b.ln_gamma(u[active], conc.T).T
         new_aw = b.ln_water_activity(conc.T)
@@ -897,10 +921,10 @@ def _convex_newton(problem: _Problem, offset: np.ndarray, y: np.ndarray,
         iterations[rows[active]] += 1
         step *= np.minimum(1.0, STEP_CAP / np.maximum(np.max(np.abs(step), axis=0,
                                                              initial=0.0), 1e-300))
-        slope = _sum0(grad * step)
+        slope = weighted_sum(grad * step)
         f0 = _objective(conc[:, active], problem.totals[:, active], yf[:, active])
         # below f's own rounding no decrease can be seen: take the full Newton step
-        blind = ~(np.abs(slope) > ROUND_OFF * (np.abs(f0) + _sum0(conc[:, active])))
+        blind = ~(np.abs(slope) > ROUND_OFF * (np.abs(f0) + weighted_sum(conc[:, active])))
         alpha = np.ones(active.size)
         pending = np.arange(active.size)
         for _ in range(MAX_HALVINGS):
@@ -925,4 +949,4 @@ def _convex_newton(problem: _Problem, offset: np.ndarray, y: np.ndarray,
 
 
 def _objective(conc: np.ndarray, totals: np.ndarray, yf: np.ndarray) -> np.ndarray:
-    return _sum0(conc) - _sum0(totals * yf)
+    return weighted_sum(conc) - weighted_sum(totals * yf)

@@ -105,8 +105,18 @@ def _span(lo: float, hi: float) -> str:
 
 
 def compile_system(tables: TableSet, present: Iterable[str]) -> ChemicalSystem:
-    """The system of every species that forms from the *present* components (plus H+, H2O)."""
-    present = set(present) - {WATER, PROTON}
+    """The system of every species that forms from the *present* components (plus H+, H2O).
+
+    Systems are immutable, so each is compiled once per table set and reused.
+    """
+    present = frozenset(present) - {WATER, PROTON}
+    known = tables.memo.setdefault("system", {})
+    if present not in known:
+        known[present] = _compile(tables, present)
+    return known[present]
+
+
+def _compile(tables: TableSet, present: frozenset[str]) -> ChemicalSystem:
     components = (PROTON, *sorted(present, key=_component_order))
     allowed = set(components) | {WATER}
     resolved = [tables.resolve(c) for c in components]

@@ -25,9 +25,13 @@ class _BoundDavies(IonicStrengthModel):
     per_sample = ("t_C", "A")
 
     def terms(self, u: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        shape = u / (1.0 + u) - DAVIES_LINEAR_TERM * u * u
-        slope = 1.0 / (1.0 + u) ** 2 - 2.0 * DAVIES_LINEAR_TERM * u
-        return np.stack([self.A * shape, u * u]), np.stack([self.A * slope, 2.0 * u])
+        phi, dphi = np.empty((2, u.size)), np.empty((2, u.size))
+        one_u = 1.0 + u
+        np.multiply(self.A, u / one_u - DAVIES_LINEAR_TERM * u * u, out=phi[0])
+        np.multiply(u, u, out=phi[1])
+        np.multiply(self.A, 1.0 / (one_u * one_u) - 2.0 * DAVIES_LINEAR_TERM * u, out=dphi[0])
+        np.multiply(2.0, u, out=dphi[1])
+        return phi, dphi
 
 
 class DaviesModel:
