@@ -45,13 +45,13 @@ _SUM_PLANS: dict[tuple, tuple[np.ndarray, np.ndarray, np.ndarray]] = {}
 def _sum_plan(m: int, weights: np.ndarray | None) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """The one-row CSR matrix (indptr, indices, data) of *weights* over *m* rows, cached
     (the solver sums with a handful of fixed weight vectors, many times)."""
-    w = np.ones(m) if weights is None else np.asarray(weights, dtype=float)
-    key = (m, None if weights is None else w.tobytes())
+    key = (m, None if weights is None else np.asarray(weights, dtype=float).tobytes())
     plan = _SUM_PLANS.get(key)
     if plan is None:
         if len(_SUM_PLANS) > 4096:
             _SUM_PLANS.clear()
-        keep = np.flatnonzero(w[:m])
+        w = np.ones(m) if weights is None else np.asarray(weights, dtype=float)[:m]
+        keep = np.flatnonzero(w)
         plan = _SUM_PLANS[key] = (np.array([0, keep.size], dtype=np.int32),
                                   keep.astype(np.int32), w[keep])
     return plan
@@ -94,6 +94,7 @@ class SparseCholesky:
     """
 
     order: tuple[int, ...]                  # elimination order of the components
+    position: tuple[int, ...]               # where each component comes in that order
     entries: tuple[tuple[int, int], ...]
     source: np.ndarray                      # per entry of L: row of A (or the zero row)
     columns: tuple[tuple[int, int], ...]    # per column: (first, end) entries of L, diag first
@@ -132,7 +133,8 @@ class SparseCholesky:
             updates.append(tuple(ops))
         zero_row = first_row + len(entries)
         source = np.array([zero_row if r < 0 else r for r in source], dtype=int)
-        return cls(tuple(order), tuple(entries), source, tuple(columns),
+        return cls(tuple(order), tuple(int(i) for i in np.argsort(order)), tuple(entries),
+                   source, tuple(columns),
                    tuple(updates), tuple(lower))
 
     def solve(self, prod: np.ndarray, b: np.ndarray) -> np.ndarray:
@@ -173,35 +175,87 @@ class SparseCholesky:
         return x
 
 
+    def solve_bordered(self, prod: np.ndarray, top: np.ndarray, last: np.ndarray,
+                       a: np.ndarray, b: np.ndarray, d: np.ndarray
+                       ) -> tuple[np.ndarray, np.ndarray]:
+        """(x (f, k), t (k,)) with [[A, a], [bᵀ, d]] [x; t] = −[top; last] for k samples.
+
+        A is factorised as in :meth:`solve` and t eliminated through the Schur complement
+        d − bᵀA⁻¹a of the border; t is 0 where the complement vanishes or t is not finite.
+        """
+        k = d.size
+        if k == 1:
+            x, t = self._bordered_one(prod[:, 0], top[:, 0].tolist(), float(last[0]),
+                                      a[:, 0].tolist(), b[:, 0].tolist(), float(d[0]))
+            return np.array(x)[:, None], np.array([t])
+        rhs = np.empty((a.shape[0], 2, k))
+        np.negative(top, out=rhs[:, 0])
+        rhs[:, 1] = a
+        sol = self.solve(prod, rhs)
+        p, q = sol[:, 0], sol[:, 1]
+        schur = d - weighted_sum(b * q)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            t = (-last - weighted_sum(b * p)) / schur
+        t[~np.isfinite(t)] = 0.0
+        q *= t
+        p -= q
+        return p, t
+
+    def _bordered_one(self, prod: np.ndarray, top: list, last: float, a: list, b: list,
+                      d: float) -> tuple[list, float]:
+        """:meth:`solve_bordered` for one sample on Python floats, operation for operation."""
+        low, inv = self._factor_one(prod)
+        p = self._substitute_one(low, inv, [-v for v in top])
+        q = self._substitute_one(low, inv, a)
+        acc = 0.0
+        for bj, qj in zip(b, q):
+            acc += bj * qj
+        schur = d - acc
+        acc = 0.0
+        for bj, pj in zip(b, p):
+            acc += bj * pj
+        t = (-last - acc) / schur if schur != 0.0 else 0.0
+        if not math.isfinite(t):
+            t = 0.0
+        return [pj - qj * t for pj, qj in zip(p, q)], t
+
     def _solve_one(self, prod: np.ndarray, b: np.ndarray) -> np.ndarray:
         """:meth:`solve` for one sample, on Python floats: the same IEEE operations in the
         same order (so the same bits) without numpy's per-call cost."""
-        f = b.shape[0]
-        if not f:
+        if not b.shape[0]:
             return np.empty(b.shape)
+        low, inv = self._factor_one(prod)
+        return np.array([self._substitute_one(low, inv, given) for given in b.T.tolist()]).T
+
+    def _factor_one(self, prod: np.ndarray) -> tuple[list, list]:
+        """L (its stored entries) and the inverse pivots for one sample, as in :meth:`solve`."""
         low = prod[self.source].tolist()
-        inv = [0.0] * f
+        inv = [0.0] * len(self.columns)
         for j, (start, end) in enumerate(self.columns):
             diagonal = low[start]
             for target, src, mult in self.updates[j]:
-                low[target] = low[target] - low[src] * low[mult]
+                low[target] -= low[src] * low[mult]
             pivot = max(low[start], PIVOT_FLOOR * diagonal + 1e-300)
             low[start] = pivot if math.isnan(pivot) else math.sqrt(pivot)
-            inv[j] = 1.0 / low[start]
+            inv_j = inv[j] = 1.0 / low[start]
             for e in range(start + 1, end):
-                low[e] = low[e] * inv[j]
-        z = b[list(self.order)].tolist()
-        for j in range(f):
-            z[j] = [v * inv[j] for v in z[j]]
+                low[e] *= inv_j
+        return low, inv
+
+    def _substitute_one(self, low: list, inv: list, given: list) -> list:
+        """x with L Lᵀ x = *given* (component order in and out), for one sample."""
+        f = len(inv)
+        z = [given[o] for o in self.order]
+        for j in range(f):                      # forward: L z = b
+            zj = z[j] = z[j] * inv[j]
             for entry, i in self.lower[j]:
-                z[i] = [zi - zj * low[entry] for zi, zj in zip(z[i], z[j])]
-        for j in range(f - 1, -1, -1):
+                z[i] -= zj * low[entry]
+        for j in range(f - 1, -1, -1):          # back: Lᵀ x = z
+            zj = z[j]
             for entry, i in self.lower[j]:
-                z[j] = [zj - zi * low[entry] for zj, zi in zip(z[j], z[i])]
-            z[j] = [v * inv[j] for v in z[j]]
-        x = np.empty(b.shape)
-        x[list(self.order)] = z
-        return x
+                zj -= z[i] * low[entry]
+            z[j] = zj * inv[j]
+        return [z[p] for p in self.position]
 
 
 def minimum_degree(meet: np.ndarray) -> list[int]:

@@ -104,12 +104,12 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     fixed = (np.full((n, c), np.nan) if fixed_log10_activity is None
              else np.atleast_2d(np.asarray(fixed_log10_activity, dtype=float)))
     free = np.isnan(fixed[0]) if n else np.ones(c, dtype=bool)
-    if not np.array_equal(np.isnan(fixed), np.broadcast_to(free, (n, c))):
+    if np.count_nonzero(np.isnan(fixed) != free):
         raise ValueError("every sample of a batch must fix the same components")
     structure = _structure(system, free)
     s = len(system.species)
     out = _Outputs.empty(n, c, s)
-    infeasible = _infeasible(system, totals, free)
+    infeasible = _infeasible(structure, totals)
     out.status[infeasible] = "infeasible"
     fast = (method == "auto" and bound.depends_on_ionic_strength_only
             and FAST_ITERATIONS > 0)
@@ -142,8 +142,9 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
 
 
 def bound_slice(bound: BoundModel, rows: np.ndarray) -> BoundModel:
-    """The bound model restricted to samples *rows* (models slice their per-sample arrays)."""
-    if rows.size == bound.t_C.shape[0] and np.array_equal(rows, np.arange(rows.size)):
+    """The bound model restricted to samples *rows*, increasing indices (as from
+    ``np.flatnonzero``); all of them is the model itself."""
+    if rows.size == bound.t_C.shape[0]:
         return bound
     return bound.take(rows)
 
@@ -234,7 +235,12 @@ class _Structure:
     abs_nu_free: SparseRows
     nu_water: np.ndarray
     z2: np.ndarray
+    half_z2: SparseRows             # (1, s): the ionic strength ½ Σ z² c
     free: np.ndarray
+    fixed_columns: np.ndarray       # components of fixed activity
+    must_be_positive: np.ndarray    # (c,) free components other than H+
+    ion_weights: np.ndarray         # (c,) ½ max(z², 1): bound on I from the totals
+    only_fixed: np.ndarray          # species made of fixed components alone
     weights: np.ndarray
     weights_u: np.ndarray
     factor: SparseCholesky
@@ -243,7 +249,8 @@ class _Structure:
     families: _Families
     sweep_rows: np.ndarray          # rows of the free totals rescaled by the guess
     sweep_components: np.ndarray    # their components
-    sweep_passes: tuple[tuple[np.ndarray, np.ndarray, np.ndarray], ...]  # see _sweep_passes
+    sweep_carried: SparseRows       # Σ ν c of the rescaled components only
+    sweep_passes: tuple[tuple, ...]  # see _sweep_passes
     couplings: dict = field(default_factory=dict, compare=False)
 
     @cached_property
@@ -281,25 +288,32 @@ class _Structure:
         sweep_passes = _sweep_passes(nu[:, sweep_components])
         rows = SparseRows
         return cls(sweep_rows=sweep_rows, sweep_components=sweep_components,
-                   sweep_passes=sweep_passes, nu_dense=nu, nu=rows(nu), nu_of_free=rows(nu_f),
+                   sweep_passes=sweep_passes, sweep_carried=rows(nu_f.T[sweep_rows]),
+                   nu_dense=nu, nu=rows(nu), nu_of_free=rows(nu_f),
                    nu_of_fixed=rows(nu[:, ~free]), nu_free=rows(nu_f.T),
                    abs_nu_free=rows(np.abs(nu_f).T),
-                   nu_water=system.nu_water, z2=z2, free=free, weights=weights,
+                   nu_water=system.nu_water, z2=z2, half_z2=rows(0.5 * z2[None, :]),
+                   free=free, fixed_columns=np.flatnonzero(~free), must_be_positive=scaled,
+                   ion_weights=0.5 * np.maximum(z2[:free.size], 1.0),
+                   only_fixed=np.flatnonzero(~np.any(nu_f != 0, axis=1)), weights=weights,
                    weights_u=weights_u, factor=factor, nf=nf, proton=proton,
                    families=_Families.of(nu, proton, free))
 
 
-def _sweep_passes(nu_swept: np.ndarray) -> tuple[tuple[np.ndarray, np.ndarray, np.ndarray], ...]:
-    """The factors a rescaling applies, as passes (species, rescaled row, ν) in which each
-    species occurs at most once: pass p holds every species' p-th factor, rows in order,
-    so that a species' factors multiply in the same order whatever the batch."""
+def _sweep_passes(nu_swept: np.ndarray) -> tuple[tuple, ...]:
+    """The factors a rescaling applies, as passes (species, rescaled row, ν, where ν ≠ 1
+    or None) in which each species occurs at most once: pass p holds every species' p-th
+    factor, rows in order, so that a species' factors multiply in the same order
+    whatever the batch."""
     terms = [[(r, nu_swept[i, r]) for r in np.flatnonzero(nu_swept[i])]
              for i in range(nu_swept.shape[0])]
     passes = []
     for p in range(max((len(t) for t in terms), default=0)):
         mine = [(i, *t[p]) for i, t in enumerate(terms) if len(t) > p]
+        power = np.array([m[2] for m in mine], dtype=float)
+        odd = power != 1.0
         passes.append((np.array([m[0] for m in mine]), np.array([m[1] for m in mine]),
-                       np.array([m[2] for m in mine], dtype=float)))
+                       power, odd if odd.any() else None))
     return tuple(passes)
 
 
@@ -323,6 +337,7 @@ class _GuessPlan:
     families: SparseRows
     family_powers: np.ndarray
     family_power: np.ndarray
+    members: SparseRows             # (F, F·M): sums the members of each family
 
     @classmethod
     def of(cls, st: "_Structure") -> "_GuessPlan":
@@ -347,7 +362,9 @@ class _GuessPlan:
         return cls(lone, powers,
                    np.searchsorted(powers, np.concatenate([lone_nu, member_nu.ravel()])),
                    SparseRows(np.concatenate([lone_rows, family_rows])), SparseRows(blocks),
-                   family_powers, where.reshape(fam.members.shape))
+                   family_powers, where.reshape(fam.members.shape),
+                   SparseRows(np.kron(np.eye(fam.members.shape[0]),
+                                      np.ones((1, fam.members.shape[1])))))
 
 
 @dataclass(frozen=True)
@@ -425,7 +442,9 @@ class _Problem:
         """From totals and fixed log10 a (k, c) and ln K already samples-last (s, k)."""
         free = structure.free
         t = np.ascontiguousarray(totals.T)
-        fixed_y = np.ascontiguousarray(np.nan_to_num(LN10 * fixed).T)
+        fixed_y = np.zeros(t.shape)
+        if structure.fixed_columns.size:
+            fixed_y[structure.fixed_columns] = LN10 * fixed[:, structure.fixed_columns].T
         problem = cls(structure, coupling, ln_k, t[free], t, fixed_y,
                       np.maximum(np.abs(t[free]), 1e-300), np.zeros(t.shape[1]))
         problem.u_max = np.sqrt(_ionic_strength_ceiling(problem))
@@ -447,21 +466,18 @@ def _ionic_strength_ceiling(problem: _Problem) -> np.ndarray:
     bounded by any total; their ideal molalities are added.
     """
     st = problem.structure
-    c = st.nu_dense.shape[1]
-    z2 = np.maximum(st.z2[:c], 1.0)
-    ions = weighted_sum(np.abs(problem.full_totals), 0.5 * z2)
-    only_fixed = np.flatnonzero(~np.any(st.nu_dense[:, st.free] != 0, axis=1))
+    ions = weighted_sum(np.abs(problem.full_totals), st.ion_weights)
+    only_fixed = st.only_fixed
     if only_fixed.size:
         lnc = (problem.ln_k + st.nu @ problem.fixed_y)[only_fixed]
         ions += weighted_sum(np.exp(np.minimum(lnc, LN_C_CEILING)), 0.5 * st.z2[only_fixed])
     return IONIC_STRENGTH_CAP * ions + 1e-6
 
 
-def _infeasible(system: ChemicalSystem, totals: np.ndarray, free: np.ndarray) -> np.ndarray:
+def _infeasible(structure: _Structure, totals: np.ndarray) -> np.ndarray:
     """Samples whose free non-proton totals are not positive: no positive solution exists."""
-    proton = np.array([name == PROTON for name in system.components])
-    check = free & ~proton
-    return np.any(totals[:, check] <= 0.0, axis=1) | ~np.all(np.isfinite(totals), axis=1)
+    return ((totals[:, structure.must_be_positive] <= 0.0).any(axis=1)
+            | ~np.isfinite(totals).all(axis=1))
 
 
 # -- one chunk ------------------------------------------------------------------------------
@@ -499,7 +515,7 @@ def _solve_chunk(problem: _Problem, bound: BoundModel, fast: bool, out: _Outputs
     ln_aw = np.zeros(k)
     if fast:
         done = _fast_path(problem, bound, y, u, iterations)
-        if done.any():
+        if _any(done):
             done_rows = np.flatnonzero(done)
             ln_g[:, done] = _ln_gamma(problem.coupling, bound_slice(bound, done_rows),
                                       u[done])
@@ -557,23 +573,22 @@ def _initial_guess(problem: _Problem, bound: BoundModel) -> tuple[np.ndarray, np
     if fam.owners.size:
         plan = st.guess_plan
         x = np.exp(plan.family_powers[:, None] * h)         # a(H+)^ν for each distinct ν
-        partition = weighted_sum(np.moveaxis(member_k * x[plan.family_power], 1, 0))
+        partition = plan.members @ (member_k * x[plan.family_power]).reshape(-1, problem.size)
         y[fam.owners] = (np.log(np.maximum(problem.full_totals[fam.owners], 1e-300))
                          - np.log(partition))
     if h_col >= 0:
         y[h_col] = h
     conc = np.exp(np.minimum(base + st.nu @ y, LN_C_CEILING))
+    wanted = problem.totals[st.sweep_rows]
     for _ in range(GUESS_SWEEPS):
-        ratio = np.clip(problem.totals[st.sweep_rows] / (st.nu_free @ conc)[st.sweep_rows],
-                        SWEEP_LIMIT ** -1, SWEEP_LIMIT)
+        ratio = _clip(wanted / (st.sweep_carried @ conc), SWEEP_LIMIT ** -1, SWEEP_LIMIT)
         y[st.sweep_components] += np.log(ratio)
-        for species, row, power in st.sweep_passes:  # c_i ∝ Π_j a_j^ν_ij: no exp needed
+        for species, row, power, odd in st.sweep_passes:  # c_i ∝ Π_j a_j^ν_ij: no exp
             factor = ratio[row]
-            odd = power != 1.0
-            if odd.any():
+            if odd is not None:
                 factor[odd] **= power[odd, None]
             conc[species] *= factor
-    u = np.sqrt(np.clip(weighted_sum(conc, 0.5 * st.z2), 0.0, problem.u_max ** 2))
+    u = np.sqrt(_clip(st.half_z2 @ conc, 0.0, problem.u_max ** 2)[0])
     return y, u
 
 
@@ -637,12 +652,12 @@ def _guess_proton(problem: _Problem, base: np.ndarray, y_fixed: np.ndarray,
             hi = np.where(above, h, hi)
             lo = np.where(above, lo, h)
             trial = h - g / (dp / p + dn / n)
-            inside = (trial > lo) & (trial < hi) & np.isfinite(trial)
+            inside = (trial > lo) & (trial < hi)            # False for NaN and ±inf
             new = np.where(inside, trial, 0.5 * (lo + hi))
             new = np.where(settled, h, new)
             settled |= (np.abs(new - h) < GUESS_TOLERANCE) | (hi - lo < GUESS_TOLERANCE)
             h = new
-            if settled.all():
+            if _all(settled):
                 break
     return h
 
@@ -670,7 +685,7 @@ class _Linearised:
     def measures(self) -> tuple[np.ndarray, np.ndarray]:
         """(worst relative residual, merit) at the linearisation's own scales."""
         scaled = self.res / self.scale
-        return np.max(np.abs(scaled), axis=0), weighted_sum(scaled * scaled)
+        return np.abs(scaled).max(axis=0), weighted_sum(scaled * scaled)
 
     def select(self, keep: np.ndarray) -> "_Linearised":
         """The linearisation of the samples *keep* (a mask or indices) only."""
@@ -710,19 +725,8 @@ def _newton_step(lin: _Linearised, factor: SparseCholesky
                  ) -> tuple[np.ndarray, np.ndarray]:
     """(dy (f, k), du (k,)) solving J·step = −res by Cholesky of A and u's Schur complement."""
     nf = lin.a.shape[0]
-    rhs = np.empty((nf, 2, lin.d.size))
-    np.negative(lin.res[:nf], out=rhs[:, 0])
-    rhs[:, 1] = lin.a
-    sol = factor.solve(lin.prod, rhs)
-    p, q = sol[:, 0], sol[:, 1]
-    b = lin.prod[2 * nf + 1:3 * nf + 1]
-    schur = lin.d - weighted_sum(b * q)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        du = (-lin.res[nf] - weighted_sum(b * p)) / schur
-    du[~np.isfinite(du)] = 0.0
-    q *= du
-    p -= q
-    return p, du
+    return factor.solve_bordered(lin.prod, lin.res[:nf], lin.res[nf], lin.a,
+                                 lin.prod[2 * nf + 1:3 * nf + 1], lin.d)
 
 
 def _fast_path(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
@@ -736,16 +740,16 @@ def _fast_path(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarra
     lin = _augmented(sub, b, y, u)
     for it in range(1, FAST_ITERATIONS + 1):
         dy, du = _newton_step(lin, problem.structure.factor)
-        biggest = np.max(np.abs(dy), axis=0, initial=0.0)
+        biggest = _column_max(np.abs(dy))
         size = np.maximum(biggest, np.abs(du) / np.maximum(u[active], 1e-12))
         worst, merit = lin.measures()
         scale = lin.scale
         finished = (worst <= RESIDUAL_TOLERANCE) & (size <= STEP_TOLERANCE)
-        if finished.any():  # the last, tiny step is taken without a search
+        if _any(finished):  # the last, tiny step is taken without a search
             rows = active[finished]
             iterations[rows] = it
             y[_at(cols, rows)] += dy[:, finished]
-            u[rows] = np.clip(u[rows] + du[finished], 0.0, problem.u_max[rows])
+            u[rows] = _clip(u[rows] + du[finished], 0.0, problem.u_max[rows])
             converged[rows] = True
             keep = ~finished
             active = active[keep]
@@ -759,7 +763,7 @@ def _fast_path(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndarra
         du *= shrink
         lin, stuck = _line_search(sub, b, y, u, active, cols, merit, scale, dy, du, shrink,
                                   worst <= ROUND_OFF)
-        if stuck.any():  # no acceptable step: the careful path takes these samples
+        if _any(stuck):  # no acceptable step: the careful path takes these samples
             iterations[active[stuck]] = it
             keep = ~stuck
             active = active[keep]
@@ -784,11 +788,11 @@ def _line_search(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndar
     """
     yt = y[:, active]
     yt[cols] += dy
-    ut = np.clip(u[active] + du, 0.0, problem.u_max)
+    ut = _clip(u[active] + du, 0.0, problem.u_max)
     out = _augmented(problem, bound, yt, ut)
     decrease = 1.0 - 2.0 * ARMIJO * shrink
     ok = _acceptable(out, scale0, merit0, decrease, at_round_off)
-    if ok.all():  # the usual case: every full step is taken
+    if _all(ok):  # the usual case: every full step is taken
         y[:, active], u[active] = yt, ut
         return out, np.zeros(active.size, dtype=bool)
     y[:, active[ok]], u[active[ok]] = yt[:, ok], ut[ok]
@@ -798,7 +802,7 @@ def _line_search(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndar
         rows = active[pending]
         yt = y[:, rows]
         yt[cols] += alpha * dy[:, pending]
-        ut = np.clip(u[rows] + alpha * du[pending], 0.0, problem.u_max[pending])
+        ut = _clip(u[rows] + alpha * du[pending], 0.0, problem.u_max[pending])
         trial = _augmented(problem.take(pending), bound.take(pending), yt, ut)
         ok = _acceptable(trial, scale0[:, pending], merit0[pending],
                          1.0 - 2.0 * ARMIJO * alpha * shrink[pending], at_round_off[pending])
@@ -813,6 +817,24 @@ def _line_search(problem: _Problem, bound: BoundModel, y: np.ndarray, u: np.ndar
     return out, stuck
 
 
+def _clip(x: np.ndarray, lo, hi) -> np.ndarray:
+    """np.clip without its Python-level overhead (NaN stays NaN, as with np.clip)."""
+    return np.minimum(np.maximum(x, lo), hi)
+
+
+def _any(mask: np.ndarray) -> bool:
+    return np.count_nonzero(mask) > 0
+
+
+def _all(mask: np.ndarray) -> bool:
+    return np.count_nonzero(mask) == mask.size
+
+
+def _column_max(a: np.ndarray) -> np.ndarray:
+    """Largest entry of each column (sample) of a (m, k) array; 0 when m = 0."""
+    return a.max(axis=0) if a.shape[0] else np.zeros(a.shape[1:])
+
+
 def _at(cols: np.ndarray | slice, rows: np.ndarray) -> tuple:
     """Index of the free components *cols* at samples *rows* of a (c, k) array."""
     return (cols, rows) if isinstance(cols, slice) else (cols[:, None], rows)
@@ -823,7 +845,8 @@ def _acceptable(trial: _Linearised, scale0: np.ndarray, merit0: np.ndarray,
     """Which trial points lower the merit enough (Armijo), or are at round-off anyway."""
     merit = trial.merit(scale0)
     ok = np.isfinite(merit) & (merit <= decrease * merit0)
-    ok |= at_round_off & np.all(np.isfinite(trial.res), axis=0)
+    if _any(at_round_off):
+        ok |= at_round_off & np.isfinite(trial.res).all(axis=0)
     return ok
 
 
