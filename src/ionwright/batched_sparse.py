@@ -12,10 +12,19 @@ from dataclasses import dataclass
 
 import numpy as np
 
-try:  # scipy's own CSR kernel, called directly: the public `@` costs ~10 µs per call
-    from scipy.sparse._sparsetools import csr_matvecs as _csr_matvecs
-except ImportError:  # pragma: no cover - a scipy without it takes the public route
-    _csr_matvecs = None
+_KERNEL: list = []  # scipy's CSR × dense kernel, found on first use (keeps import quick)
+
+
+def _csr_matvecs():
+    """scipy's own CSR kernel, called directly (the public ``@`` costs ~10 µs per call),
+    or None for a scipy without it, which then takes the public route."""
+    if not _KERNEL:
+        try:
+            from scipy.sparse._sparsetools import csr_matvecs
+        except ImportError:  # pragma: no cover
+            csr_matvecs = None
+        _KERNEL.append(csr_matvecs)
+    return _KERNEL[0]
 
 PIVOT_FLOOR = 1e-14            # relative Cholesky pivot below which it is regularised
 
@@ -31,11 +40,12 @@ def weighted_sum(a: np.ndarray, weights: np.ndarray | None = None) -> np.ndarray
     indptr, indices, data = _sum_plan(m, weights)
     flat = np.ascontiguousarray(a, dtype=float).reshape(m, math.prod(a.shape[1:]))
     out = np.zeros(flat.shape[1])
-    if _csr_matvecs is None:  # pragma: no cover
+    kernel = _csr_matvecs()
+    if kernel is None:  # pragma: no cover
         for i, w in zip(indices, data):
             out += w * flat[i]
     elif indices.size:
-        _csr_matvecs(1, m, flat.shape[1], indptr, indices, data, flat.ravel(), out)
+        kernel(1, m, flat.shape[1], indptr, indices, data, flat.ravel(), out)
     return out.reshape(a.shape[1:])
 
 
@@ -69,15 +79,16 @@ class SparseRows:
 
         self.matrix = csr_array(np.asarray(dense, dtype=float))
         self.shape = self.matrix.shape
+        self.kernel = _csr_matvecs()
 
     def __matmul__(self, x: np.ndarray) -> np.ndarray:
         m, n = self.shape
-        if _csr_matvecs is None or x.ndim != 2:
+        if self.kernel is None or x.ndim != 2:
             return self.matrix @ x
         x = np.ascontiguousarray(x, dtype=float)
         out = np.zeros((m, x.shape[1]))
         a = self.matrix
-        _csr_matvecs(m, n, x.shape[1], a.indptr, a.indices, a.data, x.ravel(), out.ravel())
+        self.kernel(m, n, x.shape[1], a.indptr, a.indices, a.data, x.ravel(), out.ravel())
         return out
 
 

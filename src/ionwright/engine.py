@@ -41,6 +41,25 @@ def load_tables(names: tuple[str, ...] | list[str], registry: Registry | None = 
     return tables
 
 
+_BOUND: OrderedDict[tuple, tuple] = OrderedDict()
+BOUND_CACHE_SIZE = 64
+
+
+def _bound(model, system, t_C: float):
+    """*model* bound to *system*'s species at one temperature, reused while the same model
+    object, system and temperature come back (binding evaluates water's properties)."""
+    key = (id(model), id(system), float(t_C))
+    found = _BOUND.get(key)
+    if found is not None and found[0] is model and found[1] is system:
+        _BOUND.move_to_end(key)
+        return found[2]
+    bound = model.bind(system.properties, np.array([float(t_C)]))
+    _BOUND[key] = (model, system, bound)
+    if len(_BOUND) > BOUND_CACHE_SIZE:
+        _BOUND.popitem(last=False)
+    return bound
+
+
 def _fingerprint(name: str) -> tuple:
     path = Path(name).expanduser()
     if path.suffix == ".toml" and path.is_file():
@@ -87,7 +106,7 @@ def solve(recipe: str | Path | Mapping[str, Any] | Recipe,
     fixed = np.full_like(vector, np.nan)
     if "pH" in recipe.fix:
         fixed[0, 0] = -recipe.fix["pH"]
-    bound = model.bind(system.properties, t)
+    bound = _bound(model, system, recipe.temperature_C)
     eq = solver.solve(system, vector, bound, fixed)
     if eq.status[0] != "converged":
         raise ConvergenceError(str(eq.status[0]), int(eq.iterations[0]), float(eq.residual[0]),

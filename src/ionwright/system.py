@@ -15,6 +15,7 @@ import numpy as np
 
 from . import temperature
 from .activity.base import SpeciesProperties
+from .batched_sparse import SparseRows
 from .tables.records import LogK
 from .tables.tableset import Resolved, TableSet
 
@@ -61,16 +62,12 @@ class ChemicalSystem:
         (s, n) with *samples_last* (the solver's layout). Summed term by term over the
         temperature basis, so a sample's values do not depend on the batch."""
         terms = temperature.basis(np.asarray(t_C, dtype=float) + KELVIN)
-        weights = self._log10_k_weights
-        if samples_last:
-            out = np.zeros((weights.shape[0], terms.shape[1]))
-            for p in range(terms.shape[0]):
-                out += weights[:, p][:, None] * terms[p][None, :]
-            return out
-        out = np.zeros((terms.shape[1], weights.shape[0]))
-        for p in range(terms.shape[0]):
-            out += terms[p][:, None] * weights[:, p][None, :]
-        return out
+        out = self._log10_k_rows @ terms
+        return out if samples_last else out.T
+
+    @cached_property
+    def _log10_k_rows(self) -> SparseRows:
+        return SparseRows(self._log10_k_weights)
 
     @cached_property
     def _log10_k_weights(self) -> np.ndarray:

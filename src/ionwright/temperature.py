@@ -126,7 +126,13 @@ def basis(T: ArrayOrFloat) -> npt.NDArray[np.float64]:
     table of reactions at a batch of temperatures is one small weighted sum.
     """
     T = np.atleast_1d(np.asarray(T, dtype=float))
-    return np.stack([np.ones_like(T), T, 1.0 / T, np.log10(T), 1.0 / (T * T)])
+    out = np.empty((5, T.size))
+    out[0] = 1.0
+    out[1] = T
+    np.divide(1.0, T, out=out[2])
+    np.log10(T, out=out[3])
+    np.multiply(out[2], out[2], out=out[4])
+    return out
 
 
 def basis_coefficients(log_k25: float, enthalpy_kJ: float | None = None,
