@@ -64,6 +64,7 @@ ARMIJO = 1e-4
 MAX_HALVINGS = 30
 MIN_DAMPING = 1.0 / 64         # smallest weight of a new ln γ in a careful round
 STATUSES = ("converged", "max-iterations", "non-finite", "infeasible")
+CONVERGED, MAX_ITERATIONS, NON_FINITE, INFEASIBLE = range(len(STATUSES))  # codes while solving
 METHODS = ("auto", "careful")
 
 
@@ -110,7 +111,7 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     s = len(system.species)
     out = _Outputs.empty(n, c, s)
     infeasible = _infeasible(structure, totals)
-    out.status[infeasible] = "infeasible"
+    out.status[infeasible] = INFEASIBLE
     fast = (method == "auto" and bound.depends_on_ionic_strength_only
             and FAST_ITERATIONS > 0)
     todo = np.flatnonzero(~infeasible)
@@ -130,14 +131,14 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
         lnc = problem.ln_k + structure.nu @ y
         _store(out, rows, problem, y, np.zeros(rows.size), np.zeros_like(lnc),
                np.zeros(rows.size), np.exp(np.minimum(lnc, LN_C_CEILING)))
-    out.status[~out.finite & (out.status != "infeasible")] = "non-finite"
+    out.status[~out.finite & (out.status != INFEASIBLE)] = NON_FINITE
     # never trust a flag alone: a sample is converged only if its residual says so
-    out.status[(out.status == "converged") & ~(out.residual <= RESIDUAL_TOLERANCE)] = \
-        "max-iterations"
+    out.status[(out.status == CONVERGED) & ~(out.residual <= RESIDUAL_TOLERANCE)] = \
+        MAX_ITERATIONS
     return Equilibrium(log_activity=out.y, molality=out.conc, ln_gamma=out.ln_g,
                        ionic_strength=out.u * out.u, ln_water_activity=out.ln_aw,
                        residual=out.residual, iterations=out.iterations,
-                       status=out.status.astype(str),
+                       status=np.array(STATUSES)[out.status],
                        notes=list(getattr(bound, "notes", [])))
 
 
@@ -494,13 +495,13 @@ class _Outputs:
     residual: np.ndarray
     finite: np.ndarray
     iterations: np.ndarray
-    status: np.ndarray
+    status: np.ndarray              # codes into STATUSES
 
     @classmethod
     def empty(cls, n: int, c: int, s: int) -> "_Outputs":
         return cls(np.zeros((n, c)), np.zeros(n), np.zeros((n, s)), np.zeros(n),
                    np.zeros((n, s)), np.zeros(n), np.ones(n, dtype=bool),
-                   np.zeros(n, dtype=int), np.full(n, "max-iterations", dtype=object))
+                   np.zeros(n, dtype=int), np.full(n, MAX_ITERATIONS, dtype=np.int8))
 
 
 def _solve_chunk(problem: _Problem, bound: BoundModel, fast: bool, out: _Outputs,
@@ -515,12 +516,15 @@ def _solve_chunk(problem: _Problem, bound: BoundModel, fast: bool, out: _Outputs
     ln_aw = np.zeros(k)
     if fast:
         done = _fast_path(problem, bound, y, u, iterations)
-        if _any(done):
+        if _all(done):
+            ln_g = _ln_gamma(problem.coupling, bound, u)
+        elif _any(done):
             done_rows = np.flatnonzero(done)
             ln_g[:, done] = _ln_gamma(problem.coupling, bound_slice(bound, done_rows),
                                       u[done])
     rest = np.flatnonzero(~done)
-    if rest.size:
+    careful = rest.size > 0
+    if careful:
         sub, sub_bound = problem.take(rest), bound_slice(bound, rest)
         y0, u0 = _initial_guess(sub, sub_bound)
         its = np.zeros(rest.size, dtype=int)
@@ -528,10 +532,14 @@ def _solve_chunk(problem: _Problem, bound: BoundModel, fast: bool, out: _Outputs
         y[:, rest], u[rest], ln_g[:, rest], ln_aw[rest] = y0, u0, g0, aw0
         iterations[rest] += its
         done[rest] = ok
-    lnc = problem.ln_k + st.nu @ y + ln_aw * st.nu_water[:, None] - ln_g
+    lnc = st.nu @ y
+    lnc += problem.ln_k
+    if careful:  # only the careful path moves a(H2O)
+        lnc += ln_aw * st.nu_water[:, None]
+    lnc -= ln_g
     _store(out, rows, problem, y, u, ln_g, ln_aw, np.exp(np.minimum(lnc, LN_C_CEILING)))
     out.iterations[rows] = iterations
-    out.status[rows[done]] = "converged"
+    out.status[rows[done]] = CONVERGED
 
 
 def _store(out: _Outputs, rows: np.ndarray, problem: _Problem, y: np.ndarray,
@@ -541,8 +549,8 @@ def _store(out: _Outputs, rows: np.ndarray, problem: _Problem, y: np.ndarray,
     out.conc[rows] = conc.T
     r = st.nu_free @ conc - problem.totals
     scale = st.abs_nu_free @ conc + problem.scale_floor
-    out.residual[rows] = np.max(np.abs(r) / scale, axis=0, initial=0.0)
-    out.finite[rows] = np.all(np.isfinite(conc), axis=0) & np.isfinite(out.residual[rows])
+    out.residual[rows] = _column_max(np.abs(r) / scale)
+    out.finite[rows] = np.isfinite(conc).all(axis=0) & np.isfinite(out.residual[rows])
 
 
 # -- the initial guess --------------------------------------------------------------------
@@ -706,9 +714,10 @@ def _augmented(problem: _Problem, bound: BoundModel, y: np.ndarray,
     np.minimum(lnc, LN_C_CEILING, out=lnc)
     conc = np.exp(lnc, out=lnc)
     prod = cp.weights @ conc                                           # (q + p(f+1), k)
-    side = np.zeros((nf + 1, u.size))
-    for p in range(cp.terms):
-        first = cp.side_row + p * (nf + 1)
+    first = cp.side_row
+    side = prod[first:first + nf + 1] * dphi[0] if cp.terms else np.zeros((nf + 1, u.size))
+    for p in range(1, cp.terms):
+        first += nf + 1
         side += prod[first:first + nf + 1] * dphi[p]
     res = np.empty((nf + 1, u.size))
     np.subtract(prod[:nf], problem.totals, out=res[:nf])
