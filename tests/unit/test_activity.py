@@ -82,3 +82,39 @@ def test_take_slices_per_sample_arrays_only():
     part = bound.take(np.array([1, 3]))
     u = np.array([0.3, 0.3])
     assert part.ln_gamma(u) == pytest.approx(bound.ln_gamma(np.full(5, 0.3))[[1, 3]])
+
+
+@pytest.mark.parametrize("model", [ExtendedDebyeHuckelModel(), TruesdellJonesModel()],
+                         ids=lambda m: m.name)
+def test_sized_models_match_the_published_equation_ion_by_ion(model):
+    # Truesdell & Jones (1974): log10 γ = −A z² √I / (1 + B å √I) + b I; with b = 0 it is
+    # the extended Debye–Hückel form with Kielland's å (Kielland 1937). The model's split
+    # into one term per distinct å must give the same γ for every ion.
+    from ionwright.water import debye_huckel_B
+
+    props = _species()
+    bound = model.bind(props, np.array([25.0]))
+    u = 0.2
+    A, B = float(debye_huckel_A(25.0)), float(debye_huckel_B(25.0))
+    tj = model.name == "truesdell-jones"
+    first, second = (props.tj_a, props.ion_size) if tj else (props.ion_size, props.tj_a)
+    size = np.where(np.isnan(first), second, first)
+    b = np.where(np.isnan(props.tj_b), 0.0, props.tj_b) if tj else np.zeros(5)
+    z2 = props.charge ** 2
+    expect = -A * z2 * u / (1 + B * size * u) + b * u * u + props.setschenow * u * u
+    charged = props.charge != 0
+    got = bound.ln_gamma(np.array([u]))[0] / np.log(10)
+    assert got[charged] == pytest.approx(expect[charged], rel=1e-12)
+    assert got[~charged] == pytest.approx(props.setschenow[~charged] * u * u, rel=1e-12)
+
+
+@pytest.mark.parametrize("model", MODELS, ids=lambda m: m.name)
+def test_terms_and_weights_rebuild_ln_gamma_and_its_derivative(model):
+    """ln γ = W φ(u) and ∂ln γ/∂u = W φ'(u): the split the solver uses is the model."""
+    bound = model.bind(_species(), np.array([10.0, 40.0]))
+    u = np.array([0.05, 0.6])
+    phi, dphi = bound.terms(u)
+    assert phi.shape == dphi.shape == (bound.weights.shape[1], 2)
+    assert (bound.weights @ phi).T == pytest.approx(bound.ln_gamma(u), rel=1e-13, abs=1e-15)
+    assert (bound.weights @ dphi).T == pytest.approx(bound.d_ln_gamma_du(u), rel=1e-13,
+                                                     abs=1e-15)

@@ -138,3 +138,42 @@ def test_the_careful_path_returns_concentrations_consistent_with_its_gammas():
     bound = result.model.bind(result.system.properties, np.array([25.0]))
     again = bound.ln_gamma(np.sqrt(eq.ionic_strength), eq.molality)
     assert again == pytest.approx(eq.ln_gamma, abs=1e-9)
+
+
+class _OpaqueDavies:
+    """Davies seen through the bare interface a plugin model may offer: ln γ and ∂ln γ/∂u
+    of ionic strength alone, without the weights-and-terms split."""
+
+    def __init__(self, bound):
+        self._inner = bound
+        self.t_C, self.notes = bound.t_C, []
+        self.depends_on_ionic_strength_only = True
+
+    def ln_gamma(self, u, molality=None):
+        return self._inner.ln_gamma(u)
+
+    def d_ln_gamma_du(self, u):
+        return self._inner.d_ln_gamma_du(u)
+
+    def ln_water_activity(self, molality):
+        return None
+
+    def take(self, rows):
+        return _OpaqueDavies(self._inner.take(rows))
+
+
+def test_a_model_without_terms_of_its_own_gives_the_same_answers():
+    system, totals, t = _waters(300, seed=11)
+    bound = DaviesModel().bind(system.properties, t)
+    split = solver.solve(system, totals, bound)
+    opaque = solver.solve(system, totals, _OpaqueDavies(bound))
+    assert np.all(opaque.status == "converged")
+    assert opaque.log_activity == pytest.approx(split.log_activity, rel=1e-11, abs=1e-11)
+    assert opaque.molality == pytest.approx(split.molality, rel=1e-9, abs=1e-18)
+
+
+def test_a_system_is_compiled_once_per_table_set():
+    tables = ionwright.load_tables(["core"])
+    first = compile_system(tables, ["Na+", "Cl-"])
+    assert compile_system(tables, ["Cl-", "H+", "Na+", "H2O"]) is first
+    assert compile_system(tables, ["Na+"]) is not first
