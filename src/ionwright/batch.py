@@ -330,7 +330,7 @@ class Solved:
 
 
 def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: str,
-                  registry: Registry) -> Solved:
+                  registry: Registry, threads: int | None = None) -> Solved:
     """Solve every valid row, one batched solve per chemical system."""
     n = samples.totals.shape[0]
     out = Solved(np.full(n, np.nan), np.full(n, np.nan),
@@ -352,19 +352,21 @@ def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: st
     for rows in np.split(candidates[order], bounds):
         comps = [plan.components[j] for j in np.flatnonzero(present[rows[0]])]
         system = compile_system(tables, comps)
-        _solve_group(system, rows, samples, plan, tables, model, bool(fixed[rows[0]]), out)
+        _solve_group(system, rows, samples, plan, tables, model, bool(fixed[rows[0]]), out,
+                     threads)
     return out
 
 
 def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, plan: Plan,
-                 tables: TableSet, model, fixed: bool, out: Solved) -> None:
+                 tables: TableSet, model, fixed: bool, out: Solved,
+                 threads: int | None = None) -> None:
     cols = [plan.components.index(c) for c in system.components]
     totals = samples.totals[rows][:, cols]
     t = samples.temperature[rows]
     pinned = np.full(totals.shape, np.nan)
     if fixed:
         pinned[:, 0] = -samples.fixed_ph[rows]
-    eq = solver.solve(system, totals, model.bind(system.properties, t), pinned)
+    eq = solver.solve(system, totals, model.bind(system.properties, t), pinned, threads=threads)
     status = eq.status.copy()
     for k in np.flatnonzero(status != CONVERGED):  # retry alone, carefully
         alone = solver.solve(system, totals[k:k + 1], model.bind(system.properties, t[k:k + 1]),
@@ -465,7 +467,7 @@ def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
                 model: str = "davies", tables: Sequence[str] = ("core",),
                 labels: Iterable[str] = (), engine: str = "local",
                 address: str | None = None, partition_rows: int = PARTITION_ROWS,
-                registry: Registry | None = None) -> pd.DataFrame:
+                threads: int | None = None, registry: Registry | None = None) -> pd.DataFrame:
     """Speciate every row of *frame*; the input columns first, then the results.
 
     Parameters
@@ -482,6 +484,10 @@ def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
         ``"local"`` (this process) or ``"dask"`` (the same work in partitions of
         *partition_rows* rows on a dask cluster: a local one, or the scheduler at
         *address*; needs ``pip install ionwright[distributed]``).
+    threads
+        Threads of the local solve (default: the cores available, at most
+        :data:`ionwright.solver.MAX_THREADS`); the dask engine solves each partition on
+        one thread and leaves the parallelism to the cluster. Answers do not depend on it.
 
     Returns
     -------
@@ -493,12 +499,12 @@ def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
     options = dict(species=None if species is None else list(species), model=model,
                    tables=list(tables), labels=list(labels))
     if engine == "dask":
-        return _dask_batch(frame, options, address, partition_rows)
-    return _solve_frame(frame, registry=registry, **options)
+        return _dask_batch(frame, {**options, "threads": 1}, address, partition_rows)
+    return _solve_frame(frame, registry=registry, threads=threads, **options)
 
 
 def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: str,
-                 tables: Sequence[str], labels: Iterable[str],
+                 tables: Sequence[str], labels: Iterable[str], threads: int | None = None,
                  registry: Registry | None = None) -> pd.DataFrame:
     import pandas as pd
 
@@ -515,7 +521,7 @@ def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: s
                         [str(h) for h in text])
     plan.table_names = tuple(tables)
     samples = read_samples(frame, plan, table_set, model, registry)
-    solved = solve_samples(samples, plan, table_set, model, registry)
+    solved = solve_samples(samples, plan, table_set, model, registry, threads)
     results = {PH_COLUMN: solved.ph, IONIC_STRENGTH_COLUMN: solved.ionic_strength}
     for j, name in enumerate(plan.species):
         results[species_column(name)] = solved.molality[:, j]

@@ -34,6 +34,8 @@ and §3.2.10 (block elimination by a Schur complement).
 
 from __future__ import annotations
 
+import os
+from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, field, replace
 from functools import cached_property
 
@@ -53,6 +55,7 @@ LN_C_CEILING = 300.0           # keeps exp() finite on wild iterates
 IONIC_STRENGTH_CAP = 1.5       # u² stays below this × the fully dissociated ionic strength
 ROUND_OFF = 1e-13              # relative residual below which the line search is switched off
 CHUNK_SIZE = 8192              # samples per chunk: amortises numpy's per-call cost
+MAX_THREADS = 4                # most threads a batch uses by default
 FAST_ITERATIONS = 60
 CAREFUL_OUTER_ITERATIONS = 200
 CAREFUL_INNER_ITERATIONS = 100
@@ -89,14 +92,16 @@ class Equilibrium:
 
 def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
           fixed_log10_activity: np.ndarray | None = None, *,
-          method: str = "auto") -> Equilibrium:
+          method: str = "auto", threads: int | None = None) -> Equilibrium:
     """Solve the batch: *totals* (n, c) in mol/kg, fixed log10 activities (n, c), NaN = free.
 
     *method* ``"auto"`` uses the fast path where the activity model allows it and the
     careful path for the rest; ``"careful"`` uses the careful path for every sample
-    (slower; for samples the fast path failed). Returns an :class:`Equilibrium`; samples
-    that fail carry their status, never a silent answer. Totals of the proton component
-    may be negative (added base).
+    (slower; for samples the fast path failed). Chunks of :data:`CHUNK_SIZE` samples are
+    solved on up to *threads* threads (default :func:`default_threads`); the answers do
+    not depend on it. Returns an :class:`Equilibrium`; samples that fail carry their
+    status, never a silent answer. Totals of the proton component may be negative
+    (added base).
     """
     if method not in METHODS:
         raise UnknownNameError("solver method", method, METHODS)
@@ -120,10 +125,20 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     def ln_k(rows: np.ndarray) -> np.ndarray:
         return LN10 * system.log10_k(bound.t_C[rows], samples_last=True)
 
-    for start in range(0, todo.size, CHUNK_SIZE):
-        rows = todo[start:start + CHUNK_SIZE]
+    def run(rows: np.ndarray) -> None:
         problem = _Problem.build(structure, totals[rows], ln_k(rows), fixed[rows], coupling)
         _solve_chunk(problem, bound_slice(bound, rows), fast, out, rows)
+
+    chunks = [todo[start:start + CHUNK_SIZE] for start in range(0, todo.size, CHUNK_SIZE)]
+    workers = min(threads or default_threads(), len(chunks))
+    if workers > 1:  # chunks are independent and write disjoint rows of `out`
+        structure.guess_plan  # noqa: B018 - built once, before the threads share it
+        with ThreadPoolExecutor(workers) as pool:
+            for done in [pool.submit(run, rows) for rows in chunks]:
+                done.result()
+    else:
+        for rows in chunks:
+            run(rows)
     if infeasible.any():  # report the state at the totals given, flagged
         rows = np.flatnonzero(infeasible)
         problem = _Problem.build(structure, totals[rows], ln_k(rows), fixed[rows])
@@ -140,6 +155,17 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
                        residual=out.residual, iterations=out.iterations,
                        status=np.array(STATUSES)[out.status],
                        notes=list(getattr(bound, "notes", [])))
+
+
+def default_threads() -> int:
+    """Threads a large batch is solved on: the cores this process may use, at most
+    :data:`MAX_THREADS`. numpy's loops and the sparse kernels release the GIL, so
+    independent chunks run side by side."""
+    try:
+        cores = len(os.sched_getaffinity(0))
+    except AttributeError:  # pragma: no cover - platforms without affinity
+        cores = os.cpu_count() or 1
+    return max(1, min(cores, MAX_THREADS))
 
 
 def bound_slice(bound: BoundModel, rows: np.ndarray) -> BoundModel:

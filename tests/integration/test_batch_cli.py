@@ -85,6 +85,22 @@ def test_a_wrong_suffix_is_a_user_error(tmp_path, capsys):
     assert "neither .csv nor .parquet" in capsys.readouterr().err
 
 
+def test_threads_give_the_same_table_and_zero_threads_is_refused(tmp_path, monkeypatch,
+                                                                   capsys):
+    from ionwright import solver
+
+    monkeypatch.setattr(solver, "CHUNK_SIZE", 4)  # several chunks for the threads to share
+    source = tmp_path / "in.csv"
+    _waters(23).to_csv(source, index=False)
+    for threads in ("1", "3"):
+        assert main(["batch", str(source), "-o", str(tmp_path / f"out{threads}.csv"),
+                     "--threads", threads]) == 0
+    one, three = (pd.read_csv(tmp_path / f"out{n}.csv") for n in ("1", "3"))
+    pd.testing.assert_frame_equal(one, three, check_exact=True)
+    assert main(["batch", str(source), "-o", str(tmp_path / "x.csv"), "--threads", "0"]) == 2
+    assert "--threads" in capsys.readouterr().err
+
+
 def test_no_progress_bar_when_not_a_terminal(tmp_path):
     source, target = tmp_path / "in.csv", tmp_path / "out.csv"
     _waters(4).to_csv(source, index=False)

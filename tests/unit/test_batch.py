@@ -78,9 +78,9 @@ def test_a_failed_row_is_retried_alone_with_the_careful_path(monkeypatch):
     methods = []
     real = solver.solve
 
-    def flaky(system, totals, bound, fixed=None, method="auto"):
+    def flaky(system, totals, bound, fixed=None, method="auto", threads=None):
         methods.append((len(totals), method))
-        eq = real(system, totals, bound, fixed, method=method)
+        eq = real(system, totals, bound, fixed, method=method, threads=threads)
         if method == "auto":  # pretend the batch lost the second row
             eq.status = eq.status.astype(object)
             eq.status[1] = "max-iterations"

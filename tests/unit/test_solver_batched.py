@@ -66,6 +66,17 @@ def test_chunking_does_not_change_any_answer(monkeypatch):
     assert np.array_equal(whole.iterations, chunked.iterations)
 
 
+def test_threads_do_not_change_any_answer(monkeypatch):
+    """Chunks solved side by side on threads give the serial answers, bit for bit."""
+    system, totals, t = _waters(400, seed=5)
+    monkeypatch.setattr(solver, "CHUNK_SIZE", 37)
+    serial = _solve(system, totals, t, threads=1)
+    threaded = _solve(system, totals, t, threads=3)
+    for name in ("log_activity", "molality", "ln_gamma", "residual", "iterations", "status"):
+        assert np.array_equal(getattr(serial, name), getattr(threaded, name)), name
+    assert solver.default_threads() >= 1
+
+
 def test_the_careful_path_agrees_with_the_fast_path():
     system, totals, t = _waters(40)
     fast = _solve(system, totals, t)

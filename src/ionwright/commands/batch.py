@@ -42,6 +42,9 @@ def register(subparsers) -> None:
                         "distributed extra)")
     parser.add_argument("--address", default=None,
                         help="dask scheduler address (default: start a local cluster)")
+    parser.add_argument("--threads", type=int, default=None, metavar="N",
+                        help="threads of a local solve (default: the cores available, at "
+                        "most 4); the answers do not depend on it")
     parser.add_argument("--chunk-rows", type=int, default=CHUNK_ROWS,
                         help=f"rows read, solved and written at a time (default {CHUNK_ROWS})")
     parser.set_defaults(run=run)
@@ -57,13 +60,16 @@ def run(args: argparse.Namespace) -> int:
         raise RecipeError(f"input {str(source)!r}", "does not exist", "check the path")
     if args.chunk_rows < 1:
         raise RecipeError("--chunk-rows", f"{args.chunk_rows} must be ≥ 1")
+    if args.threads is not None and args.threads < 1:
+        raise RecipeError("--threads", f"{args.threads} must be ≥ 1")
     options = dict(species=args.species, model=args.model, tables=args.tables,
                    labels=args.label)
     started = time.perf_counter()
     counts = {"rows": 0, "converged": 0, "failed": 0, "invalid": 0}
     chunks = _read_chunks(source, args.chunk_rows)
     with _Progress(source, args.chunk_rows) as bar, _Writer(target) as writer:
-        for solved in _solved_chunks(chunks, options, args.engine, args.address):
+        for solved in _solved_chunks(chunks, options, args.engine, args.address,
+                                     args.threads):
             writer.write(solved)
             status = solved["status"].value_counts()
             counts["rows"] += len(solved)
@@ -82,14 +88,15 @@ def run(args: argparse.Namespace) -> int:
 
 
 def _solved_chunks(chunks: Iterator[Any], options: dict, engine: str,
-                   address: str | None) -> Iterator[Any]:
+                   address: str | None, threads: int | None = None) -> Iterator[Any]:
     """Each chunk solved, in input order: here, or a few at a time on a dask cluster."""
     from ..batch import dask_client, solve_batch, solve_partition
 
     if engine == "local":
         for chunk in chunks:
-            yield solve_batch(chunk, **options)
+            yield solve_batch(chunk, threads=threads, **options)
         return
+    options = {**options, "threads": 1}  # the cluster's workers are the parallelism
     with dask_client(address) as client:
         workers = max(len(client.scheduler_info().get("workers", {})), 1)
         pending: deque = deque()
