@@ -60,7 +60,7 @@ FAST_ITERATIONS = 60
 CAREFUL_OUTER_ITERATIONS = 200
 CAREFUL_INNER_ITERATIONS = 100
 GUESS_ITERATIONS = 4           # safeguarded 1-D Newton steps of the initial guess
-GUESS_TOLERANCE = 0.05         # ln a(H+) accuracy of the guess; more does not pay
+GUESS_TOLERANCE = 0.2          # ln a(H+) accuracy of the guess; more does not pay
 GUESS_SWEEPS = 2               # rescalings of the other free activities for their complexes
 SWEEP_LIMIT = 1e20             # largest factor one rescaling may apply
 ARMIJO = 1e-4
@@ -68,6 +68,7 @@ MAX_HALVINGS = 30
 MIN_DAMPING = 1.0 / 64         # smallest weight of a new ln γ in a careful round
 STATUSES = ("converged", "max-iterations", "non-finite", "infeasible")
 CONVERGED, MAX_ITERATIONS, NON_FINITE, INFEASIBLE = range(len(STATUSES))  # codes while solving
+_STATUS_NAMES = np.array(STATUSES)
 METHODS = ("auto", "careful")
 
 
@@ -153,7 +154,7 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     return Equilibrium(log_activity=out.y, molality=out.conc, ln_gamma=out.ln_g,
                        ionic_strength=out.u * out.u, ln_water_activity=out.ln_aw,
                        residual=out.residual, iterations=out.iterations,
-                       status=np.array(STATUSES)[out.status],
+                       status=_STATUS_NAMES[out.status],
                        notes=list(getattr(bound, "notes", [])))
 
 
@@ -179,19 +180,27 @@ def bound_slice(bound: BoundModel, rows: np.ndarray) -> BoundModel:
 # -- the fixed structure of a system --------------------------------------------------------
 
 _STRUCTURES: dict[tuple, "_Structure"] = {}
+_SEEN: dict[tuple, tuple] = {}  # (id(system), free) → (system, structure): skips the key
 STRUCTURE_CACHE_SIZE = 256
 
 
 def _structure(system: ChemicalSystem, free: np.ndarray) -> "_Structure":
     """The :class:`_Structure` of *system* with *free* components, built once and reused
     (engine and batch compile the same systems again and again)."""
+    seen = _SEEN.get((id(system), free.tobytes()))
+    if seen is not None and seen[0] is system:  # the same (immutable) system again
+        return seen[1]
     key = (system.components, system.species, system.nu.tobytes(), system.nu_water.tobytes(),
            system.charge.tobytes(), free.tobytes())
     found = _STRUCTURES.get(key)
     if found is None:
         if len(_STRUCTURES) >= STRUCTURE_CACHE_SIZE:
             _STRUCTURES.clear()
+            _SEEN.clear()
         found = _STRUCTURES[key] = _Structure.build(system, free)
+    if len(_SEEN) >= STRUCTURE_CACHE_SIZE:
+        _SEEN.clear()
+    _SEEN[(id(system), free.tobytes())] = (system, found)  # holds the system: ids stay unique
     return found
 
 

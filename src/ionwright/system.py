@@ -61,9 +61,25 @@ class ChemicalSystem:
         """log10 K of formation of every species at *t_C* of shape (n,): (n, s), or
         (s, n) with *samples_last* (the solver's layout). Summed term by term over the
         temperature basis, so a sample's values do not depend on the batch."""
-        terms = temperature.basis(np.asarray(t_C, dtype=float) + KELVIN)
-        out = self._log10_k_rows @ terms
-        return out if samples_last else out.T
+        t_C = np.asarray(t_C, dtype=float)
+        one = t_C.size == 1
+        if one:  # single solves come back to the same temperature: kept, read-only
+            key = (float(t_C.ravel()[0]), samples_last)
+            found = self._log10_k_memo.get(key)
+            if found is not None:
+                return found
+        out = self._log10_k_rows @ temperature.basis(t_C + KELVIN)
+        out = out if samples_last else out.T
+        if one:
+            if len(self._log10_k_memo) > 64:
+                self._log10_k_memo.clear()
+            out.setflags(write=False)
+            self._log10_k_memo[key] = out
+        return out
+
+    @cached_property
+    def _log10_k_memo(self) -> dict:
+        return {}
 
     @cached_property
     def _log10_k_rows(self) -> SparseRows:

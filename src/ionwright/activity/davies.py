@@ -25,13 +25,19 @@ class _BoundDavies(IonicStrengthModel):
     per_sample = ("t_C", "A")
 
     def terms(self, u: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        phi, dphi = np.empty((2, u.size)), np.empty((2, u.size))
-        one_u = 1.0 + u
-        np.multiply(self.A, u / one_u - DAVIES_LINEAR_TERM * u * u, out=phi[0])
-        np.multiply(u, u, out=phi[1])
-        np.multiply(self.A, 1.0 / (one_u * one_u) - 2.0 * DAVIES_LINEAR_TERM * u, out=dphi[0])
-        np.multiply(2.0, u, out=dphi[1])
-        return phi, dphi
+        if u.size == 1:  # one sample: the same IEEE operations on Python floats
+            phi, dphi = _davies_terms(float(u[0]), float(self.A[0]))
+            return np.array(phi)[:, None], np.array(dphi)[:, None]
+        phi, dphi = _davies_terms(u, self.A)
+        return np.stack(phi), np.stack(dphi)
+
+
+def _davies_terms(u, A) -> tuple[tuple, tuple]:
+    """(φ, ∂φ/∂u) of Davies for u and A, floats or arrays alike (+, −, ×, ÷ only, so both
+    give the same bits)."""
+    one_u = 1.0 + u
+    return ((A * (u / one_u - DAVIES_LINEAR_TERM * u * u), u * u),
+            (A * (1.0 / (one_u * one_u) - 2.0 * DAVIES_LINEAR_TERM * u), 2.0 * u))
 
 
 class DaviesModel:
