@@ -272,6 +272,7 @@ def main(argv: list[str] | None = None) -> int:
 
     threads = default_threads()
     start_pace = pace()
+    rounds = [(start_pace, *latency(size["latency"]))]  # latency at three moments of the run
     serial = {}
     lines += ["## Throughput (natural waters, Davies; median of 3 runs)", "",
               f"Chunks of {CHUNK_SIZE:,} samples are solved on {threads} thread(s) by "
@@ -308,6 +309,7 @@ def main(argv: list[str] | None = None) -> int:
               f"samples/s ({same / loop_rate:,.0f}×; below about 1,000 samples numpy call "
               "overhead dominates)"]
     print(f"scipy loop {loop_rate:,.0f}/s ({loop_ok} ok)", flush=True)
+    rounds.append((pace(), *latency(size["latency"])))
     conv = convergence(size["convergence"], seed=2024)
     lines += ["", "## Convergence", "",
               f"- {conv['converged']:,} of {conv['n']:,} random waters converged; worst "
@@ -316,11 +318,17 @@ def main(argv: list[str] | None = None) -> int:
               f"{conv['ionic']:.3f} mol/kg, {conv['iterations']:.2f} Newton iterations on "
               "average"]
     print(f"convergence {conv['converged']}/{conv['n']}", flush=True)
-    whole_ms, core_ms, whole_min = latency(size["latency"])
+    rounds.append((pace(), *latency(size["latency"])))
+    whole_ms = statistics.median(r[1] for r in rounds)
+    core_ms = statistics.median(r[2] for r in rounds)
+    whole_min = min(r[3] for r in rounds)
     cold, imports = cold_start(size["cold"])
     lines += ["", "## Latency", "",
-              f"- `ionwright.solve(recipe)` after import: {whole_ms:.2f} ms (median; "
-              f"fastest {whole_min:.2f} ms); one-sample `solver.solve`: {core_ms:.2f} ms",
+              f"- `ionwright.solve(recipe)` after import: {whole_ms:.2f} ms (median of three "
+              f"rounds of {size['latency']}; fastest single call {whole_min:.2f} ms); "
+              f"one-sample `solver.solve`: {core_ms:.2f} ms",
+              "- the rounds, at the start, middle and end of the run: " + "; ".join(
+                  f"{r[1]:.2f} ms at pace {r[0]:.0f} ms" for r in rounds),
               f"- cold start of `ionwright solve RECIPE --json`: {cold:.2f} s (median of "
               f"{size['cold']}); `python -c 'import ionwright'`: {imports:.2f} s"]
     with tempfile.TemporaryDirectory() as folder:
