@@ -6,16 +6,19 @@ f(y) = Σ_i c_i(y) − Σ_j T_j y_j, whose Hessian Σ_i ν_i ν_iᵀ c_i is posi
 
 Samples are solved in chunks of :data:`CHUNK_SIZE`, with the sample axis last so that
 every operation runs over contiguous vectors of samples. The fast path (models whose γ
-depend on ionic strength alone) puts u into the Newton step. Residuals, their scales
-and the whole Jacobian are linear in c and in c·∂lnγ/∂u, so two sparse matrix products
-(one for each) give them for a whole chunk; the mass-balance block is factorised by a
-batched sparse Cholesky (planned once per system, in a minimum-degree order) and u is
-eliminated through its Schur complement. Every step is capped, then an Armijo
-search on the scaled residual accepts it (switched off once the residual is at
-round-off); a sample stops when its residual *and* its Newton step are both small, and
-leaves the active set. Samples the fast path does not finish, and models whose γ depend
-on composition, take the careful path: a damped fixed point on ln γ around a convex
-Newton solve with an Armijo search on f, which converges from any start.
+depend on ionic strength alone) puts u into the Newton step. Such a model gives
+ln γ = W φ(u) with p ≪ s terms φ, so ln c = [ν | −W] [ln a; φ] + ln K is one sparse
+product, and the residuals, their scales and the whole Jacobian (whose u column is
+Σ_p (rows scaled by W_p) c · ∂φ_p/∂u) are a second one, for a whole chunk. The
+mass-balance block is factorised by a batched sparse Cholesky (planned once per system,
+in a minimum-degree order) and u is eliminated through its Schur complement
+(:mod:`.batched_sparse`). Every step is capped, then an Armijo search on the scaled
+residual accepts it (switched off once the residual is at round-off); a sample stops
+when its residual *and* its Newton step are both small, and leaves the active set.
+Chunks are independent and run side by side on threads. Samples the fast path does not
+finish, and models whose γ depend on composition, take the careful path: a damped fixed
+point on ln γ around a convex Newton solve with an Armijo search on f, which converges
+from any start.
 
 Every per-sample number is computed with elementwise operations, sparse products and
 reductions written out in a fixed order, never with dense BLAS calls whose rounding
