@@ -289,7 +289,7 @@ class _Structure:
     sweep_rows: np.ndarray          # rows of the free totals rescaled by the guess
     sweep_components: np.ndarray    # their components
     sweep_carried: SparseRows       # Σ ν c of the rescaled components only
-    sweep_passes: tuple[tuple, ...]  # see _sweep_passes
+    sweep_nu: SparseRows            # (s, r): ν of the species in the rescaled components
     couplings: dict = field(default_factory=dict, compare=False)
 
     @cached_property
@@ -324,10 +324,10 @@ class _Structure:
             scaled[proton] = False
         sweep_rows = np.flatnonzero(scaled[free])
         sweep_components = np.flatnonzero(scaled)
-        sweep_passes = _sweep_passes(nu[:, sweep_components])
         rows = SparseRows
         return cls(sweep_rows=sweep_rows, sweep_components=sweep_components,
-                   sweep_passes=sweep_passes, sweep_carried=rows(nu_f.T[sweep_rows]),
+                   sweep_nu=rows(nu[:, sweep_components]),
+                   sweep_carried=rows(nu_f.T[sweep_rows]),
                    nu_dense=nu, nu=rows(nu), nu_of_free=rows(nu_f),
                    nu_of_fixed=rows(nu[:, ~free]), nu_free=rows(nu_f.T),
                    abs_nu_free=rows(np.abs(nu_f).T),
@@ -337,23 +337,6 @@ class _Structure:
                    only_fixed=np.flatnonzero(~np.any(nu_f != 0, axis=1)), weights=weights,
                    weights_u=weights_u, factor=factor, nf=nf, proton=proton,
                    families=_Families.of(nu, proton, free))
-
-
-def _sweep_passes(nu_swept: np.ndarray) -> tuple[tuple, ...]:
-    """The factors a rescaling applies, as passes (species, rescaled row, ν, where ν ≠ 1
-    or None) in which each species occurs at most once: pass p holds every species' p-th
-    factor, rows in order, so that a species' factors multiply in the same order
-    whatever the batch."""
-    terms = [[(r, nu_swept[i, r]) for r in np.flatnonzero(nu_swept[i])]
-             for i in range(nu_swept.shape[0])]
-    passes = []
-    for p in range(max((len(t) for t in terms), default=0)):
-        mine = [(i, *t[p]) for i, t in enumerate(terms) if len(t) > p]
-        power = np.array([m[2] for m in mine], dtype=float)
-        odd = power != 1.0
-        passes.append((np.array([m[0] for m in mine]), np.array([m[1] for m in mine]),
-                       power, odd if odd.any() else None))
-    return tuple(passes)
 
 
 @dataclass(frozen=True)
@@ -628,12 +611,9 @@ def _initial_guess(problem: _Problem, bound: BoundModel) -> tuple[np.ndarray, np
     wanted = problem.totals[st.sweep_rows]
     for _ in range(GUESS_SWEEPS):
         ratio = _clip(wanted / (st.sweep_carried @ conc), SWEEP_LIMIT ** -1, SWEEP_LIMIT)
-        y[st.sweep_components] += np.log(ratio)
-        for species, row, power, odd in st.sweep_passes:  # c_i ∝ Π_j a_j^ν_ij: no exp
-            factor = ratio[row]
-            if odd is not None:
-                factor[odd] **= power[odd, None]
-            conc[species] *= factor
+        log_ratio = np.log(ratio)
+        y[st.sweep_components] += log_ratio
+        conc *= np.exp(st.sweep_nu @ log_ratio)              # c_i ∝ Π_j a_j^ν_ij
     u = np.sqrt(_clip(st.half_z2 @ conc, 0.0, problem.u_max ** 2)[0])
     return y, u
 
