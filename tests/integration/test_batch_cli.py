@@ -66,11 +66,9 @@ def test_chunked_streaming_equals_one_batch(tmp_path, suffix_in, suffix_out):
 
 
 def test_exit_status_is_one_when_a_row_fails(tmp_path, monkeypatch, capsys):
-    from ionwright import solver
-
-    monkeypatch.setattr(solver, "FAST_ITERATIONS", 1)
-    monkeypatch.setattr(solver, "CAREFUL_OUTER_ITERATIONS", 1)
-    monkeypatch.setattr(solver, "CAREFUL_INNER_ITERATIONS", 1)
+    monkeypatch.setattr("ionwright.newton.fast.FAST_ITERATIONS", 1)
+    monkeypatch.setattr("ionwright.newton.careful.CAREFUL_OUTER_ITERATIONS", 1)
+    monkeypatch.setattr("ionwright.newton.careful.CAREFUL_INNER_ITERATIONS", 1)
     source, target = tmp_path / "in.csv", tmp_path / "out.csv"
     source.write_text("KH2PO4,CaCl2,NaHCO3\n0.5,0.2,0.3\n", encoding="utf-8")
     assert main(["batch", str(source), "-o", str(target)]) == 1

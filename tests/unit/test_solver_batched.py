@@ -7,6 +7,7 @@ import pytest
 
 import ionwright
 from ionwright import batched_sparse, solver
+from ionwright.newton import fast, numerics, structure as newton_structure
 from ionwright.activity import DaviesModel
 from ionwright.engine import component_totals
 from ionwright.recipe import read_recipe
@@ -98,15 +99,14 @@ def test_a_returned_answer_needs_no_further_newton_step():
     bound = DaviesModel().bind(system.properties, t)
     eq = solver.solve(system, totals, bound)
     free = np.ones(system.n_components, dtype=bool)
-    structure = solver._Structure.build(system, free)
-    problem = solver._Problem.build(structure, totals, np.log(10) * system.log10_k(t, True),
-                                    np.full(totals.shape, np.nan),
-                                    solver._coupling(structure, bound, True))
-    lin = solver._augmented(problem, bound, eq.log_activity.T.copy(),
-                            np.sqrt(eq.ionic_strength))
-    dy, _ = solver._newton_step(lin, structure.factor)
-    assert np.abs(dy).max() <= solver.STEP_TOLERANCE
-    assert lin.measures()[0].max() <= solver.RESIDUAL_TOLERANCE
+    structure = newton_structure.Structure.build(system, free)
+    problem = newton_structure.Problem.build(
+        structure, totals, np.log(10) * system.log10_k(t, True), np.full(totals.shape, np.nan),
+        newton_structure.coupling_for(structure, bound, True))
+    lin = fast.augmented(problem, bound, eq.log_activity.T.copy(), np.sqrt(eq.ionic_strength))
+    dy, _ = fast.newton_step(lin, structure.factor)
+    assert np.abs(dy).max() <= numerics.STEP_TOLERANCE
+    assert lin.measures()[0].max() <= numerics.RESIDUAL_TOLERANCE
 
 
 def test_a_fixed_high_pH_is_not_held_back_by_the_ionic_strength_cap():
