@@ -15,10 +15,10 @@ in a minimum-degree order) and u is eliminated through its Schur complement
 (:mod:`.batched_sparse`); the steps live in :mod:`.newton`. Every step is capped, then
 an Armijo search on the scaled residual accepts it (switched off once the residual is at
 round-off); a sample stops when its residual *and* its Newton step are both small, and
-leaves the active set. Chunks are independent and run side by side on threads. Samples the fast path does not
-finish, and models whose γ depend on composition, take the careful path: a damped fixed
-point on ln γ around a convex Newton solve with an Armijo search on f, which converges
-from any start.
+leaves the active set. Chunks are independent and run side by side on threads. Samples
+the fast path does not finish, and models whose γ depend on composition, take the careful
+path: a damped fixed point on ln γ around a convex Newton solve with an Armijo search on
+f, which converges from any start.
 
 Every per-sample number is computed with elementwise operations, sparse products and
 reductions written out in a fixed order, never with dense BLAS calls whose rounding

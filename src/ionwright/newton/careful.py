@@ -18,7 +18,7 @@ MIN_DAMPING = 1.0 / 64         # smallest weight of a new ln γ in a careful rou
 
 
 def careful_path(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
-                  iterations: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+                 iterations: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Solve with ln γ and ln a(H2O) frozen per round, then update them, damped.
 
     Each round solves the convex problem exactly at the current ln γ, then moves ln γ a
@@ -68,7 +68,7 @@ def careful_path(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndarr
 
 
 def convex_newton(problem: Problem, offset: np.ndarray, y: np.ndarray,
-                   iterations: np.ndarray, rows: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+                  iterations: np.ndarray, rows: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """Minimise f(y) = Σ exp(offset + ν y) − T·y over the free y, for every sample.
 
     Newton steps from a Cholesky solve of the Hessian, capped, with an Armijo search on

@@ -48,7 +48,7 @@ PARTS = ("res", "scale", "prod", "a", "d")
 
 
 def augmented(problem: Problem, bound: BoundModel, y: np.ndarray,
-               u: np.ndarray) -> Linearised:
+              u: np.ndarray) -> Linearised:
     """Residuals (mass balances, I − u²), their scales and Jacobian at (y (c, k), u)."""
     st, cp = problem.structure, problem.coupling
     nf = st.nf
@@ -83,7 +83,7 @@ def newton_step(lin: Linearised, factor: SparseCholesky
 
 
 def fast_path(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
-               iterations: np.ndarray) -> np.ndarray:
+              iterations: np.ndarray) -> np.ndarray:
     """Newton on (y_free, u) together; returns which samples converged (y, u updated)."""
     free = problem.structure.free
     cols = slice(None) if free.all() else np.flatnonzero(free)
@@ -128,9 +128,9 @@ def fast_path(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
 
 
 def line_search(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
-                 active: np.ndarray, cols: np.ndarray | slice, merit0: np.ndarray,
-                 scale0: np.ndarray, dy: np.ndarray, du: np.ndarray, shrink: np.ndarray,
-                 at_round_off: np.ndarray) -> tuple[Linearised, np.ndarray]:
+                active: np.ndarray, cols: np.ndarray | slice, merit0: np.ndarray,
+                scale0: np.ndarray, dy: np.ndarray, du: np.ndarray, shrink: np.ndarray,
+                at_round_off: np.ndarray) -> tuple[Linearised, np.ndarray]:
     """Backtrack along (dy, du) until the scaled residual drops (Armijo); update y, u.
 
     *problem* and *bound* are restricted to *active*; *merit0* and *scale0* are the
@@ -171,7 +171,7 @@ def line_search(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndarra
 
 
 def acceptable(trial: Linearised, scale0: np.ndarray, merit0: np.ndarray,
-                decrease: np.ndarray, at_round_off: np.ndarray) -> np.ndarray:
+               decrease: np.ndarray, at_round_off: np.ndarray) -> np.ndarray:
     """Which trial points lower the merit enough (Armijo), or are at round-off anyway."""
     merit = trial.merit(scale0)
     ok = np.isfinite(merit) & (merit <= decrease * merit0)

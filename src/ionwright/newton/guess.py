@@ -119,7 +119,7 @@ def member_bases(base: np.ndarray, fam: Families) -> np.ndarray:
 
 
 def guess_proton(problem: Problem, base: np.ndarray, y_fixed: np.ndarray,
-                  member_k: np.ndarray) -> np.ndarray:
+                 member_k: np.ndarray) -> np.ndarray:
     """h = ln a(H+) solving the reduced proton balance P(h) = N(h), per sample.
 
     P collects the protons carried (ν > 0, and −T(H+) when negative), N those given up
