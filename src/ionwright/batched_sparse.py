@@ -196,7 +196,7 @@ class SparseCholesky:
         """
         k = d.size
         if k == 1:
-            x, t = self._bordered_one(prod[:, 0], top[:, 0].tolist(), float(last[0]),
+            x, t = self.bordered_one(prod[:, 0], top[:, 0].tolist(), float(last[0]),
                                       a[:, 0].tolist(), b[:, 0].tolist(), float(d[0]))
             return np.array(x)[:, None], np.array([t])
         rhs = np.empty((a.shape[0], 2, k))
@@ -212,9 +212,10 @@ class SparseCholesky:
         p -= q
         return p, t
 
-    def _bordered_one(self, prod: np.ndarray, top: list, last: float, a: list, b: list,
-                      d: float) -> tuple[list, float]:
-        """:meth:`solve_bordered` for one sample on Python floats, operation for operation."""
+    def bordered_one(self, prod: np.ndarray, top: list, last: float, a: list, b: list,
+                     d: float) -> tuple[list, float]:
+        """:meth:`solve_bordered` for one sample (*prod* a column, the rest Python floats),
+        operation for operation on Python floats: (x as a list, t)."""
         low, inv = self._factor_one(prod)
         p = self._substitute_one(low, inv, [-v for v in top])
         q = self._substitute_one(low, inv, a)

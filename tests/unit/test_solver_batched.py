@@ -188,3 +188,27 @@ def test_a_system_is_compiled_once_per_table_set():
     first = compile_system(tables, ["Na+", "Cl-"])
     assert compile_system(tables, ["Cl-", "H+", "Na+", "H2O"]) is first
     assert compile_system(tables, ["Na+"]) is not first
+
+
+def test_random_waters_alone_have_the_bits_they_have_together():
+    """One sample takes the float shortcuts (bordered solve, Newton loop); a batch takes the
+    vector code. Every answer must be the same, bit for bit, either way."""
+    system, totals, t = _waters(300, seed=21)
+    together = _solve(system, totals, t)
+    for k in range(300):
+        alone = _solve(system, totals[k:k + 1], t[k:k + 1])
+        assert np.array_equal(alone.log_activity[0], together.log_activity[k]), k
+        assert np.array_equal(alone.molality[0], together.molality[k]), k
+        assert alone.iterations[0] == together.iterations[k]
+        assert alone.status[0] == together.status[k]
+
+
+def test_waters_at_a_fixed_pH_alone_have_the_bits_they_have_together():
+    system, totals, t = _waters(60, seed=22)
+    fixed = np.full(totals.shape, np.nan)
+    fixed[:, 0] = -np.random.default_rng(4).uniform(3.0, 11.0, 60)   # log10 a(H+) = −pH
+    together = _solve(system, totals, t, fixed)
+    assert np.all(together.status == "converged")
+    for k in range(60):
+        alone = _solve(system, totals[k:k + 1], t[k:k + 1], fixed[k:k + 1])
+        assert np.array_equal(alone.molality[0], together.molality[k]), k
