@@ -144,10 +144,9 @@ def guess_proton(problem: Problem, base: np.ndarray, y_fixed: np.ndarray,
     fixed_part = np.zeros((4, k))                           # [P, dP/dh, N, dN/dh]
     fixed_part[0] = np.maximum(const, 0.0) + np.maximum(-t_h, 0.0)
     fixed_part[2] = np.maximum(-const, 0.0) + np.maximum(t_h, 0.0)
-    lo = np.full(k, np.log(1e-17))
-    hi = np.full(k, np.log(10.0))
-    h = np.full(k, np.log(1e-7))
-    settled = np.zeros(k, dtype=bool)
+    one = k == 1  # one sample: its bracket on numpy scalars (the same operations, faster)
+    lo, hi, h = (np.log(v) if one else np.full(k, np.log(v)) for v in (1e-17, 10.0, 1e-7))
+    settled = np.False_ if one else np.zeros(k, dtype=bool)
     share = np.empty((4, nv, k))
     with np.errstate(divide="ignore", invalid="ignore"):
         for _ in range(GUESS_ITERATIONS):  # all samples at once; settled ones stay put
@@ -165,17 +164,30 @@ def guess_proton(problem: Problem, base: np.ndarray, y_fixed: np.ndarray,
                 share[3] -= s_neg_nu / total
                 share *= fam_tot
                 balance += plan.families @ share.reshape(4 * nv, k)
-            p, dp, n, dn = balance
-            g = np.log(p / n)
-            above = g > 0
-            hi = np.where(above, h, hi)
-            lo = np.where(above, lo, h)
-            trial = h - g / (dp / p + dn / n)
-            inside = (trial > lo) & (trial < hi)            # False for NaN and ±inf
-            new = np.where(inside, trial, 0.5 * (lo + hi))
-            new = np.where(settled, h, new)
-            settled |= (np.abs(new - h) < GUESS_TOLERANCE) | (hi - lo < GUESS_TOLERANCE)
-            h = new
+            h, lo, hi, settled = _bracketed_step(h, lo, hi, settled,
+                                                 *(balance[:, 0] if one else balance))
             if all_set(settled):
                 break
-    return h
+    return np.array([h]) if one else h
+
+
+def _bracketed_step(h, lo, hi, settled, p, dp, n, dn):
+    """One safeguarded Newton step on g = ln P − ln N (arrays over samples, or numpy
+    scalars for one sample): the bracket shrinks to the side of the root, a step leaving
+    it becomes bisection, and settled samples stay put. Returns (h, lo, hi, settled)."""
+    g = np.log(p / n)
+    above = g > 0
+    hi = _pick(above, h, hi)
+    lo = _pick(above, lo, h)
+    trial = h - g / (dp / p + dn / n)
+    inside = (trial > lo) & (trial < hi)                    # False for NaN and ±inf
+    new = _pick(settled, h, _pick(inside, trial, 0.5 * (lo + hi)))
+    settled = settled | (abs(new - h) < GUESS_TOLERANCE) | (hi - lo < GUESS_TOLERANCE)
+    return new, lo, hi, settled
+
+
+def _pick(condition, a, b):
+    """np.where(condition, a, b), or a plain choice for one sample's scalars."""
+    if isinstance(condition, np.ndarray):
+        return np.where(condition, a, b)
+    return a if condition else b
