@@ -80,15 +80,17 @@ class SparseRows:
         self.matrix = csr_array(np.asarray(dense, dtype=float))
         self.shape = self.matrix.shape
         self.kernel = _csr_matvecs()
+        self._arrays = (self.matrix.indptr, self.matrix.indices, self.matrix.data)
 
     def __matmul__(self, x: np.ndarray) -> np.ndarray:
         m, n = self.shape
         if self.kernel is None or x.ndim != 2:
             return self.matrix @ x
-        x = np.ascontiguousarray(x, dtype=float)
-        out = np.zeros((m, x.shape[1]))
-        a = self.matrix
-        self.kernel(m, n, x.shape[1], a.indptr, a.indices, a.data, x.ravel(), out.ravel())
+        if not (x.flags.c_contiguous and x.dtype == np.float64):
+            x = np.ascontiguousarray(x, dtype=float)
+        k = x.shape[1]
+        out = np.zeros((m, k))
+        self.kernel(m, n, k, *self._arrays, x.reshape(-1), out.reshape(-1))
         return out
 
 

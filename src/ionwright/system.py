@@ -62,23 +62,31 @@ class ChemicalSystem:
         (s, n) with *samples_last* (the solver's layout). Summed term by term over the
         temperature basis, so a sample's values do not depend on the batch."""
         t_C = np.asarray(t_C, dtype=float)
-        one = t_C.size == 1
-        if one:  # single solves come back to the same temperature: kept, read-only
-            key = (float(t_C.ravel()[0]), samples_last)
-            found = self._log10_k_memo.get(key)
-            if found is not None:
-                return found
+        if t_C.size == 1:  # single solves come back to the same temperature: kept, read-only
+            return self._remember((float(t_C.ravel()[0]), samples_last),
+                                  lambda: self._log10_k(t_C, samples_last, read_only=True))
+        return self._log10_k(t_C, samples_last)
+
+    def _log10_k(self, t_C: np.ndarray, samples_last: bool, read_only: bool = False):
         out = self._log10_k_rows @ temperature.basis(t_C + KELVIN)
         out = out if samples_last else out.T
-        if one:
-            if len(self._log10_k_memo) > 64:
-                self._log10_k_memo.clear()
+        if read_only:
             out.setflags(write=False)
-            self._log10_k_memo[key] = out
         return out
 
+    def _remember(self, key: tuple, make):
+        """The value kept under *key*, made on first use (at most 64 kept per system)."""
+        memo = self._memo
+        found = memo.get(key)
+        if found is None:
+            if len(memo) >= 64:
+                memo.clear()
+            found = memo[key] = make()
+        return found
+
     @cached_property
-    def _log10_k_memo(self) -> dict:
+    def _memo(self) -> dict:
+        """Results kept per temperature: log10 K of one temperature, notes of a span."""
         return {}
 
     @cached_property
@@ -97,6 +105,9 @@ class ChemicalSystem:
     def temperature_notes(self, t_C: np.ndarray) -> list[str]:
         """A warning for each constant used outside the temperature range it is known for."""
         lo, hi = float(np.min(t_C)), float(np.max(t_C))
+        return list(self._remember(("notes", lo, hi), lambda: tuple(self._notes(lo, hi))))
+
+    def _notes(self, lo: float, hi: float) -> list[str]:
         notes: dict[str, None] = {}
         for res in self.resolved:
             for name, _, logk in res.terms:
