@@ -202,13 +202,14 @@ def fast_path_one(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndar
         u0 = float(u[0])
         biggest = _largest_magnitude(dy)
         res, scale = lin.res[:, 0].tolist(), lin.scale[:, 0].tolist()
-        if (_largest_magnitude([r / s for r, s in zip(res, scale)]) <= RESIDUAL_TOLERANCE
-                and _max(biggest, abs(du) / _max(u0, 1e-12)) <= STEP_TOLERANCE):
+        worst = _largest_magnitude([r / s for r, s in zip(res, scale)])
+        size = _max(biggest, abs(du) / _max(u0, 1e-12))
+        if worst <= RESIDUAL_TOLERANCE and size <= STEP_TOLERANCE:
             iterations[0] = it                 # the last, tiny step is taken without a search
             y[cols, 0] += np.array(dy)
             u[0] = _min(_max(u0 + du, 0.0), u_max)
             return np.ones(1, dtype=bool)
-        at_round_off = _largest_magnitude([r / s for r, s in zip(res, scale)]) <= ROUND_OFF
+        at_round_off = worst <= ROUND_OFF
         merit = _merit(res, scale)
         shrink = _min(1.0, STEP_CAP / _max(biggest, 1e-300))
         step, du = np.array([v * shrink for v in dy]), du * shrink
@@ -250,7 +251,12 @@ def _min(a: float, b: float) -> float:
 
 def _largest_magnitude(values: list[float]) -> float:
     """The largest |v| (NaN if any is NaN), 0 for none: a column's max of np.abs."""
-    out = 0.0 if not values else abs(values[0])
+    if not values:
+        return 0.0
+    total = sum(values)
+    if total == total:  # no NaN (nor +inf with −inf): the builtin max is exact
+        return max(map(abs, values))
+    out = abs(values[0])
     for v in values[1:]:
         out = _max(out, abs(v))
     return out
