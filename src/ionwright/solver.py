@@ -122,7 +122,7 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
         _solve_chunk(problem, bound_slice(bound, rows), fast, out, rows)
 
     chunks = [todo[start:start + CHUNK_SIZE] for start in range(0, todo.size, CHUNK_SIZE)]
-    workers = min(threads or default_threads(), len(chunks))
+    workers = min(threads or default_threads(), len(chunks)) if len(chunks) > 1 else 1
     if workers > 1:  # chunks are independent and write disjoint rows of `out`
         structure.guess_plan  # noqa: B018 - built once, before the threads share it
         with ThreadPoolExecutor(workers) as pool:
