@@ -59,12 +59,17 @@ def _random_spd(f: int, k: int, seed: int):
     return plan, prod, dense, rng
 
 
+def _border(rng, f: int, k: int) -> tuple[np.ndarray, ...]:
+    """Random (top, last, a, b, d) of a bordered system, the corner well away from zero."""
+    return (rng.normal(size=(f, k)), rng.normal(size=k), rng.normal(size=(f, k)),
+            rng.normal(size=(f, k)), rng.normal(size=k) - 5.0)
+
+
 @pytest.mark.parametrize("seed", [0, 1, 2])
 def test_the_bordered_solve_solves_the_bordered_system(seed):
     f, k = 6, 40
     plan, prod, dense, rng = _random_spd(f, k, seed)
-    top, last = rng.normal(size=(f, k)), rng.normal(size=k)
-    a, b, d = rng.normal(size=(f, k)), rng.normal(size=(f, k)), rng.normal(size=k) - 5.0
+    top, last, a, b, d = _border(rng, f, k)
     x, t = plan.solve_bordered(prod, top, last, a, b, d)
     for j in range(k):
         full = np.zeros((f + 1, f + 1))
@@ -78,8 +83,7 @@ def test_one_sample_takes_the_same_operations_as_the_batch(seed):
     """The one-sample path runs on Python floats; it must give the batch's bits."""
     f, k = 6, 25
     plan, prod, _, rng = _random_spd(f, k, seed)
-    top, last = rng.normal(size=(f, k)), rng.normal(size=k)
-    a, b, d = rng.normal(size=(f, k)), rng.normal(size=(f, k)), rng.normal(size=k) - 5.0
+    top, last, a, b, d = _border(rng, f, k)
     x, t = plan.solve_bordered(prod, top, last, a, b, d)
     rhs = rng.normal(size=(f, 2, k))
     whole = plan.solve(prod, rhs)
