@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import cached_property
 
 import numpy as np
 
@@ -81,6 +82,15 @@ class SparseRows:
         self.shape = self.matrix.shape
         self.kernel = _csr_matvecs()
         self._arrays = (self.matrix.indptr, self.matrix.indices, self.matrix.data)
+        self._one = None
+
+    def apply_one(self, x: list) -> list:
+        """M @ x for one sample's vector of Python floats, each row added in column order
+        from 0.0 as the kernel does (so the same bits as the batched product), by
+        straight-line code written for M on first use."""
+        if self._one is None:
+            self._one = _straight_line_product(*self._arrays)
+        return self._one(x)
 
     def __matmul__(self, x: np.ndarray) -> np.ndarray:
         m, n = self.shape
@@ -92,6 +102,40 @@ class SparseRows:
         out = np.zeros((m, k))
         self.kernel(m, n, k, *self._arrays, x.reshape(-1), out.reshape(-1))
         return out
+
+
+_TERMS_PER_STATEMENT = 48      # keeps each generated expression shallow for the compiler
+
+
+def _straight_line_product(indptr: np.ndarray, indices: np.ndarray, data: np.ndarray):
+    """A Python function x ↦ M @ x (lists of floats) for the CSR matrix M, written out as
+    one sum per row: ``0.0 + w·x[j] + …`` in column order, the kernel's own sequence of
+    IEEE operations, at a fraction of the cost of looping over the entries."""
+    lines, names = ["def product(x):"], []
+    for i in range(indptr.size - 1):
+        terms = [(int(j), float(w)) for j, w in zip(indices[indptr[i]:indptr[i + 1]],
+                                                    data[indptr[i]:indptr[i + 1]])]
+        name = f"r{i}"
+        names.append(name)
+        lines.append(f"    {name} = 0.0")
+        for start in range(0, len(terms), _TERMS_PER_STATEMENT):
+            parts = [_term(j, w) for j, w in terms[start:start + _TERMS_PER_STATEMENT]]
+            lines.append(f"    {name} = {name}{''.join(parts)}")
+    lines.append(f"    return [{', '.join(names)}]")
+    scope: dict = {}
+    exec("\n".join(lines), scope)  # noqa: S102 - code generated from numbers alone
+    return scope["product"]
+
+
+def _term(j: int, w: float) -> str:
+    """`` + w·x[j]`` as source; ×1 and ×(−1) are exact, so they are left out."""
+    if w == 1.0:
+        return f" + x[{j}]"
+    if w == -1.0:
+        return f" - x[{j}]"
+    if not math.isfinite(w):
+        return f" + float({str(w)!r}) * x[{j}]"
+    return f" + {w!r} * x[{j}]"
 
 
 @dataclass(frozen=True)
@@ -150,6 +194,10 @@ class SparseCholesky:
                    source, tuple(columns),
                    tuple(updates), tuple(lower))
 
+    @cached_property
+    def _source_list(self) -> list[int]:
+        return self.source.tolist()
+
     def solve(self, prod: np.ndarray, b: np.ndarray) -> np.ndarray:
         """X (f, r, k) with A X = B (f, r, k), A's entries read from the rows of *prod*.
 
@@ -158,7 +206,7 @@ class SparseCholesky:
         """
         f, r, k = b.shape
         if k == 1:
-            return self._solve_one(prod[:, 0], b[:, :, 0])[:, :, None]
+            return self._solve_one(prod[:, 0].tolist(), b[:, :, 0])[:, :, None]
         low = np.take(prod, self.source, axis=0)
         inv = np.empty((f, k))
         tmp = np.empty(k)
@@ -198,7 +246,7 @@ class SparseCholesky:
         """
         k = d.size
         if k == 1:
-            x, t = self.bordered_one(prod[:, 0], top[:, 0].tolist(), float(last[0]),
+            x, t = self.bordered_one(prod[:, 0].tolist(), top[:, 0].tolist(), float(last[0]),
                                       a[:, 0].tolist(), b[:, 0].tolist(), float(d[0]))
             return np.array(x)[:, None], np.array([t])
         rhs = np.empty((a.shape[0], 2, k))
@@ -214,13 +262,11 @@ class SparseCholesky:
         p -= q
         return p, t
 
-    def bordered_one(self, prod: np.ndarray, top: list, last: float, a: list, b: list,
+    def bordered_one(self, prod: list, top: list, last: float, a: list, b: list,
                      d: float) -> tuple[list, float]:
-        """:meth:`solve_bordered` for one sample (*prod* a column, the rest Python floats),
-        operation for operation on Python floats: (x as a list, t)."""
-        low, inv = self._factor_one(prod)
-        p = self._substitute_one(low, inv, [-v for v in top])
-        q = self._substitute_one(low, inv, a)
+        """:meth:`solve_bordered` for one sample, operation for operation on Python
+        floats (*prod* one sample's rows as a list): (x as a list, t)."""
+        p, q = self._one(prod, ([-v for v in top], a))
         acc = 0.0
         for bj, qj in zip(b, q):
             acc += bj * qj
@@ -233,43 +279,40 @@ class SparseCholesky:
             t = 0.0
         return [pj - qj * t for pj, qj in zip(p, q)], t
 
-    def _solve_one(self, prod: np.ndarray, b: np.ndarray) -> np.ndarray:
+    def _solve_one(self, prod: list, b: np.ndarray) -> np.ndarray:
         """:meth:`solve` for one sample, on Python floats: the same IEEE operations in the
         same order (so the same bits) without numpy's per-call cost."""
         if not b.shape[0]:
             return np.empty(b.shape)
-        low, inv = self._factor_one(prod)
-        return np.array([self._substitute_one(low, inv, given) for given in b.T.tolist()]).T
+        return np.array(self._one(prod, b.T.tolist())).T
 
-    def _factor_one(self, prod: np.ndarray) -> tuple[list, list]:
-        """L (its stored entries) and the inverse pivots for one sample, as in :meth:`solve`."""
-        low = prod[self.source].tolist()
-        inv = [0.0] * len(self.columns)
+    @cached_property
+    def _one(self):
+        """f(prod, right-hand sides) → solutions, for one sample: :meth:`solve`'s
+        factorisation and substitutions written out as straight-line Python for this
+        plan (every entry of L a local variable), the same operations in the same order."""
+        lines = ["def solve_one(p, given):"]
+        lines += [f"    l{e} = p[{row}]" for e, row in enumerate(self.source.tolist())]
         for j, (start, end) in enumerate(self.columns):
-            diagonal = low[start]
-            for target, src, mult in self.updates[j]:
-                low[target] -= low[src] * low[mult]
-            pivot = max(low[start], PIVOT_FLOOR * diagonal + 1e-300)
-            low[start] = pivot if math.isnan(pivot) else math.sqrt(pivot)
-            inv_j = inv[j] = 1.0 / low[start]
-            for e in range(start + 1, end):
-                low[e] *= inv_j
-        return low, inv
-
-    def _substitute_one(self, low: list, inv: list, given: list) -> list:
-        """x with L Lᵀ x = *given* (component order in and out), for one sample."""
-        f = len(inv)
-        z = [given[o] for o in self.order]
-        for j in range(f):                      # forward: L z = b
-            zj = z[j] = z[j] * inv[j]
-            for entry, i in self.lower[j]:
-                z[i] -= zj * low[entry]
-        for j in range(f - 1, -1, -1):          # back: Lᵀ x = z
-            zj = z[j]
-            for entry, i in self.lower[j]:
-                zj -= z[i] * low[entry]
-            z[j] = zj * inv[j]
-        return [z[p] for p in self.position]
+            lines.append(f"    d = l{start}")
+            lines += [f"    l{t} = l{t} - l{src} * l{mult}" for t, src, mult in self.updates[j]]
+            lines += [f"    v = max(l{start}, {PIVOT_FLOOR!r} * d + 1e-300)",
+                      f"    l{start} = v if v != v else sqrt(v)",
+                      f"    i{j} = 1.0 / l{start}"]
+            lines += [f"    l{e} = l{e} * i{j}" for e in range(start + 1, end)]
+        lines += ["    out = []", "    for g in given:"]
+        lines += [f"        z{k} = g[{o}]" for k, o in enumerate(self.order)]
+        for j in range(len(self.columns)):                   # forward: L z = b
+            lines.append(f"        z{j} = z{j} * i{j}")
+            lines += [f"        z{i} = z{i} - z{j} * l{e}" for e, i in self.lower[j]]
+        for j in range(len(self.columns) - 1, -1, -1):       # back: Lᵀ x = z
+            lines += [f"        z{j} = z{j} - z{i} * l{e}" for e, i in self.lower[j]]
+            lines.append(f"        z{j} = z{j} * i{j}")
+        lines.append(f"        out.append([{', '.join(f'z{k}' for k in self.position)}])")
+        lines.append("    return out")
+        scope = {"sqrt": math.sqrt}
+        exec("\n".join(lines), scope)  # noqa: S102 - code generated from the plan alone
+        return scope["solve_one"]
 
 
 def minimum_degree(meet: np.ndarray) -> list[int]:

@@ -31,6 +31,10 @@ class _BoundDavies(IonicStrengthModel):
         phi, dphi = _davies_terms(u, self.A)
         return np.stack(phi), np.stack(dphi)
 
+    def terms_one(self, u: float) -> tuple[list, list]:
+        phi, dphi = _davies_terms(u, float(self.A[0]))
+        return list(phi), list(dphi)
+
 
 def _davies_terms(u, A) -> tuple[tuple, tuple]:
     """(φ, ∂φ/∂u) of Davies for u and A, floats or arrays alike (+, −, ×, ÷ only, so both

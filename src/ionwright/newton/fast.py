@@ -5,6 +5,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import NamedTuple
 
 import numpy as np
 
@@ -12,7 +13,8 @@ from ..activity.base import BoundModel
 from ..batched_sparse import SparseCholesky, weighted_sum
 from .numerics import (ARMIJO, LN_C_CEILING, MAX_HALVINGS, RESIDUAL_TOLERANCE, ROUND_OFF,
                        STEP_CAP, STEP_TOLERANCE, any_set, all_set, at, clip, column_max)
-from .structure import Problem, bound_slice, model_terms
+from .floats import fmax, fmin, largest_magnitude, scaled_merit
+from .structure import Problem, bound_slice, model_terms, model_terms_one
 
 FAST_ITERATIONS = 60
 
@@ -185,87 +187,107 @@ def acceptable(trial: Linearised, scale0: np.ndarray, merit0: np.ndarray,
 
 # -- one sample: the same steps with its numbers on Python floats -------------------------
 
+class _LinearisedOne(NamedTuple):
+    """:class:`Linearised` for one sample, as lists of Python floats (d a float)."""
+
+    res: list
+    scale: list
+    prod: list
+    a: list
+    d: float
+
+
+def augmented_one(problem: Problem, bound: BoundModel, y: list, u: float,
+                  given: tuple[list, list, list]) -> _LinearisedOne:
+    """:func:`augmented` for one sample on Python floats: y (c,) and u, with *given*
+    its (ln K, free totals, scale floors) as lists. The same operations in the same
+    order; the exponentials are numpy's, over the whole vector at once."""
+    st, cp = problem.structure, problem.coupling
+    nf = st.nf
+    ln_k, totals, floor = given
+    phi, dphi = model_terms_one(bound, cp, u)
+    lnc = cp.nu.apply_one(y + phi)
+    conc = np.exp([fmin(v + k, LN_C_CEILING) for v, k in zip(lnc, ln_k)]).tolist()
+    prod = cp.weights.apply_one(conc)
+    first = cp.side_row
+    if cp.terms:
+        d0 = dphi[0]
+        side = [v * d0 for v in prod[first:first + nf + 1]]
+    else:
+        side = [0.0] * (nf + 1)
+    for p in range(1, cp.terms):
+        first += nf + 1
+        dp = dphi[p]
+        side = [acc + v * dp for acc, v in zip(side, prod[first:first + nf + 1])]
+    uu = u * u
+    ionic = prod[2 * nf]
+    res = [v - t for v, t in zip(prod[:nf], totals)]
+    res.append(ionic - uu)
+    scale = [v + f for v, f in zip(prod[nf:2 * nf], floor)]
+    scale.append(fmax(ionic, uu) + 1e-300)
+    return _LinearisedOne(res, scale, prod, side[:nf], side[nf] - 2.0 * u)
+
+
 def fast_path_one(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
                   iterations: np.ndarray) -> np.ndarray:
-    """:func:`fast_path` for a single sample, its per-sample numbers (step sizes, merits,
-    the line search) on Python floats: the same IEEE operations in the same order, so the
-    same bits, at a fraction of numpy's per-call cost (tested sample by sample)."""
+    """:func:`fast_path` for a single sample, all its numbers on Python floats: the same
+    IEEE operations in the same order, so the same bits, at a fraction of numpy's
+    per-call cost (tested sample by sample). *y* (c, 1) and *u* (1,) are updated."""
     st = problem.structure
-    cols = slice(None) if st.free.all() else np.flatnonzero(st.free)
+    cols = np.flatnonzero(st.free).tolist()
     nf, u_max = st.nf, float(problem.u_max[0])
-    lin = augmented(problem, bound, y, u)
+    given = (problem.ln_k[:, 0].tolist(), problem.totals[:, 0].tolist(),
+             problem.scale_floor[:, 0].tolist())
+    y_now, u_now = y[:, 0].tolist(), float(u[0])
+    lin = augmented_one(problem, bound, y_now, u_now, given)
     for it in range(1, FAST_ITERATIONS + 1):
-        dy, du = st.factor.bordered_one(lin.prod[:, 0], lin.res[:nf, 0].tolist(),
-                                        float(lin.res[nf, 0]), lin.a[:, 0].tolist(),
-                                        lin.prod[2 * nf + 1:3 * nf + 1, 0].tolist(),
-                                        float(lin.d[0]))
-        u0 = float(u[0])
-        biggest = _largest_magnitude(dy)
-        res, scale = lin.res[:, 0].tolist(), lin.scale[:, 0].tolist()
-        worst = _largest_magnitude([r / s for r, s in zip(res, scale)])
-        size = _max(biggest, abs(du) / _max(u0, 1e-12))
+        dy, du = st.factor.bordered_one(lin.prod, lin.res[:nf], lin.res[nf], lin.a,
+                                        lin.prod[2 * nf + 1:3 * nf + 1], lin.d)
+        biggest = largest_magnitude(dy)
+        res, scale = lin.res, lin.scale
+        worst = largest_magnitude([r / s for r, s in zip(res, scale)])
+        size = fmax(biggest, abs(du) / fmax(u_now, 1e-12))
         if worst <= RESIDUAL_TOLERANCE and size <= STEP_TOLERANCE:
             iterations[0] = it                 # the last, tiny step is taken without a search
-            y[cols, 0] += np.array(dy)
-            u[0] = _min(_max(u0 + du, 0.0), u_max)
+            y[:, 0] = _moved(y_now, cols, dy, None)
+            u[0] = fmin(fmax(u_now + du, 0.0), u_max)
             return np.ones(1, dtype=bool)
         at_round_off = worst <= ROUND_OFF
-        merit = _merit(res, scale)
-        shrink = _min(1.0, STEP_CAP / _max(biggest, 1e-300))
-        step, du = np.array([v * shrink for v in dy]), du * shrink
+        merit = scaled_merit(res, scale)
+        shrink = fmin(1.0, STEP_CAP / fmax(biggest, 1e-300))
+        step, du = [v * shrink for v in dy], du * shrink
         alpha = None                           # the full step first, then halvings
         for _ in range(MAX_HALVINGS):
-            yt = y.copy()
+            yt = _moved(y_now, cols, step, alpha)
             if alpha is None:
-                yt[cols, 0] += step
-                ut = _min(_max(u0 + du, 0.0), u_max)
+                ut = fmin(fmax(u_now + du, 0.0), u_max)
                 decrease = 1.0 - 2.0 * ARMIJO * shrink
             else:
-                yt[cols, 0] += alpha * step
-                ut = _min(_max(u0 + alpha * du, 0.0), u_max)
+                ut = fmin(fmax(u_now + alpha * du, 0.0), u_max)
                 decrease = 1.0 - 2.0 * ARMIJO * alpha * shrink
-            trial = augmented(problem, bound, yt, np.array([ut]))
-            res_t = trial.res[:, 0].tolist()
-            m = _merit(res_t, scale)
+            trial = augmented_one(problem, bound, yt, ut, given)
+            m = scaled_merit(trial.res, scale)
             if (math.isfinite(m) and m <= decrease * merit) or (
-                    at_round_off and all(math.isfinite(v) for v in res_t)):
-                y[:], u[0], lin = yt, ut, trial
+                    at_round_off and all(math.isfinite(v) for v in trial.res)):
+                y_now, u_now, lin = yt, ut, trial
                 break
             alpha = 0.5 if alpha is None else 0.5 * alpha
         else:                                  # no acceptable step: the careful path takes it
             iterations[0] = it
+            y[:, 0], u[0] = y_now, u_now
             return np.zeros(1, dtype=bool)
     iterations[0] = FAST_ITERATIONS
+    y[:, 0], u[0] = y_now, u_now
     return np.zeros(1, dtype=bool)
 
 
-def _max(a: float, b: float) -> float:
-    """np.maximum of two floats (a NaN wins, as there)."""
-    return a if a >= b or a != a else b
-
-
-def _min(a: float, b: float) -> float:
-    """np.minimum of two floats (a NaN wins, as there)."""
-    return a if a <= b or a != a else b
-
-
-def _largest_magnitude(values: list[float]) -> float:
-    """The largest |v| (NaN if any is NaN), 0 for none: a column's max of np.abs."""
-    if not values:
-        return 0.0
-    total = sum(values)
-    if total == total:  # no NaN (nor +inf with −inf): the builtin max is exact
-        return max(map(abs, values))
-    out = abs(values[0])
-    for v in values[1:]:
-        out = _max(out, abs(v))
+def _moved(y: list, cols: list, step: list, alpha: float | None) -> list:
+    """y with y[cols] += (alpha ×) step, as a new list."""
+    out = list(y)
+    if alpha is None:
+        for j, v in zip(cols, step):
+            out[j] += v
+    else:
+        for j, v in zip(cols, step):
+            out[j] += alpha * v
     return out
-
-
-def _merit(res: list[float], scale: list[float]) -> float:
-    """Σ (r/s)², added in order: :meth:`Linearised.merit` for one sample."""
-    acc = 0.0
-    for r, s in zip(res, scale):
-        q = r / s
-        acc += q * q
-    return acc

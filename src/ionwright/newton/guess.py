@@ -9,6 +9,7 @@ import numpy as np
 
 from ..activity.base import BoundModel
 from ..batched_sparse import SparseRows, weighted_sum
+from .floats import fdiv
 from .numerics import IONIC_STRENGTH_CAP, LN_C_CEILING, all_set, clip
 from .structure import Families, Problem, Structure, ln_gamma_at
 
@@ -144,9 +145,11 @@ def guess_proton(problem: Problem, base: np.ndarray, y_fixed: np.ndarray,
     fixed_part = np.zeros((4, k))                           # [P, dP/dh, N, dN/dh]
     fixed_part[0] = np.maximum(const, 0.0) + np.maximum(-t_h, 0.0)
     fixed_part[2] = np.maximum(-const, 0.0) + np.maximum(t_h, 0.0)
-    one = k == 1  # one sample: its bracket on numpy scalars (the same operations, faster)
-    lo, hi, h = (np.log(v) if one else np.full(k, np.log(v)) for v in (1e-17, 10.0, 1e-7))
-    settled = np.False_ if one else np.zeros(k, dtype=bool)
+    if k == 1:
+        return _proton_one(plan, nv, term_k[:, 0].tolist(), fam_tot[:, 0].tolist(),
+                           float(fixed_part[0, 0]), float(fixed_part[2, 0]))
+    lo, hi, h = (np.full(k, v) for v in _BRACKET_START)
+    settled = np.zeros(k, dtype=bool)
     share = np.empty((4, nv, k))
     with np.errstate(divide="ignore", invalid="ignore"):
         for _ in range(GUESS_ITERATIONS):  # all samples at once; settled ones stay put
@@ -164,16 +167,50 @@ def guess_proton(problem: Problem, base: np.ndarray, y_fixed: np.ndarray,
                 share[3] -= s_neg_nu / total
                 share *= fam_tot
                 balance += plan.families @ share.reshape(4 * nv, k)
-            h, lo, hi, settled = _bracketed_step(h, lo, hi, settled,
-                                                 *(balance[:, 0] if one else balance))
+            h, lo, hi, settled = _bracketed_step(h, lo, hi, settled, *balance)
             if all_set(settled):
                 break
-    return np.array([h]) if one else h
+    return h
+
+
+_BRACKET_START = tuple(float(np.log(v)) for v in (1e-17, 10.0, 1e-7))  # lo, hi, h
+
+
+def _proton_one(plan: GuessPlan, nv: int, term_k: list, fam_tot: list, given: float,
+                taken: float) -> np.ndarray:
+    """:func:`guess_proton`'s iterations for one sample, its numbers on Python floats
+    (the bracket on numpy scalars): the same operations in the same order."""
+    lo, hi, h = _BRACKET_START
+    settled = False
+    powers, term_power = plan.powers.tolist(), plan.term_power.tolist()
+    with np.errstate(divide="ignore", invalid="ignore"):
+        for _ in range(GUESS_ITERATIONS):
+            x = np.exp([p * h for p in powers]).tolist()
+            moments = plan.moments.apply_one([c * x[i] for c, i in zip(term_k, term_power)])
+            balance = [given + moments[0], 0.0 + moments[1], taken + moments[2],
+                       0.0 + moments[3]]
+            if nv:
+                shares: list[list[float]] = [[], [], [], []]
+                for f in range(nv):
+                    total, s_nu, s_pos, s_neg, s_pos_nu, s_neg_nu = moments[4 + f::nv][:6]
+                    mean = fdiv(s_nu, total)
+                    pos = fdiv(s_pos, total)
+                    neg = fdiv(s_neg, total)
+                    for q, v in enumerate((pos, fdiv(s_pos_nu, total) - pos * mean, neg,
+                                           neg * mean - fdiv(s_neg_nu, total))):
+                        shares[q].append(v * fam_tot[f])
+                summed = plan.families.apply_one([v for q in shares for v in q])
+                balance = [b + v for b, v in zip(balance, summed)]
+            h, lo, hi, settled = _bracketed_step(h, lo, hi, settled, *np.array(balance))
+            h = float(h)
+            if settled:
+                break
+    return np.array([h])
 
 
 def _bracketed_step(h, lo, hi, settled, p, dp, n, dn):
-    """One safeguarded Newton step on g = ln P − ln N (arrays over samples, or numpy
-    scalars for one sample): the bracket shrinks to the side of the root, a step leaving
+    """One safeguarded Newton step on g = ln P − ln N (arrays over samples, or floats
+    and numpy scalars for one sample): the bracket shrinks to the side of the root, a step leaving
     it becomes bisection, and settled samples stay put. Returns (h, lo, hi, settled)."""
     g = np.log(p / n)
     above = g > 0
