@@ -61,8 +61,10 @@ def _bound(model, system, t_C: float):
 
 
 def _fingerprint(name: str) -> tuple:
+    if not name.endswith(".toml"):  # a table's name, not a path
+        return (name,)
     path = Path(name).expanduser()
-    if path.suffix == ".toml" and path.is_file():
+    if path.is_file():
         stat = path.stat()
         return (str(path.resolve()), stat.st_mtime_ns, stat.st_size)
     return (name,)

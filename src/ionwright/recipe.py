@@ -156,10 +156,16 @@ def _from_mapping(data: dict[str, Any], origin: str, base_dir: Path,
         raise RecipeError(f"{origin} [dissolve]", "must be a table of ingredient = amount",
                           "e.g. [dissolve] then NaCl = 0.1")
     fixed = _fix(data.get("fix", {}), origin)
+    plain = (all(_is_number(v) for v in dissolve.values()) and "analysis" not in data
+             and not set(data) & CONVERTED_KEYS)
     recipe = Recipe(temperature_C=t, activity_model=model, tables=tables,
                     fix=fixed, title=str(data.get("title", "")), origin=origin,
                     base_dir=base_dir,
-                    phases={k: data[k] for k in ("solids", "gases") if k in data})
+                    phases={k: data[k] for k in ("solids", "gases") if k in data},
+                    dissolve=tuple((name, _plain_amount(value, origin, name))
+                                   for name, value in dissolve.items()) if plain else ())
+    if plain:  # amounts in mol/kg of water as given: nothing to convert
+        return recipe
     if "analysis" in data:
         from .analysis import read_analysis
 
@@ -173,11 +179,6 @@ def _from_mapping(data: dict[str, Any], origin: str, base_dir: Path,
             raise RecipeError(f"{origin} temperature_C", "an analysis gives its "
                               "temperature in [analysis]", "move temperature_C there")
         return read_analysis(data["analysis"], recipe, _tables(recipe, registry), registry)
-    plain = all(_is_number(v) for v in dissolve.values())
-    if plain and not set(data) & CONVERTED_KEYS:
-        amounts = tuple((name, _plain_amount(value, origin, name))
-                        for name, value in dissolve.items())
-        return replace(recipe, dissolve=amounts)
     return _composed(data, recipe, registry, chain)
 
 

@@ -37,6 +37,7 @@ and §3.2.10 (block elimination by a Schur complement).
 
 from __future__ import annotations
 
+import math
 import os
 from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, field
@@ -50,7 +51,8 @@ from .newton.careful import careful_path
 from .newton.fast import fast_path
 from .newton.guess import initial_guess
 from .newton.numerics import LN10, LN_C_CEILING, RESIDUAL_TOLERANCE, all_set, any_set, column_max
-from .newton.structure import (Problem, bound_slice, coupling_for, ln_gamma_at,
+from .newton.floats import largest_magnitude
+from .newton.structure import (Problem, bound_slice, coupling_for, ln_gamma_at, ln_gamma_one,
                                samples_infeasible, structure_of)
 from .system import ChemicalSystem
 
@@ -102,7 +104,7 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     fixed = (np.full((n, c), np.nan) if fixed_log10_activity is None
              else np.atleast_2d(np.asarray(fixed_log10_activity, dtype=float)))
     free = np.isnan(fixed[0]) if n else np.ones(c, dtype=bool)
-    if np.count_nonzero(np.isnan(fixed) != free):
+    if n > 1 and np.count_nonzero(np.isnan(fixed) != free):
         raise ValueError("every sample of a batch must fix the same components")
     structure = structure_of(system, free)
     s = len(system.species)
@@ -111,13 +113,17 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     out.status[infeasible] = INFEASIBLE
     fast = (method == "auto" and bound.depends_on_ionic_strength_only
             and _fast.FAST_ITERATIONS > 0)
-    todo = np.flatnonzero(~infeasible)
+    todo = (~infeasible).nonzero()[0]
     coupling = coupling_for(structure, bound, fast)
 
-    def ln_k(rows: np.ndarray) -> np.ndarray:
+    def ln_k(rows: np.ndarray | slice) -> np.ndarray:
         return LN10 * system.log10_k(bound.t_C[rows], samples_last=True)
 
     def run(rows: np.ndarray) -> None:
+        if rows.size == n:  # the whole batch in one chunk: nothing to slice
+            problem = Problem.build(structure, totals, ln_k(slice(None)), fixed, coupling)
+            _solve_chunk(problem, bound, fast, out, rows)
+            return
         problem = Problem.build(structure, totals[rows], ln_k(rows), fixed[rows], coupling)
         _solve_chunk(problem, bound_slice(bound, rows), fast, out, rows)
 
@@ -195,13 +201,15 @@ def _solve_chunk(problem: Problem, bound: BoundModel, fast: bool, out: _Outputs,
     ln_aw = np.zeros(k)
     if fast:
         done = fast_path(problem, bound, y, u, iterations)
-        if all_set(done):
+        if k == 1 and done[0]:
+            ln_g = np.array(ln_gamma_one(problem.coupling, bound, float(u[0])))[:, None]
+        elif all_set(done):
             ln_g = ln_gamma_at(problem.coupling, bound, u)
         elif any_set(done):
             done_rows = np.flatnonzero(done)
             ln_g[:, done] = ln_gamma_at(problem.coupling, bound_slice(bound, done_rows),
                                       u[done])
-    rest = np.flatnonzero(~done)
+    rest = (~done).nonzero()[0]
     careful = rest.size > 0
     if careful:
         sub, sub_bound = problem.take(rest), bound_slice(bound, rest)
@@ -211,12 +219,16 @@ def _solve_chunk(problem: Problem, bound: BoundModel, fast: bool, out: _Outputs,
         y[:, rest], u[rest], ln_g[:, rest], ln_aw[rest] = y0, u0, g0, aw0
         iterations[rest] += its
         done[rest] = ok
-    lnc = st.nu @ y
-    lnc += problem.ln_k
-    if careful:  # only the careful path moves a(H2O)
-        lnc += ln_aw * st.nu_water[:, None]
-    lnc -= ln_g
-    _store(out, rows, problem, y, u, ln_g, ln_aw, np.exp(np.minimum(lnc, LN_C_CEILING)))
+    if k == 1:
+        conc = _concentrations_one(problem, y, ln_g, ln_aw if careful else None)
+    else:
+        lnc = st.nu @ y
+        lnc += problem.ln_k
+        if careful:  # only the careful path moves a(H2O)
+            lnc += ln_aw * st.nu_water[:, None]
+        lnc -= ln_g
+        conc = np.exp(np.minimum(lnc, LN_C_CEILING))
+    _store(out, rows, problem, y, u, ln_g, ln_aw, conc)
     out.iterations[rows] = iterations
     out.status[rows[done]] = CONVERGED
 
@@ -226,9 +238,32 @@ def _store(out: _Outputs, rows: np.ndarray, problem: Problem, y: np.ndarray,
     st = problem.structure
     out.y[rows], out.u[rows], out.ln_g[rows], out.ln_aw[rows] = y.T, u, ln_g.T, ln_aw
     out.conc[rows] = conc.T
+    if conc.shape[1] == 1:  # one sample: the same operations on Python floats
+        c = conc[:, 0].tolist()
+        residual = largest_magnitude([
+            (v - t) / (a + f) for v, t, a, f in zip(
+                st.nu_free.apply_one(c), problem.totals[:, 0].tolist(),
+                st.abs_nu_free.apply_one(c), problem.scale_floor[:, 0].tolist())])
+        out.residual[rows] = residual
+        out.finite[rows] = math.isfinite(residual) and all(map(math.isfinite, c))
+        return
     r = st.nu_free @ conc - problem.totals
     scale = st.abs_nu_free @ conc + problem.scale_floor
     out.residual[rows] = column_max(np.abs(r) / scale)
     out.finite[rows] = np.isfinite(conc).all(axis=0) & np.isfinite(out.residual[rows])
+
+
+def _concentrations_one(problem: Problem, y: np.ndarray, ln_g: np.ndarray,
+                        ln_aw: np.ndarray | None) -> np.ndarray:
+    """exp(ln K + ν·y [+ ν_w ln a_w] − ln γ), capped, for one sample on Python floats
+    (the batch's operations in its order); (s, 1)."""
+    st = problem.structure
+    lnc = [v + k for v, k in zip(st.nu.apply_one(y[:, 0].tolist()), problem.ln_k[:, 0].tolist())]
+    if ln_aw is not None:
+        aw = float(ln_aw[0])
+        lnc = [v + aw * w for v, w in zip(lnc, st.nu_water.tolist())]
+    capped = [LN_C_CEILING if (v := a - g) > LN_C_CEILING else v
+              for a, g in zip(lnc, ln_g[:, 0].tolist())]
+    return np.exp(capped)[:, None]
 
 

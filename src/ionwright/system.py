@@ -104,7 +104,10 @@ class ChemicalSystem:
 
     def temperature_notes(self, t_C: np.ndarray) -> list[str]:
         """A warning for each constant used outside the temperature range it is known for."""
-        lo, hi = float(np.min(t_C)), float(np.max(t_C))
+        if t_C.size == 1:
+            lo = hi = float(t_C.reshape(-1)[0])
+        else:
+            lo, hi = float(np.min(t_C)), float(np.max(t_C))
         return list(self._remember(("notes", lo, hi), lambda: tuple(self._notes(lo, hi))))
 
     def _notes(self, lo: float, hi: float) -> list[str]:

@@ -13,7 +13,7 @@ from ..activity.base import BoundModel
 from ..batched_sparse import SparseCholesky, weighted_sum
 from .numerics import (ARMIJO, LN_C_CEILING, MAX_HALVINGS, RESIDUAL_TOLERANCE, ROUND_OFF,
                        STEP_CAP, STEP_TOLERANCE, any_set, all_set, at, clip, column_max)
-from .floats import fmax, fmin, largest_magnitude, scaled_merit
+from .floats import fmax, fmin, largest_magnitude, scaled_merit, sum_of_squares
 from .structure import Problem, bound_slice, model_terms, model_terms_one
 
 FAST_ITERATIONS = 60
@@ -207,7 +207,8 @@ def augmented_one(problem: Problem, bound: BoundModel, y: list, u: float,
     ln_k, totals, floor = given
     phi, dphi = model_terms_one(bound, cp, u)
     lnc = cp.nu.apply_one(y + phi)
-    conc = np.exp([fmin(v + k, LN_C_CEILING) for v, k in zip(lnc, ln_k)]).tolist()
+    conc = np.exp([LN_C_CEILING if (v := a + k) > LN_C_CEILING else v  # np.minimum's NaN
+                   for a, k in zip(lnc, ln_k)]).tolist()
     prod = cp.weights.apply_one(conc)
     first = cp.side_row
     if cp.terms:
@@ -234,7 +235,7 @@ def fast_path_one(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndar
     IEEE operations in the same order, so the same bits, at a fraction of numpy's
     per-call cost (tested sample by sample). *y* (c, 1) and *u* (1,) are updated."""
     st = problem.structure
-    cols = np.flatnonzero(st.free).tolist()
+    cols = st.free.nonzero()[0].tolist()
     nf, u_max = st.nf, float(problem.u_max[0])
     given = (problem.ln_k[:, 0].tolist(), problem.totals[:, 0].tolist(),
              problem.scale_floor[:, 0].tolist())
@@ -244,8 +245,9 @@ def fast_path_one(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndar
         dy, du = st.factor.bordered_one(lin.prod, lin.res[:nf], lin.res[nf], lin.a,
                                         lin.prod[2 * nf + 1:3 * nf + 1], lin.d)
         biggest = largest_magnitude(dy)
-        res, scale = lin.res, lin.scale
-        worst = largest_magnitude([r / s for r, s in zip(res, scale)])
+        scale = lin.scale
+        scaled = [r / s for r, s in zip(lin.res, scale)]
+        worst = largest_magnitude(scaled)
         size = fmax(biggest, abs(du) / fmax(u_now, 1e-12))
         if worst <= RESIDUAL_TOLERANCE and size <= STEP_TOLERANCE:
             iterations[0] = it                 # the last, tiny step is taken without a search
@@ -253,7 +255,7 @@ def fast_path_one(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndar
             u[0] = fmin(fmax(u_now + du, 0.0), u_max)
             return np.ones(1, dtype=bool)
         at_round_off = worst <= ROUND_OFF
-        merit = scaled_merit(res, scale)
+        merit = sum_of_squares(scaled)
         shrink = fmin(1.0, STEP_CAP / fmax(biggest, 1e-300))
         step, du = [v * shrink for v in dy], du * shrink
         alpha = None                           # the full step first, then halvings

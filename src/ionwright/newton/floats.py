@@ -50,3 +50,11 @@ def scaled_merit(res: list[float], scale: list[float]) -> float:
         q = r / s
         acc += q * q
     return acc
+
+
+def sum_of_squares(values: list[float]) -> float:
+    """Σ v², added in order (the batch's ordered sum of v·v)."""
+    acc = 0.0
+    for v in values:
+        acc += v * v
+    return acc

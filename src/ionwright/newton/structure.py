@@ -249,6 +249,13 @@ def ln_gamma_at(coupling: "Coupling | None", bound: BoundModel, u: np.ndarray) -
     return np.ascontiguousarray(bound.ln_gamma(u).T)
 
 
+def ln_gamma_one(coupling: "Coupling | None", bound: BoundModel, u: float) -> list:
+    """:func:`ln_gamma_at` for one sample at u, as a list of Python floats."""
+    if coupling is not None and coupling.own_terms:
+        return coupling.gamma.apply_one(model_terms_one(bound, coupling, u)[0])
+    return bound.ln_gamma(np.array([u]))[0].tolist()
+
+
 @dataclass
 class Problem:
     """The per-sample data of one chunk, sample axis last; :meth:`take` slices samples."""
