@@ -103,3 +103,32 @@ def test_a_vanishing_schur_complement_gives_no_border_step():
         x, t = plan.solve_bordered(prod[:, cut], np.ones((f, k))[:, cut], np.ones(k)[cut],
                                    zero[:, cut], zero[:, cut], np.zeros(k)[cut])
         assert np.all(t == 0.0) and np.all(np.isfinite(x))
+
+
+@settings(deadline=None, max_examples=40)
+@given(st.integers(1, 12), st.integers(1, 120), st.integers(0, 2**31 - 1))
+def test_the_written_out_one_sample_product_has_the_kernels_bits(m, n, seed):
+    """apply_one is generated Python (±1 left out, long rows split into statements); each
+    row must still be the kernel's 0.0 + w·x + … in column order, NaN and ±inf included."""
+    rng = np.random.default_rng(seed)
+    dense = rng.choice([0.0, 0.0, 1.0, -1.0, 0.5, -2.25, 3e-7, 1e12], size=(m, n))
+    dense *= np.where(rng.random((m, n)) < 0.5, rng.normal(size=(m, n)), 1.0)
+    dense[0] = 0.0                                          # an empty row
+    x = rng.normal(size=n) * 10.0 ** rng.integers(-200, 200, size=n)
+    x[rng.random(n) < 0.02] = np.inf
+    x[rng.random(n) < 0.02] = np.nan
+    x[rng.random(n) < 0.05] = -0.0
+    rows = SparseRows(dense)
+    with np.errstate(invalid="ignore", over="ignore"):
+        batched = (rows @ x[:, None])[:, 0]
+    one = np.array(rows.apply_one(x.tolist()))
+    assert np.array_equal(one, batched, equal_nan=True)
+    numbers = ~np.isnan(batched)                            # a NaN's sign bit is arbitrary
+    assert np.array_equal(np.signbit(one[numbers]), np.signbit(batched[numbers]))
+
+
+def test_a_written_out_product_splits_a_row_of_hundreds_of_terms():
+    dense = np.full((2, 500), 0.3)
+    x = np.linspace(-1.0, 1.0, 500)
+    rows = SparseRows(dense)
+    assert np.array_equal(rows.apply_one(x.tolist()), (rows @ x[:, None])[:, 0])

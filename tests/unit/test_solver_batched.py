@@ -212,3 +212,30 @@ def test_waters_at_a_fixed_pH_alone_have_the_bits_they_have_together():
     for k in range(60):
         alone = _solve(system, totals[k:k + 1], t[k:k + 1], fixed[k:k + 1])
         assert np.array_equal(alone.molality[0], together.molality[k]), k
+
+
+def test_the_guess_alone_has_the_bits_it_has_together_even_at_extremes():
+    """The one-sample guess runs on floats; totals down to 1e-300 (members that
+    underflow, NaN shares) and strong acid or base must not part it from the batch's."""
+    from ionwright.newton.guess import initial_guess
+    from ionwright.newton.structure import Problem, coupling_for, structure_of
+
+    system, totals, t = _waters(200, seed=23)
+    rng = np.random.default_rng(5)
+    totals[:, 1:] = np.exp(rng.uniform(np.log(1e-300), np.log(2.0), totals[:, 1:].shape))
+    totals[:, 0] = rng.choice([-2.0, -1e-3, 0.0, 1e-9, 1.5], 200)
+    bound = DaviesModel().bind(system.properties, t)
+    free = np.ones(system.n_components, dtype=bool)
+    st = structure_of(system, free)
+    coupling = coupling_for(st, bound, True)
+    ln_k = np.log(10) * system.log10_k(t, samples_last=True)
+    family = st.families.members[st.families.varying[0]]
+    ln_k[np.ix_(family[family >= 0], np.arange(0, 200, 7))] = -800.0  # all members underflow
+    fixed = np.full(totals.shape, np.nan)
+    with np.errstate(all="ignore"):
+        y, u = initial_guess(Problem.build(st, totals, ln_k, fixed, coupling), bound)
+        for k in range(200):
+            one = Problem.build(st, totals[k:k + 1], ln_k[:, k:k + 1], fixed[k:k + 1], coupling)
+            yk, uk = initial_guess(one, bound.take(np.array([k])))
+            assert np.array_equal(yk[:, 0], y[:, k], equal_nan=True), k
+            assert np.array_equal(uk, u[k:k + 1], equal_nan=True), k

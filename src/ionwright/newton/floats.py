@@ -11,13 +11,14 @@ import math
 
 
 def fmax(a: float, b: float) -> float:
-    """np.maximum of two floats (a NaN wins, as there)."""
-    return a if a >= b or a != a else b
+    """np.maximum of two floats: a NaN wins, and of equal values (0.0 and −0.0) the
+    second, as there."""
+    return a if a > b or a != a else b
 
 
 def fmin(a: float, b: float) -> float:
-    """np.minimum of two floats (a NaN wins, as there)."""
-    return a if a <= b or a != a else b
+    """np.minimum of two floats: a NaN wins, and of equal values the second, as there."""
+    return a if a < b or a != a else b
 
 
 def fdiv(a: float, b: float) -> float:
