@@ -82,15 +82,13 @@ class SparseRows:
         self.shape = self.matrix.shape
         self.kernel = _csr_matvecs()
         self._arrays = (self.matrix.indptr, self.matrix.indices, self.matrix.data)
-        self._one = None
 
-    def apply_one(self, x: list) -> list:
-        """M @ x for one sample's vector of Python floats, each row added in column order
-        from 0.0 as the kernel does (so the same bits as the batched product), by
-        straight-line code written for M on first use."""
-        if self._one is None:
-            self._one = _straight_line_product(*self._arrays)
-        return self._one(x)
+    @cached_property
+    def apply_one(self):
+        """x ↦ M @ x for one sample's vector of Python floats (a function, written out as
+        straight-line code for M on first use): each row added in column order from 0.0
+        as the kernel does, so the same bits as the batched product."""
+        return _straight_line_product(*self._arrays)
 
     def __matmul__(self, x: np.ndarray) -> np.ndarray:
         m, n = self.shape

@@ -235,7 +235,7 @@ def fast_path_one(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndar
     IEEE operations in the same order, so the same bits, at a fraction of numpy's
     per-call cost (tested sample by sample). *y* (c, 1) and *u* (1,) are updated."""
     st = problem.structure
-    cols = st.free.nonzero()[0].tolist()
+    cols = None if st.nf == st.free.size else st.free.nonzero()[0].tolist()
     nf, u_max = st.nf, float(problem.u_max[0])
     given = (problem.ln_k[:, 0].tolist(), problem.totals[:, 0].tolist(),
              problem.scale_floor[:, 0].tolist())
@@ -283,8 +283,12 @@ def fast_path_one(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndar
     return np.zeros(1, dtype=bool)
 
 
-def _moved(y: list, cols: list, step: list, alpha: float | None) -> list:
-    """y with y[cols] += (alpha ×) step, as a new list."""
+def _moved(y: list, cols: list | None, step: list, alpha: float | None) -> list:
+    """y with y[cols] += (alpha ×) step as a new list (cols None: every component)."""
+    if cols is None:
+        if alpha is None:
+            return [a + v for a, v in zip(y, step)]
+        return [a + alpha * v for a, v in zip(y, step)]
     out = list(y)
     if alpha is None:
         for j, v in zip(cols, step):

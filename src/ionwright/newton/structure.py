@@ -280,8 +280,9 @@ class Problem:
         fixed_y = np.zeros(t.shape)
         if structure.fixed_columns.size:
             fixed_y[structure.fixed_columns] = LN10 * fixed[:, structure.fixed_columns].T
-        problem = cls(structure, coupling, ln_k, t[free], t, fixed_y,
-                      np.maximum(np.abs(t[free]), 1e-300), np.zeros(t.shape[1]))
+        free_t = t if structure.nf == free.size else t[free]
+        problem = cls(structure, coupling, ln_k, free_t, t, fixed_y,
+                      np.maximum(np.abs(free_t), 1e-300), np.zeros(t.shape[1]))
         problem.u_max = np.sqrt(ionic_strength_ceiling(problem))
         return problem
 
