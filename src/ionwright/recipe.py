@@ -90,6 +90,9 @@ class Solution:
         return "given in the recipe" if self.density_how == "given" else DENSITY_METHOD
 
 
+_HERE = Path(".")          # the folder relative paths of a mapping recipe start from
+
+
 @dataclass(frozen=True)
 class Recipe:
     """A validated recipe; amounts are mol per kg of water.
@@ -106,7 +109,7 @@ class Recipe:
     fix: Mapping[str, float] = field(default_factory=dict)
     title: str = ""
     origin: str = "(mapping)"
-    base_dir: Path = Path(".")
+    base_dir: Path = _HERE
     components: tuple[tuple[str, float], ...] = ()
     solution: Solution | None = None
     phases: Mapping[str, Any] = field(default_factory=dict)  # raw [solids], [gases]: phases.py
@@ -127,7 +130,7 @@ def _read(source: str | Path | Mapping[str, Any] | Recipe, registry: Registry | 
     if isinstance(source, Recipe):
         return source
     if isinstance(source, Mapping):
-        return _from_mapping(dict(source), "(mapping)", Path("."), registry, chain)
+        return _from_mapping(dict(source), "(mapping)", _HERE, registry, chain)
     path = Path(source)
     try:
         text = path.read_text(encoding="utf-8")

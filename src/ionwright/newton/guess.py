@@ -42,6 +42,7 @@ class GuessPlan:
     family_powers: np.ndarray
     family_power: np.ndarray
     members: SparseRows             # (F, F·M): sums the members of each family
+    one: "_OnePlan"                 # the index arrays as lists, for one sample
 
     @classmethod
     def of(cls, st: "Structure") -> "GuessPlan":
@@ -63,12 +64,17 @@ class GuessPlan:
                 family_rows[q * nf + f, cols] = weight
         blocks = np.kron(np.eye(4), np.ones((1, nf)))               # (4, 4 Fv)
         family_powers, where = np.unique(fam.proton_numbers, return_inverse=True)
-        return cls(lone, powers,
-                   np.searchsorted(powers, np.concatenate([lone_nu, member_nu.ravel()])),
+        term_power = np.searchsorted(powers, np.concatenate([lone_nu, member_nu.ravel()]))
+        return cls(lone, powers, term_power,
                    SparseRows(np.concatenate([lone_rows, family_rows])), SparseRows(blocks),
                    family_powers, where.reshape(fam.members.shape),
                    SparseRows(np.kron(np.eye(fam.members.shape[0]),
-                                      np.ones((1, fam.members.shape[1])))))
+                                      np.ones((1, fam.members.shape[1])))),
+                   _OnePlan(lone.tolist(), powers.tolist(), term_power.tolist(),
+                            fam.members.tolist(), fam.owners.tolist(), fam.varying.tolist(),
+                            [(f, w) for f, w in enumerate(fam.constant_protons.tolist()) if w],
+                            family_powers.tolist(), where.ravel().tolist(),
+                            st.sweep_rows.tolist(), st.sweep_components.tolist()))
 
 
 
@@ -194,27 +200,6 @@ class _OnePlan(NamedTuple):
     sweep_rows: list
     sweep_components: list
 
-    @classmethod
-    def of(cls, st: Structure) -> "_OnePlan":
-        plan, fam = st.guess_plan, st.families
-        return cls(plan.lone.tolist(), plan.powers.tolist(), plan.term_power.tolist(),
-                   fam.members.tolist(), fam.owners.tolist(), fam.varying.tolist(),
-                   [(f, w) for f, w in enumerate(fam.constant_protons.tolist()) if w],
-                   plan.family_powers.tolist(), plan.family_power.ravel().tolist(),
-                   st.sweep_rows.tolist(), st.sweep_components.tolist())
-
-
-_ONE_PLANS: dict[int, tuple[Structure, _OnePlan]] = {}
-
-
-def _one_plan(st: Structure) -> _OnePlan:
-    found = _ONE_PLANS.get(id(st))
-    if found is None or found[0] is not st:
-        if len(_ONE_PLANS) > 256:
-            _ONE_PLANS.clear()
-        found = _ONE_PLANS[id(st)] = (st, _OnePlan.of(st))
-    return found[1]
-
 
 def _exp_capped(values) -> list:
     """exp(min(v, ceiling)) of each value, by numpy's exponential (the batch's bits)."""
@@ -225,7 +210,7 @@ def _initial_guess_one(problem: Problem, bound: BoundModel) -> tuple[np.ndarray,
     """:func:`initial_guess` for one sample, its numbers on Python floats: the same
     operations in the same order (exponentials and logarithms by numpy)."""
     st = problem.structure
-    one = _one_plan(st)
+    one = st.guess_plan.one
     h_col = st.proton
     full = problem.full_totals[:, 0].tolist()
     u_max = float(problem.u_max[0])
