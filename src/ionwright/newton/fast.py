@@ -257,10 +257,11 @@ def fast_path_one(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndar
         at_round_off = worst <= ROUND_OFF
         merit = sum_of_squares(scaled)
         shrink = fmin(1.0, STEP_CAP / fmax(biggest, 1e-300))
-        step, du = [v * shrink for v in dy], du * shrink
+        if shrink != 1.0:                      # × 1.0 is exact: the usual full step as is
+            dy, du = [v * shrink for v in dy], du * shrink
         alpha = None                           # the full step first, then halvings
         for _ in range(MAX_HALVINGS):
-            yt = _moved(y_now, cols, step, alpha)
+            yt = _moved(y_now, cols, dy, alpha)
             if alpha is None:
                 ut = fmin(fmax(u_now + du, 0.0), u_max)
                 decrease = 1.0 - 2.0 * ARMIJO * shrink
