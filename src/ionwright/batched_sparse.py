@@ -38,24 +38,30 @@ def weighted_sum(a: np.ndarray, weights: np.ndarray | None = None) -> np.ndarray
     and depends on the shape).
     """
     m = a.shape[0]
-    indptr, indices, data = _sum_plan(m, weights)
+    indptr, indices, data, terms = _sum_plan(m, weights)
     flat = np.ascontiguousarray(a, dtype=float).reshape(m, math.prod(a.shape[1:]))
+    if flat.shape[1] == 1:  # one sample: the kernel's additions on floats
+        column, acc = flat[:, 0].tolist(), 0.0
+        for i, w in terms:
+            acc += w * column[i]
+        return np.array([acc]).reshape(a.shape[1:])
     out = np.zeros(flat.shape[1])
     kernel = _csr_matvecs()
     if kernel is None:  # pragma: no cover
-        for i, w in zip(indices, data):
+        for i, w in terms:
             out += w * flat[i]
     elif indices.size:
         kernel(1, m, flat.shape[1], indptr, indices, data, flat.ravel(), out)
     return out.reshape(a.shape[1:])
 
 
-_SUM_PLANS: dict[tuple, tuple[np.ndarray, np.ndarray, np.ndarray]] = {}
+_SUM_PLANS: dict[tuple, tuple] = {}
 
 
-def _sum_plan(m: int, weights: np.ndarray | None) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """The one-row CSR matrix (indptr, indices, data) of *weights* over *m* rows, cached
-    (the solver sums with a handful of fixed weight vectors, many times)."""
+def _sum_plan(m: int, weights: np.ndarray | None) -> tuple:
+    """The one-row CSR matrix (indptr, indices, data) of *weights* over *m* rows, and its
+    (row, weight) pairs as Python numbers, cached (the solver sums with a handful of
+    fixed weight vectors, many times)."""
     key = (m, None if weights is None else np.asarray(weights, dtype=float).tobytes())
     plan = _SUM_PLANS.get(key)
     if plan is None:
@@ -64,7 +70,8 @@ def _sum_plan(m: int, weights: np.ndarray | None) -> tuple[np.ndarray, np.ndarra
         w = np.ones(m) if weights is None else np.asarray(weights, dtype=float)[:m]
         keep = np.flatnonzero(w)
         plan = _SUM_PLANS[key] = (np.array([0, keep.size], dtype=np.int32),
-                                  keep.astype(np.int32), w[keep])
+                                  keep.astype(np.int32), w[keep],
+                                  list(zip(keep.tolist(), w[keep].tolist())))
     return plan
 
 
@@ -76,12 +83,12 @@ class SparseRows:
     """
 
     def __init__(self, dense: np.ndarray):
-        from scipy.sparse import csr_array  # imported here: keeps `import ionwright` quick
-
-        self.matrix = csr_array(np.asarray(dense, dtype=float))
-        self.shape = self.matrix.shape
-        self.kernel = _csr_matvecs()
-        self._arrays = (self.matrix.indptr, self.matrix.indices, self.matrix.data)
+        dense = np.asarray(dense, dtype=float)
+        rows, cols = np.nonzero(dense)                      # row by row, columns in order
+        indptr = np.zeros(dense.shape[0] + 1, dtype=np.int32)
+        np.cumsum(np.bincount(rows, minlength=dense.shape[0]), out=indptr[1:])
+        self.shape = dense.shape
+        self._arrays = (indptr, cols.astype(np.int32), dense[rows, cols])
 
     @cached_property
     def apply_one(self):
@@ -91,14 +98,24 @@ class SparseRows:
         return _straight_line_product(*self._arrays)
 
     def __matmul__(self, x: np.ndarray) -> np.ndarray:
+        """M @ X for X (n, k): one sample by :attr:`apply_one` (scipy is then not even
+        imported, which keeps a single solve's start quick), more by scipy's kernel."""
+        if x.ndim == 1:
+            return (self @ x[:, None])[:, 0]
         m, n = self.shape
-        if self.kernel is None or x.ndim != 2:
-            return self.matrix @ x
+        k = x.shape[1]
+        if k == 1:
+            return np.array(self.apply_one(x[:, 0].tolist()), dtype=float).reshape(m, 1)
+        kernel = _csr_matvecs()
+        if kernel is None:  # pragma: no cover - a scipy without the kernel
+            from scipy.sparse import csr_array
+
+            indptr, indices, data = self._arrays
+            return csr_array((data, indices, indptr), shape=self.shape) @ x
         if not (x.flags.c_contiguous and x.dtype == np.float64):
             x = np.ascontiguousarray(x, dtype=float)
-        k = x.shape[1]
         out = np.zeros((m, k))
-        self.kernel(m, n, k, *self._arrays, x.reshape(-1), out.reshape(-1))
+        kernel(m, n, k, *self._arrays, x.reshape(-1), out.reshape(-1))
         return out
 
 

@@ -99,10 +99,13 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     """
     if method not in METHODS:
         raise UnknownNameError("solver method", method, METHODS)
-    totals = np.atleast_2d(np.asarray(totals, dtype=float))
+    totals = _as_table(totals)
     n, c = totals.shape
-    fixed = (np.full((n, c), np.nan) if fixed_log10_activity is None
-             else np.atleast_2d(np.asarray(fixed_log10_activity, dtype=float)))
+    if fixed_log10_activity is None:
+        fixed = np.empty((n, c))
+        fixed.fill(np.nan)
+    else:
+        fixed = _as_table(fixed_log10_activity)
     free = np.isnan(fixed[0]) if n else np.ones(c, dtype=bool)
     if n > 1 and np.count_nonzero(np.isnan(fixed) != free):
         raise ValueError("every sample of a batch must fix the same components")
@@ -137,7 +140,7 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     else:
         for rows in chunks:
             run(rows)
-    if infeasible.any():  # report the state at the totals given, flagged
+    if any_set(infeasible):  # report the state at the totals given, flagged
         rows = np.flatnonzero(infeasible)
         problem = Problem.build(structure, totals[rows], ln_k(rows), fixed[rows])
         y = problem.fixed_y.copy()
@@ -153,6 +156,13 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
                        residual=out.residual, iterations=out.iterations,
                        status=_STATUS_NAMES[out.status],
                        notes=list(getattr(bound, "notes", [])))
+
+
+def _as_table(values) -> np.ndarray:
+    """*values* as a 2-D float array (a row for a 1-D input), without a copy if it is one."""
+    if isinstance(values, np.ndarray) and values.ndim == 2 and values.dtype == np.float64:
+        return values
+    return np.atleast_2d(np.asarray(values, dtype=float))
 
 
 def default_threads() -> int:
@@ -184,9 +194,11 @@ class _Outputs:
 
     @classmethod
     def empty(cls, n: int, c: int, s: int) -> "_Outputs":
+        finite, status = np.empty(n, dtype=bool), np.empty(n, dtype=np.int8)
+        finite.fill(True)
+        status.fill(MAX_ITERATIONS)
         return cls(np.zeros((n, c)), np.zeros(n), np.zeros((n, s)), np.zeros(n),
-                   np.zeros((n, s)), np.zeros(n), np.ones(n, dtype=bool),
-                   np.zeros(n, dtype=int), np.full(n, MAX_ITERATIONS, dtype=np.int8))
+                   np.zeros((n, s)), np.zeros(n), finite, np.zeros(n, dtype=int), status)
 
 
 def _solve_chunk(problem: Problem, bound: BoundModel, fast: bool, out: _Outputs,

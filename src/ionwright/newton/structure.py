@@ -140,13 +140,18 @@ class Structure:
         return GuessPlan.of(self)
 
     def coupling(self, weights: np.ndarray, own_terms: bool) -> "Coupling":
-        """The :class:`Coupling` to a model with term weights *weights* (s, p), cached."""
+        """The :class:`Coupling` to a model with term weights *weights* (s, p), cached
+        (found by identity first: a bound model comes back with the same array)."""
+        seen = self.couplings.get((id(weights), own_terms))
+        if seen is not None and seen[0] is weights:
+            return seen[1]
         key = (weights.shape, weights.tobytes(), own_terms)
         found = self.couplings.get(key)
         if found is None:
             if len(self.couplings) >= STRUCTURE_CACHE_SIZE:
                 self.couplings.clear()
             found = self.couplings[key] = Coupling.build(self, weights, own_terms)
+        self.couplings[id(weights), own_terms] = (weights, found)  # holds it: ids stay unique
         return found
 
     @classmethod
@@ -312,5 +317,5 @@ def ionic_strength_ceiling(problem: Problem) -> np.ndarray:
 
 def samples_infeasible(structure: Structure, totals: np.ndarray) -> np.ndarray:
     """Samples whose free non-proton totals are not positive: no positive solution exists."""
-    return ((totals[:, structure.must_be_positive] <= 0.0).any(axis=1)
-            | ~np.isfinite(totals).all(axis=1))
+    not_positive = np.logical_or.reduce(totals[:, structure.must_be_positive] <= 0.0, axis=1)
+    return not_positive | ~np.logical_and.reduce(np.isfinite(totals), axis=1)
