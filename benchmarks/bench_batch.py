@@ -61,8 +61,8 @@ def median_rate(work, samples: int, runs: int = RUNS) -> tuple[float, object]:
 
 
 def solver_rate(n: int, seed: int, threads: int | None = None) -> tuple[float, object]:
-    from ionwright import solver
-    from ionwright.plugins import default_registry
+    from ionwright.core import _solver as solver
+    from ionwright.plugins._registry import default_registry
 
     system, totals, t = natural_water_totals(n, seed)
     model = default_registry().model("davies")
@@ -105,7 +105,7 @@ def practitioner_loop(system, totals: np.ndarray, t: np.ndarray,
     """
     from scipy.optimize import root
 
-    from ionwright.water import debye_huckel_A
+    from ionwright.chemistry._water import debye_huckel_A
 
     nu, z2 = system.nu, system.charge ** 2
     ln_k = LN10 * system.log10_k(t)
@@ -140,8 +140,8 @@ def practitioner_loop(system, totals: np.ndarray, t: np.ndarray,
 
 
 def convergence(n: int, seed: int) -> dict:
-    from ionwright import solver
-    from ionwright.plugins import default_registry
+    from ionwright.core import _solver as solver
+    from ionwright.plugins._registry import default_registry
 
     system, totals, t = natural_water_totals(n, seed)
     eq = solver.solve(system, totals, default_registry().model("davies").bind(
@@ -156,8 +156,8 @@ def latency(repeats: int) -> tuple[float, float]:
     """(median ms of ionwright.solve on a recipe, median ms of one-sample solver.solve,
     fastest ms of ionwright.solve)."""
     import ionwright
-    from ionwright import solver
-    from ionwright.plugins import default_registry
+    from ionwright.core import _solver as solver
+    from ionwright.plugins._registry import default_registry
 
     recipe = {"dissolve": {"NaCl": 0.01, "CaCl2": 0.002, "MgSO4": 0.001, "NaHCO3": 0.003},
               "temperature_C": 12.0}
@@ -268,7 +268,7 @@ def main(argv: list[str] | None = None) -> int:
                                                                 else "") + ".", "",
              "## Machine", "", *machine(), ""]
     rates = {}
-    from ionwright.solver import CHUNK_SIZE, default_threads
+    from ionwright.core._solver import CHUNK_SIZE, default_threads
 
     threads = default_threads()
     start_pace = pace()

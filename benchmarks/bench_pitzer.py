@@ -22,10 +22,10 @@ from pathlib import Path
 
 import numpy as np
 
-from ionwright import solver
+from ionwright.core import _solver as solver
 from ionwright.activity import DaviesModel, PitzerModel
-from ionwright.engine import load_tables
-from ionwright.system import compile_system
+from ionwright.engine._solve import load_tables
+from ionwright.core._system import compile_system
 
 RUNS = 3
 # mol per kg of water of each ingredient in the unscaled brine

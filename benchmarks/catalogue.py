@@ -28,11 +28,11 @@ PH_RANGE = (2.0, 12.0)
 
 def natural_water_recipes(n: int, seed: int = 0):
     """(amounts (n, len(INGREDIENTS)) mol/kg, temperatures (n,), target pH (n,))."""
-    from ionwright import solver
-    from ionwright.engine import load_tables
-    from ionwright.ingredients import makeup
-    from ionwright.plugins import default_registry
-    from ionwright.system import compile_system
+    from ionwright.core import _solver as solver
+    from ionwright.engine._solve import load_tables
+    from ionwright.chemistry._ingredients import makeup
+    from ionwright.plugins._registry import default_registry
+    from ionwright.core._system import compile_system
 
     rng = np.random.default_rng(seed)
     scale = np.exp(rng.uniform(*np.log(SALINITY_RANGE), n))
@@ -71,9 +71,9 @@ def natural_water_frame(n: int, seed: int = 0):
 
 def natural_water_totals(n: int, seed: int = 0):
     """(system, totals (n, c), temperatures (n,)) of the same waters, for the solver."""
-    from ionwright.engine import load_tables
-    from ionwright.ingredients import makeup
-    from ionwright.system import compile_system
+    from ionwright.engine._solve import load_tables
+    from ionwright.chemistry._ingredients import makeup
+    from ionwright.core._system import compile_system
 
     amounts, t, _ = natural_water_recipes(n, seed)
     tables = load_tables(["core"])

@@ -5,14 +5,14 @@
 >>> result.pH                                                  # doctest: +SKIP
 """
 
-from .batch import solve_batch
-from .design import target
-from .engine import load_tables, solve
+from .batch._run import solve_batch
+from .design._target import target
+from .engine._solve import load_tables, solve
 from .errors import (ConvergenceError, FormulaError, IonwrightError, PluginError,
                      RecipeError, TableError, UnknownNameError)
-from .hookspecs import hookimpl
-from .recipe import Recipe, read_recipe
-from .result import Result
+from .plugins.hookspecs import hookimpl
+from .inputs._recipe import Recipe, read_recipe
+from .outputs._result import Result
 
 __version__ = "0.1.0"
 

@@ -8,7 +8,7 @@ import sys
 import pandas as pd
 import pytest
 
-from ionwright.cli import main
+from ionwright.cli._main import main
 
 BAD_ROWS = """sample,NaCl,CaCl2,pH,Ca [mg/gallon],temperature_C
 good,0.01,0.001,,0,25
@@ -66,9 +66,9 @@ def test_chunked_streaming_equals_one_batch(tmp_path, suffix_in, suffix_out):
 
 
 def test_exit_status_is_one_when_a_row_fails(tmp_path, monkeypatch, capsys):
-    monkeypatch.setattr("ionwright.newton.fast.FAST_ITERATIONS", 1)
-    monkeypatch.setattr("ionwright.newton.careful.CAREFUL_OUTER_ITERATIONS", 1)
-    monkeypatch.setattr("ionwright.newton.careful.CAREFUL_INNER_ITERATIONS", 1)
+    monkeypatch.setattr("ionwright.core._newton.fast.FAST_ITERATIONS", 1)
+    monkeypatch.setattr("ionwright.core._newton.careful.CAREFUL_OUTER_ITERATIONS", 1)
+    monkeypatch.setattr("ionwright.core._newton.careful.CAREFUL_INNER_ITERATIONS", 1)
     source, target = tmp_path / "in.csv", tmp_path / "out.csv"
     source.write_text("KH2PO4,CaCl2,NaHCO3\n0.5,0.2,0.3\n", encoding="utf-8")
     assert main(["batch", str(source), "-o", str(target)]) == 1
@@ -85,7 +85,7 @@ def test_a_wrong_suffix_is_a_user_error(tmp_path, capsys):
 
 def test_threads_give_the_same_table_and_zero_threads_is_refused(tmp_path, monkeypatch,
                                                                    capsys):
-    from ionwright import solver
+    from ionwright.core import _solver as solver
 
     monkeypatch.setattr(solver, "CHUNK_SIZE", 4)  # several chunks for the threads to share
     source = tmp_path / "in.csv"

@@ -6,7 +6,7 @@ import pandas as pd
 import pytest
 
 import ionwright
-from ionwright.cli import main
+from ionwright.cli._main import main
 
 pytest.importorskip("dask.distributed", reason="the dask engine needs the distributed "
                     "extra: pip install 'ionwright[distributed]'")

@@ -18,7 +18,7 @@ def _load(name: str):
 
 
 def test_the_catalogue_spans_ph_2_to_12_and_every_water_converges():
-    from ionwright import solver
+    from ionwright.core import _solver as solver
     from ionwright.activity import DaviesModel
 
     catalogue = _load("catalogue")

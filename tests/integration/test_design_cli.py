@@ -6,7 +6,7 @@ import json
 
 import pytest
 
-from ionwright.cli import main
+from ionwright.cli._main import main
 
 RINSE = """title = "brewery rinse (demo)"
 temperature_C = 37.0

@@ -21,7 +21,7 @@ import pytest
 
 import ionwright
 from ionwright.errors import UnknownNameError
-from ionwright.plugins import default_registry
+from ionwright.plugins._registry import default_registry
 
 ROOT = Path(__file__).resolve().parents[2]
 PLUGINS = [ROOT / "plugins" / "ionwright-lab-acids", ROOT / "plugins" / "ionwright-sit"]

@@ -7,8 +7,8 @@ import textwrap
 
 import pytest
 
-from ionwright.cli import main
-from ionwright.plugins import default_registry
+from ionwright.cli._main import main
+from ionwright.plugins._registry import default_registry
 
 PLUGIN_VARIABLES = ("IONWRIGHT_NO_PLUGINS", "IONWRIGHT_TRACE_PLUGINS",
                     "IONWRIGHT_EXCLUDE_PLUGINS", "IONWRIGHT_PLUGIN_CONFLICTS", "IONWRIGHT_TABLES")
@@ -46,7 +46,8 @@ CLEAN = textwrap.dedent('''
 def clean_environment(monkeypatch, tmp_path):
     for name in PLUGIN_VARIABLES:
         monkeypatch.delenv(name, raising=False)
-    monkeypatch.setattr("ionwright.plugins.user_tables_dir", lambda: tmp_path / "no-user-tables")
+    monkeypatch.setattr("ionwright.plugins._registry.user_tables_dir",
+                        lambda: tmp_path / "no-user-tables")
     default_registry.cache_clear()
     yield
     default_registry.cache_clear()

@@ -9,7 +9,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 import ionwright
-from ionwright import batch
+from ionwright.batch import _run as batch
 
 POOL = ["NaCl", "KCl", "CaCl2", "MgSO4", "NaHCO3", "Na2SO4", "HCl", "NaOH", "KH2PO4",
         "citric acid", "glycine", "NH4Cl"]

@@ -8,11 +8,11 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 import ionwright
-from ionwright import solver
-from ionwright.engine import component_totals
-from ionwright.formula import parse_formula
-from ionwright.recipe import read_recipe
-from ionwright.system import compile_system
+from ionwright.core import _solver as solver
+from ionwright.engine._solve import component_totals
+from ionwright.chemistry._formula import parse_formula
+from ionwright.inputs._recipe import read_recipe
+from ionwright.core._system import compile_system
 
 POOL = ["NaCl", "KCl", "CaCl2", "MgSO4", "NaHCO3", "Na2CO3", "KH2PO4", "Na2HPO4", "HCl",
         "NaOH", "acetic acid", "citric acid", "Tris", "NH4Cl", "boric acid", "Na2SO4", "NaF",

@@ -11,10 +11,10 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from ionwright.activity import PitzerModel
-from ionwright.activity.base import SpeciesProperties
-from ionwright.activity.pitzer_table import ALPHA_2_2, CationAnion, PitzerParameters
-from ionwright.formula import parse_formula
-from ionwright.water import osmotic_A_phi
+from ionwright.activity._base import SpeciesProperties
+from ionwright.data._pitzer_table import ALPHA_2_2, CationAnion, PitzerParameters
+from ionwright.chemistry._formula import parse_formula
+from ionwright.chemistry._water import osmotic_A_phi
 
 SALTS = [("Na+", "Cl-"), ("Ca+2", "Cl-"), ("Na+", "SO4-2"), ("Mg+2", "SO4-2")]
 MIXTURE = ["Na+", "K+", "H+", "Ca+2", "Mg+2", "MgOH+", "Cl-", "SO4-2", "OH-", "HCO3-",

@@ -9,10 +9,10 @@ import numpy as np
 from hypothesis import given
 from hypothesis import strategies as st
 
-from ionwright.formula import parse_formula
-from ionwright.plugins import Registry, build_table, plugin_manager
-from ionwright.system import compile_system
-from ionwright.tables.tableset import TableSet
+from ionwright.chemistry._formula import parse_formula
+from ionwright.plugins._registry import Registry, build_table, plugin_manager
+from ionwright.core._system import compile_system
+from ionwright.chemistry._tableset import TableSet
 
 CATIONS = ("Na+", "K+", "Ca+2", "Mg+2")
 ANIONS = ("Cl-", "NO3-", "F-")

@@ -7,7 +7,7 @@ from hypothesis import given
 from hypothesis import strategies as st
 
 import ionwright
-from ionwright.formula import molar_mass
+from ionwright.chemistry._formula import molar_mass
 
 POOL = ["NaCl", "KCl", "CaCl2·2H2O", "MgSO4·7H2O", "KH2PO4", "Na2HPO4·7H2O", "NaHCO3",
         "citric acid monohydrate", "NH4Cl", "Na2SO4"]

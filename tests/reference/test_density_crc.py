@@ -14,8 +14,8 @@ from __future__ import annotations
 import pytest
 
 import ionwright
-from ionwright.formula import molar_mass
-from ionwright.recipe import read_recipe
+from ionwright.chemistry._formula import molar_mass
+from ionwright.inputs._recipe import read_recipe
 
 M_NACL = molar_mass("NaCl")
 

@@ -15,7 +15,7 @@ import math
 import pytest
 
 import ionwright
-from ionwright.derived import alkalinity
+from ionwright.outputs._derived import alkalinity
 
 
 @pytest.mark.parametrize("ph", [7.2, 7.8, 8.4])

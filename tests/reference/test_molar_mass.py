@@ -21,12 +21,12 @@ import math
 
 import pytest
 
-from ionwright.atomic_weights import (
+from ionwright.chemistry._atomic_weights import (
     ATOMIC_NUMBERS,
     NO_STANDARD_WEIGHT,
     STANDARD_ATOMIC_WEIGHTS,
 )
-from ionwright.formula import parse_formula
+from ionwright.chemistry._formula import parse_formula
 
 # Prohaska et al. (2022), Table 1 / Table 3 (conventional values for interval elements).
 CIAAW_2021 = {

@@ -11,7 +11,7 @@ from __future__ import annotations
 import pytest
 
 import ionwright
-from ionwright.water import log10_kw
+from ionwright.chemistry._water import log10_kw
 
 MODELS = ["davies", "extended-debye-huckel"]
 KHP = {"potassium hydrogen phthalate": 0.05}

@@ -9,8 +9,8 @@ from __future__ import annotations
 import pytest
 
 import ionwright
-from ionwright.buffer import design_buffer
-from ionwright.sweep import titration
+from ionwright.design._buffer import design_buffer
+from ionwright.design._sweep import titration
 
 
 def test_pure_water_open_to_co2_has_ph_5_6():

@@ -15,7 +15,7 @@ import pytest
 
 import ionwright
 from ionwright.activity import PitzerModel
-from ionwright.activity.base import SpeciesProperties
+from ionwright.activity._base import SpeciesProperties
 
 # Robinson & Stokes (1959) App. 8.10, 25 °C, m / mol kg-1 → γ±   # from memory
 NACL_GAMMA = {0.1: 0.778, 0.5: 0.681, 1.0: 0.657, 2.0: 0.668, 3.0: 0.714}

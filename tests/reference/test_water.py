@@ -12,7 +12,7 @@ import math
 import numpy as np
 import pytest
 
-from ionwright import water
+from ionwright.chemistry import _water as water
 from ionwright.errors import UnknownNameError
 
 R = 8.314462618

@@ -9,8 +9,8 @@ from hypothesis import strategies as st
 
 from ionwright.activity import (DaviesModel, ExtendedDebyeHuckelModel, IdealModel,
                                 TruesdellJonesModel)
-from ionwright.activity.base import SpeciesProperties
-from ionwright.water import debye_huckel_A
+from ionwright.activity._base import SpeciesProperties
+from ionwright.chemistry._water import debye_huckel_A
 
 MODELS = [DaviesModel(), ExtendedDebyeHuckelModel(), TruesdellJonesModel(), IdealModel()]
 
@@ -90,7 +90,7 @@ def test_sized_models_match_the_published_equation_ion_by_ion(model):
     # Truesdell & Jones (1974): log10 γ = −A z² √I / (1 + B å √I) + b I; with b = 0 it is
     # the extended Debye–Hückel form with Kielland's å (Kielland 1937). The model's split
     # into one term per distinct å must give the same γ for every ion.
-    from ionwright.water import debye_huckel_B
+    from ionwright.chemistry._water import debye_huckel_B
 
     props = _species()
     bound = model.bind(props, np.array([25.0]))

@@ -9,11 +9,11 @@ import numpy as np
 import pytest
 
 import ionwright
-from ionwright.derived import charge_balance_error_percent, water_kg_per_L
-from ionwright.engine import load_tables
+from ionwright.outputs._derived import charge_balance_error_percent, water_kg_per_L
+from ionwright.engine._solve import load_tables
 from ionwright.errors import RecipeError
-from ionwright.formula import molar_mass
-from ionwright.system import log10_k_at
+from ionwright.chemistry._formula import molar_mass
+from ionwright.core._system import log10_k_at
 
 MEQ_PER_MG_CACO3 = 2.0 / molar_mass("CaCO3")  # 1 mmol CaCO3 = 2 meq
 

@@ -9,7 +9,8 @@ import pandas as pd
 import pytest
 
 import ionwright
-from ionwright import batch, solver
+from ionwright.batch import _run as batch
+from ionwright.core import _solver as solver
 
 PHOSPHATE = {"KH2PO4": 0.025, "Na2HPO4": 0.025}
 
@@ -95,9 +96,9 @@ def test_a_failed_row_is_retried_alone_with_the_careful_path(monkeypatch):
 
 
 def test_a_row_that_fails_alone_too_is_marked_failed(monkeypatch):
-    monkeypatch.setattr("ionwright.newton.fast.FAST_ITERATIONS", 1)
-    monkeypatch.setattr("ionwright.newton.careful.CAREFUL_OUTER_ITERATIONS", 1)
-    monkeypatch.setattr("ionwright.newton.careful.CAREFUL_INNER_ITERATIONS", 1)
+    monkeypatch.setattr("ionwright.core._newton.fast.FAST_ITERATIONS", 1)
+    monkeypatch.setattr("ionwright.core._newton.careful.CAREFUL_OUTER_ITERATIONS", 1)
+    monkeypatch.setattr("ionwright.core._newton.careful.CAREFUL_INNER_ITERATIONS", 1)
     out = ionwright.solve_batch(_frame(KH2PO4=[0.5], CaCl2=[0.2], NaHCO3=[0.3]))
     assert out["status"].iloc[0] == "failed"
     assert "careful path" in out["message"].iloc[0]

@@ -7,7 +7,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from ionwright.batched_sparse import SparseCholesky, SparseRows, weighted_sum
+from ionwright.core._sparse import SparseCholesky, SparseRows, weighted_sum
 
 
 def _loop_sum(a: np.ndarray, w: np.ndarray) -> np.ndarray:

@@ -5,7 +5,7 @@ from __future__ import annotations
 import pytest
 
 import ionwright
-from ionwright.buffer import design_buffer
+from ionwright.design._buffer import design_buffer
 from ionwright.errors import RecipeError, UnknownNameError
 
 TITRATIONS = [("Tris", 8.1, "HCl 1 mol/L"), ("HEPES", 7.4, "NaOH 1 mol/L"),

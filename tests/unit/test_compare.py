@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import ionwright
-from ionwright.compare import ModelOutcome, choose_trusted, compare_models
+from ionwright.design._compare import ModelOutcome, choose_trusted, compare_models
 
 BRINE = {"title": "Saltmarsh pickle brine (a scenario of our own)",
          "dissolve": {"NaCl": 3.0, "NaHCO3": 0.01}}

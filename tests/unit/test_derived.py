@@ -6,11 +6,11 @@ import numpy as np
 import pytest
 
 import ionwright
-from ionwright.derived import (KEYS, alkalinity_weights, charge_balance_error_percent,
+from ionwright.outputs._derived import (KEYS, alkalinity_weights, charge_balance_error_percent,
                                water_kg_per_L)
-from ionwright.engine import load_tables
-from ionwright.formula import molar_mass
-from ionwright.system import compile_system, log10_k_at
+from ionwright.engine._solve import load_tables
+from ionwright.chemistry._formula import molar_mass
+from ionwright.core._system import compile_system, log10_k_at
 
 
 def test_alkalinity_zero_levels_follow_dickson():

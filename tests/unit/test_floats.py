@@ -8,7 +8,7 @@ import numpy as np
 from hypothesis import given
 from hypothesis import strategies as st
 
-from ionwright.newton.floats import fdiv, fmax, fmin, largest_magnitude, sum_of_squares
+from ionwright.core._newton.floats import fdiv, fmax, fmin, largest_magnitude, sum_of_squares
 
 SPECIAL = st.sampled_from([0.0, -0.0, 1.0, -3.5, 1e-310, math.inf, -math.inf, math.nan])
 FLOATS = st.one_of(st.floats(allow_nan=True, allow_infinity=True), SPECIAL)

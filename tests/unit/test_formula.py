@@ -10,9 +10,9 @@ import pytest
 from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
-from ionwright.atomic_weights import STANDARD_ATOMIC_WEIGHTS
+from ionwright.chemistry._atomic_weights import STANDARD_ATOMIC_WEIGHTS
 from ionwright.errors import FormulaError
-from ionwright.formula import PHASES, Formula, molar_mass, parse_formula
+from ionwright.chemistry._formula import PHASES, Formula, molar_mass, parse_formula
 
 
 def read(text: str) -> tuple[dict[str, float], int, str | None]:

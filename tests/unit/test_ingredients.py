@@ -6,7 +6,7 @@ import pytest
 
 from ionwright import load_tables
 from ionwright.errors import RecipeError, UnknownNameError
-from ionwright.ingredients import makeup
+from ionwright.chemistry._ingredients import makeup
 
 
 @pytest.fixture(scope="module")

@@ -10,11 +10,11 @@ import pytest
 from scipy.integrate import quad
 
 from ionwright.activity import DaviesModel, ExtendedDebyeHuckelModel, PitzerModel
-from ionwright.activity.base import SpeciesProperties
-from ionwright.activity.pitzer import NOT_FORMED_LN_GAMMA, SERIES_BELOW, _g, j_function
-from ionwright.activity.pitzer_table import ALPHA_2_2, bundled_parameters, parse_parameters
+from ionwright.activity._base import SpeciesProperties
+from ionwright.activity._pitzer import NOT_FORMED_LN_GAMMA, SERIES_BELOW, _g, j_function
+from ionwright.data._pitzer_table import ALPHA_2_2, bundled_parameters, parse_parameters
 from ionwright.errors import TableError
-from ionwright.water import debye_huckel_A, osmotic_A_phi
+from ionwright.chemistry._water import debye_huckel_A, osmotic_A_phi
 
 CATIONS = ("Na+", "K+", "H+", "Ca+2", "Mg+2")
 ANIONS = ("Cl-", "SO4-2", "OH-", "HCO3-", "CO3-2")
@@ -22,7 +22,7 @@ ANIONS = ("Cl-", "SO4-2", "OH-", "HCO3-", "CO3-2")
 
 def species(names, setschenow=None):
     """SpeciesProperties for *names* with charges read from the names."""
-    from ionwright.formula import parse_formula
+    from ionwright.chemistry._formula import parse_formula
 
     z = np.array([parse_formula(n).charge for n in names], dtype=float)
     nan = np.full(len(names), np.nan)

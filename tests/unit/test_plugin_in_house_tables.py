@@ -9,7 +9,8 @@ import pytest
 
 import ionwright
 from ionwright.errors import BrokenPluginError, PluginConflictWarning, UnknownNameError
-from ionwright.plugins import Registry, default_registry, in_house_table_files, plugin_manager
+from ionwright.plugins._registry import (Registry, default_registry, in_house_table_files,
+                                        plugin_manager)
 
 PLUGIN_VARIABLES = ("IONWRIGHT_NO_PLUGINS", "IONWRIGHT_TRACE_PLUGINS",
                     "IONWRIGHT_EXCLUDE_PLUGINS", "IONWRIGHT_PLUGIN_CONFLICTS", "IONWRIGHT_TABLES")
@@ -36,7 +37,7 @@ def user_folder(monkeypatch, tmp_path):
     for name in PLUGIN_VARIABLES:
         monkeypatch.delenv(name, raising=False)
     folder = tmp_path / "config" / "tables"
-    monkeypatch.setattr("ionwright.plugins.user_tables_dir", lambda: folder)
+    monkeypatch.setattr("ionwright.plugins._registry.user_tables_dir", lambda: folder)
     default_registry.cache_clear()
     yield folder
     default_registry.cache_clear()

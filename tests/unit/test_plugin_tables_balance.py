@@ -15,7 +15,7 @@ from pathlib import Path
 
 import pytest
 
-from ionwright.formula import parse_formula
+from ionwright.chemistry._formula import parse_formula
 
 ROOT = Path(__file__).resolve().parents[2]
 TABLE_SECTIONS = {"about", "sources", "components", "species", "solids", "gases", "reagents"}

@@ -15,12 +15,13 @@ import warnings
 import pytest
 
 import ionwright
-from ionwright import hookimpl, hookspecs
+from ionwright import hookimpl
+from ionwright.plugins import hookspecs
 from ionwright.errors import (BrokenPluginError, PluginConflictError, PluginConflictWarning,
                               PluginError, TableError, UnknownNameError)
-from ionwright.plugins import (BUILTIN, Registry, build_table, default_registry,
+from ionwright.plugins._registry import (BUILTIN, Registry, build_table, default_registry,
                                plugin_manager)
-from ionwright.tables.loader import parse_table
+from ionwright.data._loader import parse_table
 
 PLUGIN_VARIABLES = ("IONWRIGHT_NO_PLUGINS", "IONWRIGHT_TRACE_PLUGINS",
                     "IONWRIGHT_EXCLUDE_PLUGINS", "IONWRIGHT_PLUGIN_CONFLICTS", "IONWRIGHT_TABLES")
@@ -52,7 +53,8 @@ def clean_environment(monkeypatch, tmp_path):
     """No plugin switches from the developer's shell, no per-user tables, fresh caches."""
     for name in PLUGIN_VARIABLES:
         monkeypatch.delenv(name, raising=False)
-    monkeypatch.setattr("ionwright.plugins.user_tables_dir", lambda: tmp_path / "no-user-tables")
+    monkeypatch.setattr("ionwright.plugins._registry.user_tables_dir",
+                        lambda: tmp_path / "no-user-tables")
     default_registry.cache_clear()
     yield
     default_registry.cache_clear()
@@ -94,7 +96,7 @@ class Raises:
         raise OSError("share //lab/tables not mounted")
 
 
-def acid_table(name: str = "bench-acid") -> ionwright.tables.ConstantTable:
+def acid_table(name: str = "bench-acid") -> ionwright.data.ConstantTable:
     return parse_table(ACID_TABLE.replace('"bench-acid"', f'"{name}"'), origin=f"<{name}>")
 
 

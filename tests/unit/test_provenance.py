@@ -9,9 +9,9 @@ import numpy as np
 import pytest
 
 import ionwright
-from ionwright.plugins import default_registry
-from ionwright.provenance import constants_used, explain, override_warnings
-from ionwright.system import log10_k_at
+from ionwright.plugins._registry import default_registry
+from ionwright.outputs._provenance import constants_used, explain, override_warnings
+from ionwright.core._system import log10_k_at
 
 # A stricter in-house review of one core constant (demo value and source, not data).
 REVIEW = textwrap.dedent('''

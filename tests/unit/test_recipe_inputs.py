@@ -6,8 +6,8 @@ import pytest
 
 import ionwright
 from ionwright.errors import RecipeError
-from ionwright.formula import molar_mass
-from ionwright.recipe import read_recipe
+from ionwright.chemistry._formula import molar_mass
+from ionwright.inputs._recipe import read_recipe
 
 M_WATER = molar_mass("H2O")
 

@@ -5,8 +5,8 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from ionwright.design import Workbench
-from ionwright.sensitivity import buffer_capacity, pH_change
+from ionwright.design._target import Workbench
+from ionwright.core._sensitivity import buffer_capacity, pH_change
 
 LN10 = np.log(10.0)
 

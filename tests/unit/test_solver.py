@@ -6,9 +6,9 @@ import numpy as np
 import pytest
 
 import ionwright
-from ionwright import solver
+from ionwright.core import _solver as solver
 from ionwright.activity import DaviesModel, IdealModel
-from ionwright.system import compile_system
+from ionwright.core._system import compile_system
 
 
 def _acetate_system(mini_table_path):
@@ -56,9 +56,9 @@ def test_batch_keeps_each_sample_temperature(mini_table_path):
 
 
 def test_engine_raises_when_the_solver_cannot_converge(monkeypatch):
-    monkeypatch.setattr("ionwright.newton.fast.FAST_ITERATIONS", 1)
-    monkeypatch.setattr("ionwright.newton.careful.CAREFUL_OUTER_ITERATIONS", 1)
-    monkeypatch.setattr("ionwright.newton.careful.CAREFUL_INNER_ITERATIONS", 1)
+    monkeypatch.setattr("ionwright.core._newton.fast.FAST_ITERATIONS", 1)
+    monkeypatch.setattr("ionwright.core._newton.careful.CAREFUL_OUTER_ITERATIONS", 1)
+    monkeypatch.setattr("ionwright.core._newton.careful.CAREFUL_INNER_ITERATIONS", 1)
     with pytest.raises(ionwright.ConvergenceError) as err:
         ionwright.solve({"dissolve": {"KH2PO4": 0.5, "CaCl2": 0.2, "NaHCO3": 0.3}})
     assert "tolerance 1e-10" in str(err.value)
@@ -71,7 +71,7 @@ def test_both_activity_strategies_agree_at_high_ionic_strength(monkeypatch, mode
     recipe = {"activity_model": model,
               "dissolve": {"NaCl": 1.0, "MgSO4": 0.1, "CaCl2": 0.05, "NaHCO3": 0.01}}
     fast = ionwright.solve(recipe)
-    monkeypatch.setattr("ionwright.newton.fast.FAST_ITERATIONS", 0)
+    monkeypatch.setattr("ionwright.core._newton.fast.FAST_ITERATIONS", 0)
     careful = ionwright.solve(recipe)
     assert fast.ionic_strength > 1.0
     assert careful.pH == pytest.approx(fast.pH, abs=1e-9)

@@ -6,12 +6,15 @@ import numpy as np
 import pytest
 
 import ionwright
-from ionwright import batched_sparse, solver
-from ionwright.newton import fast, numerics, structure as newton_structure
+from ionwright.core import _sparse as batched_sparse
+from ionwright.core import _solver as solver
+from ionwright.core._newton import fast
+from ionwright.core._newton import numerics
+from ionwright.core._newton import structure as newton_structure
 from ionwright.activity import DaviesModel
-from ionwright.engine import component_totals
-from ionwright.recipe import read_recipe
-from ionwright.system import compile_system
+from ionwright.engine._solve import component_totals
+from ionwright.inputs._recipe import read_recipe
+from ionwright.core._system import compile_system
 
 NATURAL = ["Ca+2", "Mg+2", "Na+", "K+", "Cl-", "SO4-2", "CO3-2"]
 
@@ -217,8 +220,8 @@ def test_waters_at_a_fixed_pH_alone_have_the_bits_they_have_together():
 def test_the_guess_alone_has_the_bits_it_has_together_even_at_extremes():
     """The one-sample guess runs on floats; totals down to 1e-300 (members that
     underflow, NaN shares) and strong acid or base must not part it from the batch's."""
-    from ionwright.newton.guess import initial_guess
-    from ionwright.newton.structure import Problem, coupling_for, structure_of
+    from ionwright.core._newton.guess import initial_guess
+    from ionwright.core._newton.structure import Problem, coupling_for, structure_of
 
     system, totals, t = _waters(200, seed=23)
     rng = np.random.default_rng(5)

@@ -8,7 +8,8 @@ import io
 import numpy as np
 import pytest
 
-from ionwright import solver, sweep
+from ionwright.core import _solver as solver
+from ionwright.design import _sweep as sweep
 from ionwright.errors import RecipeError
 
 ACETIC = {"title": "vinegar rinse (demo)", "dissolve": {"acetic acid": 0.05}}

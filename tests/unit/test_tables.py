@@ -7,7 +7,7 @@ import textwrap
 import pytest
 
 from ionwright.errors import TableError
-from ionwright.tables import TableSet, parse_table
+from ionwright.data import TableSet, parse_table
 
 
 

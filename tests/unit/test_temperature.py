@@ -10,7 +10,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from ionwright.errors import TableError
-from ionwright.temperature import (
+from ionwright.chemistry._temperature import (
     T_REF,
     R,
     analytic,

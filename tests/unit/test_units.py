@@ -5,8 +5,8 @@ from __future__ import annotations
 import pytest
 
 from ionwright.errors import RecipeError
-from ionwright.formula import parse_formula
-from ionwright.units import basis_moles_per_mole, expect, parse_quantity
+from ionwright.chemistry._formula import parse_formula
+from ionwright.inputs._units import basis_moles_per_mole, expect, parse_quantity
 
 
 @pytest.mark.parametrize("text, value, dimension", [

@@ -1,10 +1,10 @@
 """Activity models: one module per model behind the interface in :mod:`.base`."""
 
-from .base import ActivityModel, BoundModel, SpeciesProperties
-from .davies import DaviesModel
-from .debye_huckel import ExtendedDebyeHuckelModel, TruesdellJonesModel
-from .ideal import IdealModel
-from .pitzer import PitzerModel
+from ._base import ActivityModel, BoundModel, SpeciesProperties
+from ._davies import DaviesModel
+from ._debye_huckel import ExtendedDebyeHuckelModel, TruesdellJonesModel
+from ._ideal import IdealModel
+from ._pitzer import PitzerModel
 
 BUILTIN_MODELS = (IdealModel, DaviesModel, ExtendedDebyeHuckelModel, TruesdellJonesModel,
                   PitzerModel)

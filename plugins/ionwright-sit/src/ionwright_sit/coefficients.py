@@ -18,7 +18,7 @@ from types import MappingProxyType
 from typing import Any, Mapping
 
 from ionwright import FormulaError, TableError
-from ionwright.formula import parse_formula
+from ionwright.chemistry import parse_formula
 
 FORMAT_VERSION = 1
 UNITS = "kg/mol"

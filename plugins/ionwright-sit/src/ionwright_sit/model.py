@@ -29,7 +29,7 @@ from dataclasses import dataclass, field, replace
 import numpy as np
 
 from ionwright.activity import SpeciesProperties
-from ionwright.water import debye_huckel_A
+from ionwright.chemistry import debye_huckel_A
 
 from .coefficients import EpsilonTable, bundled_epsilon
 

@@ -1,0 +1,27 @@
+"""Ideal solution: every activity coefficient is 1 (the limit I → 0 of every model)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ._base import IonicStrengthModel, SpeciesProperties
+
+
+@dataclass
+class _BoundIdeal(IonicStrengthModel):
+    """No terms at all: ln γ = 0."""
+
+    def terms(self, u: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        return np.zeros((0, u.shape[0])), np.zeros((0, u.shape[0]))
+
+
+class IdealModel:
+    name = "ideal"
+    title = "ideal solution (γ = 1)"
+    max_ionic_strength = 1e-3
+    reference = "limit of infinite dilution"
+
+    def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> _BoundIdeal:
+        return _BoundIdeal(species, t_C, weights=np.zeros((len(species.names), 0)))

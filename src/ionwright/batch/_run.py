@@ -1,0 +1,574 @@
+"""Batch speciation: a table of samples in, the same table with results out.
+
+One row is one sample. Columns are read by their header:
+
+* ``pH`` fixes the pH where a value is given (an empty cell leaves it free);
+  ``temperature_C``, ``temperature [C]`` or ``temperature [°C]`` gives the temperature
+  (25 °C when there is no such column);
+* a plain name (``NaCl``, ``CaCl2``, ``NaHCO3``, ``citric acid``) is an ingredient in mol
+  per kg of water;
+* ``NAME [UNIT]`` is an analyte of a water analysis (``Ca [mg/L]``, ``SO4 [mmol/L]``,
+  ``alkalinity [mg/L as CaCO3]``, ``density [g/mL]``) when NAME is one, else an
+  ingredient in that unit (``NaCl [g/L]``); both are converted exactly as a recipe's
+  ``[analysis]`` or ``[dissolve]`` would be (:mod:`ionwright.recipe`,
+  :mod:`ionwright.analysis`);
+* a column of text that names no ingredient (a sample id, a site) is carried through.
+
+The output holds every input column first, then the solved pH, the ionic strength, the
+molality of the chosen species, saturation indices, ``status`` (converged / failed /
+invalid) and ``message``; rows keep their order and index and none is dropped. Rows
+that share a chemical system (the same components present and the same fixed pH or not)
+are solved together by one batched solve, with temperature and totals per row; a row
+that fails there is retried alone with the careful path before it is marked failed. A
+row with a bad cell (empty, not a number, negative, an unknown unit or ingredient in its
+column header) is marked invalid with a message that names the column.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from contextlib import contextmanager
+from dataclasses import dataclass
+from typing import TYPE_CHECKING, Any, Iterable, Iterator, Mapping, Sequence
+
+import numpy as np
+
+from ..core import _solver as solver
+from ..outputs._cautions import CORROSIVE_HIGH_PH, CORROSIVE_LOW_PH, DEFER
+from ..errors import IonwrightError, RecipeError, UnknownNameError
+from ..core._system import PROTON, WATER, ChemicalSystem, compile_system, log10_k_at
+
+if TYPE_CHECKING:
+    import pandas as pd
+
+    from ..plugins._registry import Registry
+    from ..chemistry._tableset import TableSet
+
+LN10 = np.log(10.0)
+CONVERGED, FAILED, INVALID = "converged", "failed", "invalid"
+STATUS_COLUMN, MESSAGE_COLUMN = "status", "message"
+PH_COLUMN = "solved pH"
+IONIC_STRENGTH_COLUMN = "ionic strength [mol/kg]"
+TEMPERATURE_NAMES = ("temperature_C", "temperature [C]", "temperature [°C]")
+ENGINES = ("local", "dask")
+PARTITION_ROWS = 65_536        # rows per task when the work is spread over a cluster
+LOCAL_WORKERS = 2              # worker processes of the default local dask cluster
+DEFAULT_TEMPERATURE_C = 25.0
+PH_RANGE = (-2.0, 16.0)
+_HEADER_UNIT = re.compile(r"^(?P<name>.*?)\s*\[(?P<unit>[^\]]*)\]\s*$")
+
+
+def species_column(name: str) -> str:
+    """Output column holding the molality of species *name*."""
+    return f"m({name}) [mol/kg]"
+
+
+def saturation_column(name: str) -> str:
+    """Output column holding the saturation index of solid *name*."""
+    return f"SI({name})"
+
+
+# -- reading the columns -------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class Column:
+    """What one input column means: its kind, key and unit, or what is wrong with it."""
+
+    header: str
+    kind: str                     # ingredient, amount, analysis, pH, temperature, label
+    key: str = ""                 # ingredient name or analysis key
+    unit: str = ""
+    components: tuple[str, ...] = ()   # components the column can bring
+    problem: str = ""             # set when the column cannot be read at all
+
+
+@dataclass
+class Plan:
+    """The columns of a frame and the chemistry they span (fixed by the header alone)."""
+
+    columns: list[Column]
+    components: tuple[str, ...]
+    species: tuple[str, ...]
+    solids: tuple[str, ...]
+    table_names: tuple[str, ...] = ("core",)
+
+    def output_columns(self) -> list[str]:
+        return [PH_COLUMN, IONIC_STRENGTH_COLUMN, *map(species_column, self.species),
+                *map(saturation_column, self.solids), STATUS_COLUMN, MESSAGE_COLUMN]
+
+
+def plan_columns(headers: Sequence[str], tables: TableSet, species: Sequence[str] | None = None,
+                 labels: Iterable[str] = (), text_columns: Iterable[str] = ()) -> Plan:
+    """Read every header; *species* None means every species the columns can form.
+
+    *labels* are carried through unread; *text_columns* (columns holding text) that name
+    no ingredient are carried through too, so a sample id never invalidates a row.
+    """
+    labels, text = set(labels), set(text_columns)
+    columns = [_read_header(str(h), tables, str(h) in labels, str(h) in text)
+               for h in headers]
+    present = sorted({c for col in columns for c in col.components} - {PROTON, WATER})
+    widest = compile_system(tables, present)
+    allowed = set(widest.components) | {WATER}
+    solids = tuple(name for name in sorted(tables.solids)
+                   if set(tables.resolve(name, "solids").stoichiometry) <= allowed)
+    if species is None:
+        chosen = widest.species
+    else:
+        known = set(tables.components) | set(tables.species)
+        for name in species:
+            if name not in known:
+                raise UnknownNameError("species", name, known,
+                                       "`ionwright tables show species` lists them")
+        chosen = tuple(species)
+    plan = Plan(columns, widest.components, tuple(chosen), solids)
+    clash = sorted(set(plan.output_columns()) & {c.header for c in columns})
+    if clash:
+        raise RecipeError("batch input", f"column(s) {', '.join(map(repr, clash))} clash with "
+                          "output columns", "rename them in the input")
+    return plan
+
+
+def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Column:
+    from ..inputs._analysis import NAMED_KEYS, map_analyte
+    from ..chemistry._ingredients import makeup
+    from ..inputs._units import parse_quantity
+
+    if label:
+        return Column(header, "label")
+    if header == "pH":
+        return Column(header, "pH")
+    if header in TEMPERATURE_NAMES:
+        return Column(header, "temperature")
+    match = _HEADER_UNIT.match(header)
+    if match is None:
+        try:
+            made = makeup(header, tables)
+        except IonwrightError as exc:
+            if text:
+                return Column(header, "label")
+            return Column(header, "ingredient", header,
+                          problem=f"{_first_line(exc)} (a column to carry through unread "
+                          "goes in labels=[...], or --label on the command line)")
+        return Column(header, "ingredient", header, components=tuple(made.per_mole))
+    name, unit = match["name"].strip(), match["unit"].strip()
+    where = f"column {header!r}"
+    try:
+        parse_quantity(f"1 {unit}", where)
+    except RecipeError as exc:
+        return Column(header, "amount", name, unit,
+                      problem=f"{unit!r} is not a unit ionwright knows ({exc.hint})")
+    if name in NAMED_KEYS or name == "alkalinity":
+        brings = ("CO3-2",) if name == "alkalinity" else ()
+        return Column(header, "analysis", name, unit, components=brings)
+    try:
+        component = map_analyte(name, tables, where)[0]
+        return Column(header, "analysis", name, unit, components=(component,))
+    except RecipeError:
+        pass
+    try:
+        made = makeup(name, tables)
+    except IonwrightError as exc:
+        return Column(header, "amount", name, unit, problem=_first_line(exc))
+    return Column(header, "amount", name, unit, components=tuple(made.per_mole))
+
+
+def _first_line(exc: Exception) -> str:
+    return str(exc).replace("\n  hint: ", "; ").splitlines()[0]
+
+
+# -- from cells to component totals -------------------------------------------------------
+
+@dataclass
+class Samples:
+    """Per-row inputs of the solve: totals over the plan's components, T, fixed pH."""
+
+    totals: np.ndarray            # (n, c)
+    temperature: np.ndarray       # (n,)
+    fixed_ph: np.ndarray          # (n,) NaN where free
+    problem: list[str]            # (n,) "" or why the row is invalid
+
+
+def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
+                 registry: Registry) -> Samples:
+    """Validate every cell and turn each valid row into component totals."""
+    import pandas as pd
+
+    n = len(frame)
+    comps = plan.components
+    col_of = {c: j for j, c in enumerate(comps)}
+    totals = np.zeros((n, len(comps)))
+    problem = [""] * n
+    temperature = np.full(n, DEFAULT_TEMPERATURE_C)
+    fixed_ph = np.full(n, np.nan)
+    values: dict[str, np.ndarray] = {}
+    for k, col in enumerate(plan.columns):
+        if col.kind == "label":
+            continue
+        raw = frame.iloc[:, k]
+        numbers = pd.to_numeric(raw, errors="coerce").to_numpy(dtype=float)
+        empty = raw.isna().to_numpy().copy()
+        if not pd.api.types.is_numeric_dtype(raw):
+            empty |= raw.astype(str).str.strip().eq("").to_numpy(dtype=bool)
+        text = ~empty & np.isnan(numbers)
+        _flag(problem, empty & (col.kind != "pH"), lambda r: f"empty cell in column "
+              f"{col.header!r}; give a number (0 when nothing was added or found)")
+        _flag(problem, text, lambda r: f"column {col.header!r}: {raw.iloc[r]!r} is not a number")
+        bad = ~empty & ~text & ~np.isfinite(numbers)
+        _flag(problem, bad, lambda r: f"column {col.header!r}: {numbers[r]!r} is not finite")
+        if col.problem:  # an unreadable column spoils every row that uses it
+            _flag(problem, ~empty & (numbers != 0), lambda r: f"column {col.header!r}: "
+                  f"{col.problem}")
+        if col.kind == "pH":
+            lo, hi = PH_RANGE
+            _flag(problem, np.isfinite(numbers) & ((numbers < lo) | (numbers > hi)),
+                  lambda r: f"column {col.header!r}: {numbers[r]:g} is not a plausible pH")
+            fixed_ph = np.where(np.isfinite(numbers), numbers, np.nan)
+        elif col.kind == "temperature":
+            from ..chemistry._water import VALID_RANGE_C
+            lo, hi = VALID_RANGE_C
+            _flag(problem, np.isfinite(numbers) & ((numbers < lo) | (numbers > hi)),
+                  lambda r: f"column {col.header!r}: {numbers[r]:g} °C is outside "
+                  f"{lo:g}–{hi:g} °C")
+            temperature = np.where(np.isfinite(numbers), numbers, DEFAULT_TEMPERATURE_C)
+        else:
+            _flag(problem, numbers < 0, lambda r: f"column {col.header!r}: {numbers[r]:g} is "
+                  "negative; amounts must be ≥ 0")
+        values[col.header] = numbers
+    plain = [c for c in plan.columns if c.kind == "ingredient" and not c.problem]
+    converted = [c for c in plan.columns if c.kind in ("amount", "analysis")]
+    by_recipe = np.zeros(n, dtype=bool)
+    for col in converted:
+        by_recipe |= np.nan_to_num(values[col.header]) > 0
+    from ..chemistry._ingredients import makeup
+
+    for col in plain:  # the same additions, in the same order, as engine.component_totals
+        amount = np.nan_to_num(values[col.header])
+        for comp, nu in makeup(col.key, tables).per_mole.items():
+            if comp in col_of:
+                totals[:, col_of[comp]] += nu * amount
+    for r in np.flatnonzero(by_recipe):
+        if problem[r]:
+            continue
+        try:
+            row_totals, t, ph = _recipe_row(plan, values, r, tables, model, registry)
+        except IonwrightError as exc:
+            problem[r] = _row_message(exc, plan)
+            continue
+        totals[r] = [row_totals.get(c, 0.0) for c in comps]
+        temperature[r] = t
+        fixed_ph[r] = ph
+    negative = np.any(np.delete(totals, col_of[PROTON], axis=1) < 0, axis=1)
+    _flag(problem, negative, lambda r: "the ingredients give a negative total of a component")
+    return Samples(totals, temperature, fixed_ph, problem)
+
+
+def _flag(problem: list[str], mask: np.ndarray, message) -> None:
+    """Give each row of *mask* that has no problem yet the problem *message(row)*."""
+    for r in np.flatnonzero(mask):
+        if not problem[r]:
+            problem[r] = message(r)
+
+
+def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: TableSet,
+                model: str, registry: Registry) -> tuple[dict[str, float], float, float]:
+    """(totals, temperature, fixed pH or NaN) of row *r* read as a recipe or an analysis."""
+    from ..engine._solve import component_totals
+    from ..inputs._recipe import read_recipe
+
+    cells = {c.header: float(values[c.header][r]) for c in plan.columns if c.header in values}
+    analysis = {c.key: f"{cells[c.header]!r} {c.unit}" for c in plan.columns
+                if c.kind == "analysis" and cells[c.header] > 0}
+    dissolve = {c.key: (float(cells[c.header]) if c.kind == "ingredient"
+                        else f"{cells[c.header]!r} {c.unit}")
+                for c in plan.columns if c.kind in ("ingredient", "amount")
+                and cells[c.header] > 0}
+    t = next((float(cells[c.header]) for c in plan.columns if c.kind == "temperature"),
+             DEFAULT_TEMPERATURE_C)
+    ph = next((cells[c.header] for c in plan.columns if c.kind == "pH"), math.nan)
+    data: dict[str, Any] = {"activity_model": model, "tables": list(plan.table_names)}
+    if analysis:
+        if dissolve:
+            raise RecipeError("row", "combines analysis columns with ingredient amounts",
+                              "give a row either as an analysis or as a recipe")
+        analysis["temperature_C"] = t
+        if math.isfinite(ph):
+            analysis["pH"] = float(ph)
+        data["analysis"] = analysis
+    else:
+        data.update(temperature_C=t, dissolve=dissolve)
+        if math.isfinite(ph):
+            data["fix"] = {"pH": float(ph)}
+    recipe = read_recipe(data, registry)
+    totals, _ = component_totals(recipe, tables)
+    return totals, recipe.temperature_C, recipe.fix.get("pH", math.nan)
+
+
+def _row_message(exc: IonwrightError, plan: Plan) -> str:
+    """The error of a row's conversion, naming its column when the error names a key."""
+    text = _first_line(exc)
+    where = getattr(exc, "where", "")
+    for col in plan.columns:
+        if col.key and (where.endswith(f" {col.key}") or f"{col.key!r}" in where):
+            return f"column {col.header!r}: {getattr(exc, 'problem', text)}"
+    return text
+
+
+# -- solving ------------------------------------------------------------------------------
+
+@dataclass
+class Solved:
+    """Per-row outputs, filled group by group."""
+
+    ph: np.ndarray
+    ionic_strength: np.ndarray
+    molality: np.ndarray          # (n, chosen species)
+    saturation: np.ndarray        # (n, solids)
+    status: np.ndarray
+    message: np.ndarray           # (n,) of str
+
+
+def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: str,
+                  registry: Registry, threads: int | None = None) -> Solved:
+    """Solve every valid row, one batched solve per chemical system."""
+    n = samples.totals.shape[0]
+    out = Solved(np.full(n, np.nan), np.full(n, np.nan),
+                 np.full((n, len(plan.species)), np.nan), np.full((n, len(plan.solids)), np.nan),
+                 np.full(n, INVALID, dtype=object), np.array(samples.problem, dtype=object))
+    model = registry.model(model_name)
+    proton = plan.components.index(PROTON)
+    present = samples.totals > 0
+    present[:, proton] = False
+    fixed = np.isfinite(samples.fixed_ph)
+    valid = np.array([not p for p in samples.problem], dtype=bool)
+    keys = np.concatenate([present, fixed[:, None]], axis=1)
+    candidates = np.flatnonzero(valid)
+    if not candidates.size:
+        return out
+    _, group = np.unique(_row_codes(keys[candidates]), return_inverse=True)
+    order = np.argsort(group, kind="stable")
+    bounds = np.flatnonzero(np.diff(group[order])) + 1
+    for rows in np.split(candidates[order], bounds):
+        comps = [plan.components[j] for j in np.flatnonzero(present[rows[0]])]
+        system = compile_system(tables, comps)
+        _solve_group(system, rows, samples, plan, tables, model, bool(fixed[rows[0]]), out,
+                     threads)
+    return out
+
+
+def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, plan: Plan,
+                 tables: TableSet, model, fixed: bool, out: Solved,
+                 threads: int | None = None) -> None:
+    cols = [plan.components.index(c) for c in system.components]
+    totals = samples.totals[rows][:, cols]
+    t = samples.temperature[rows]
+    pinned = np.full(totals.shape, np.nan)
+    if fixed:
+        pinned[:, 0] = -samples.fixed_ph[rows]
+    eq = solver.solve(system, totals, model.bind(system.properties, t), pinned, threads=threads)
+    status = eq.status.copy()
+    for k in np.flatnonzero(status != CONVERGED):  # retry alone, carefully
+        alone = solver.solve(system, totals[k:k + 1], model.bind(system.properties, t[k:k + 1]),
+                             pinned[k:k + 1], method="careful")
+        if alone.status[0] == CONVERGED:
+            for name in ("log_activity", "molality", "ln_gamma", "ionic_strength",
+                         "ln_water_activity", "residual", "iterations"):
+                getattr(eq, name)[k] = getattr(alone, name)[0]
+        status[k] = alone.status[0]
+    ok = status == CONVERGED
+    good = rows[ok]
+    out.ph[good] = -eq.log_activity[ok, 0] / LN10
+    out.ionic_strength[good] = eq.ionic_strength[ok]
+    index = {name: i for i, name in enumerate(system.species)}
+    for j, name in enumerate(plan.species):
+        out.molality[good, j] = eq.molality[ok, index[name]] if name in index else 0.0
+    _saturation(system, tables, eq, ok, t, plan, out.saturation, good)
+    out.status[rows] = np.where(ok, CONVERGED, FAILED)
+    out.message[rows] = _notes(system, model, out.ph[rows], out.ionic_strength[rows], t, ok)
+    for k in np.flatnonzero(~ok):
+        out.message[rows[k]] = (f"the solver stopped with status {status[k]!r} after "
+                                f"{int(eq.iterations[k])} iterations (worst relative "
+                                f"residual {eq.residual[k]:.3g}), also when retried alone "
+                                "with the careful path; check that the totals are possible")
+
+
+def _saturation(system: ChemicalSystem, tables: TableSet, eq: solver.Equilibrium,
+                ok: np.ndarray, t: np.ndarray, plan: Plan, target: np.ndarray,
+                good: np.ndarray) -> None:
+    """SI = log10(IAP/Ksp), added up in the order :class:`ionwright.Result` uses."""
+    allowed = set(system.components) | {WATER}
+    log_a = {c: eq.log_activity[ok, j] / LN10 for j, c in enumerate(system.components)}
+    log_a[WATER] = eq.ln_water_activity[ok] / LN10
+    for j, name in enumerate(plan.solids):
+        res = tables.resolve(name, "solids")
+        if not set(res.stoichiometry) <= allowed:
+            continue
+        log_iap = 0
+        for comp, nu in res.stoichiometry.items():
+            log_iap = log_iap + nu * log_a[comp]
+        log10_k = 0
+        for _, mult, logk in res.terms:
+            log10_k = log10_k + mult * log10_k_at(logk, t[ok])
+        target[good, j] = log_iap - log10_k
+
+
+def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: np.ndarray,
+           ok: np.ndarray) -> np.ndarray:
+    """Per-row warnings: model range, corrosive pH, constants used outside their range.
+
+    Each kind of note is a column of a flag matrix; rows sharing a pattern of flags
+    share one joined message, so the text is built once per pattern, not per row.
+    """
+    texts: list[str] = []
+    flags: list[np.ndarray] = []
+    limit = model.max_ionic_strength
+    texts.append(f"ionic strength beyond the range of the {model.name} model (up to about "
+                 f"{limit:g} mol/kg)")
+    flags.append(ok & (ionic > limit))
+    texts.append(f"CAUTION: corrosive pH (≤ {CORROSIVE_LOW_PH:g} or ≥ {CORROSIVE_HIGH_PH:g}, "
+                 f"US EPA 40 CFR 261.22); wear eye and skin protection and {DEFER}")
+    flags.append(ok & ((ph <= CORROSIVE_LOW_PH) | (ph >= CORROSIVE_HIGH_PH)))
+    for res in system.resolved:
+        for name, _, logk in res.terms:
+            if logk.range_C is not None:
+                outside = (t < logk.range_C[0]) | (t > logk.range_C[1])
+                text = (f"log K of {name!r} is known for {logk.range_C[0]:g}–"
+                        f"{logk.range_C[1]:g} °C")
+            elif logk.method.startswith("none"):
+                outside = np.abs(t - 25.0) > 5.0
+                text = f"log K of {name!r} has no temperature dependence (25 °C value used)"
+            else:
+                continue
+            if text not in texts:
+                texts.append(text)
+                flags.append(ok & outside)
+    matrix = np.stack(flags, axis=1)
+    _, first, which = np.unique(_row_codes(matrix), return_index=True, return_inverse=True)
+    joined = np.array(["; ".join(t for t, f in zip(texts, matrix[r]) if f) for r in first],
+                      dtype=object)
+    return joined[which]
+
+
+def _row_codes(flags: np.ndarray) -> np.ndarray:
+    """One sortable code per row of a boolean matrix (equal rows, equal codes)."""
+    packed = np.packbits(flags, axis=1)
+    width = max(8, -(-packed.shape[1] // 8) * 8)
+    padded = np.zeros((flags.shape[0], width), dtype=np.uint8)
+    padded[:, :packed.shape[1]] = packed
+    if width == 8:
+        return padded.view(np.uint64).ravel()
+    return padded.view(np.dtype((np.void, width))).ravel()
+
+
+# -- the public entry point --------------------------------------------------------------
+
+def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
+                model: str = "davies", tables: Sequence[str] = ("core",),
+                labels: Iterable[str] = (), engine: str = "local",
+                address: str | None = None, partition_rows: int = PARTITION_ROWS,
+                threads: int | None = None, registry: Registry | None = None) -> pd.DataFrame:
+    """Speciate every row of *frame*; the input columns first, then the results.
+
+    Parameters
+    ----------
+    frame
+        One row per sample; see the module docstring for how columns are read.
+    species
+        Species whose molality to report (default: every species the columns can form).
+    model, tables
+        Activity model and constant tables, as in a recipe.
+    labels
+        Columns to carry through unread (text columns naming no ingredient always are).
+    engine
+        ``"local"`` (this process) or ``"dask"`` (the same work in partitions of
+        *partition_rows* rows on a dask cluster: a local one, or the scheduler at
+        *address*; needs ``pip install ionwright[distributed]``).
+    threads
+        Threads of the local solve (default: the cores available, at most
+        :data:`ionwright.solver.MAX_THREADS`); the dask engine solves each partition on
+        one thread and leaves the parallelism to the cluster. Answers do not depend on it.
+
+    Returns
+    -------
+    pandas.DataFrame
+        Same index and row order as *frame*; never fewer rows.
+    """
+    if engine not in ENGINES:
+        raise UnknownNameError("engine", engine, ENGINES)
+    options = dict(species=None if species is None else list(species), model=model,
+                   tables=list(tables), labels=list(labels))
+    if engine == "dask":
+        return _dask_batch(frame, {**options, "threads": 1}, address, partition_rows)
+    return _solve_frame(frame, registry=registry, threads=threads, **options)
+
+
+def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: str,
+                 tables: Sequence[str], labels: Iterable[str], threads: int | None = None,
+                 registry: Registry | None = None) -> pd.DataFrame:
+    import pandas as pd
+
+    from ..engine._solve import load_tables
+    from ..plugins._registry import default_registry
+
+    registry = registry or default_registry()
+    registry.model(model)  # an unknown model is an error of the call, not of a row
+    table_set = load_tables(list(tables), registry)
+    text = [h for h in frame.columns if not pd.api.types.is_numeric_dtype(frame[h])
+            and pd.to_numeric(frame[h], errors="coerce").isna().all()
+            and frame[h].notna().any()]
+    plan = plan_columns([str(h) for h in frame.columns], table_set, species, labels,
+                        [str(h) for h in text])
+    plan.table_names = tuple(tables)
+    samples = read_samples(frame, plan, table_set, model, registry)
+    solved = solve_samples(samples, plan, table_set, model, registry, threads)
+    results = {PH_COLUMN: solved.ph, IONIC_STRENGTH_COLUMN: solved.ionic_strength}
+    for j, name in enumerate(plan.species):
+        results[species_column(name)] = solved.molality[:, j]
+    for j, name in enumerate(plan.solids):
+        results[saturation_column(name)] = solved.saturation[:, j]
+    results[STATUS_COLUMN] = solved.status.astype(str)
+    results[MESSAGE_COLUMN] = solved.message
+    added = pd.DataFrame(results, index=frame.index)
+    return pd.concat([frame, added], axis=1)
+
+
+def solve_partition(part: pd.DataFrame, options: Mapping[str, Any]) -> pd.DataFrame:
+    """One task of the dask engine: the local solve of one partition of rows."""
+    return _solve_frame(part, **options)
+
+
+@contextmanager
+def dask_client(address: str | None = None) -> Iterator[Any]:
+    """A dask.distributed client: of the scheduler at *address*, else of a new local
+    cluster (closed on exit)."""
+    try:
+        from dask.distributed import Client, LocalCluster
+    except ImportError:
+        raise IonwrightError("the dask engine needs dask.distributed, which is not "
+                             "installed", 'pip install "ionwright[distributed]", or use '
+                             'engine="local"') from None
+    cluster = None if address else LocalCluster(n_workers=LOCAL_WORKERS, threads_per_worker=1,
+                                                 processes=True, dashboard_address=None)
+    client = Client(address or cluster)
+    try:
+        yield client
+    finally:
+        client.close()
+        if cluster is not None:
+            cluster.close()
+
+
+def _dask_batch(frame: pd.DataFrame, options: Mapping[str, Any], address: str | None,
+                partition_rows: int) -> pd.DataFrame:
+    """The rows in partitions of *partition_rows*, mapped over a dask cluster, in order."""
+    import pandas as pd
+
+    if partition_rows < 1:
+        raise RecipeError("batch options", f"partition_rows = {partition_rows} must be ≥ 1")
+    parts = [frame.iloc[i:i + partition_rows] for i in range(0, len(frame), partition_rows)]
+    with dask_client(address) as client:
+        if not parts:
+            return _solve_frame(frame, **options)
+        futures = client.map(solve_partition, parts, options=dict(options), pure=False)
+        return pd.concat(client.gather(futures))

@@ -1,0 +1,89 @@
+"""``ionwright sweep RECIPE --add "HCl 0.1 mol/L" --to "50 mL"`` and other sweeps."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+
+
+def register(subparsers) -> None:
+    parser = subparsers.add_parser(
+        "sweep", help="titrate, dilute, warm or hold a recipe at a range of pH; table out",
+        description="Solve a recipe at many points in one batch and print a table (CSV, or "
+        "JSON) of pH, ionic strength, buffer capacity, chosen species and saturation "
+        "indices. Titrations also report their equivalence points.")
+    parser.add_argument("recipe", help="recipe TOML file")
+    kind = parser.add_mutually_exclusive_group(required=True)
+    kind.add_argument("--add", metavar="TITRANT", help='titrant, e.g. "HCl 0.1 mol/L"')
+    kind.add_argument("--dilute", metavar="1:N", help='dilute up to 1:N by volume, e.g. 1:1000')
+    kind.add_argument("--temperature", metavar="A:B", help="from A to B °C, e.g. 5:60")
+    kind.add_argument("--pH", metavar="A:B", help="hold the pH from A to B, e.g. 2:12")
+    parser.add_argument("--to", help='titrant volume to add up to, e.g. "50 mL"')
+    parser.add_argument("--sample", help='volume (or mass) of the sample titrated, e.g. '
+                        '"25 mL" (default: the recipe as made)')
+    parser.add_argument("--points", type=int, default=101, help="number of points (101)")
+    parser.add_argument("--species", help="comma-separated species to tabulate")
+    parser.add_argument("--beyond-range", action="store_true",
+                        help="keep points past the activity model's range (with a warning)")
+    parser.add_argument("--json", action="store_true", help="print JSON instead of CSV")
+    parser.add_argument("--plot", metavar="FILE", help="also draw a figure (.png or .svg)")
+    parser.add_argument("--plot-kind", default="auto",
+                        choices=("auto", "titration", "distribution", "saturation",
+                                 "capacity"), help="which figure (default: by sweep)")
+    parser.add_argument("--component", help="component whose species --plot-kind "
+                        "distribution draws (default: the first besides H+)")
+    parser.set_defaults(run=run)
+
+
+def run(args: argparse.Namespace) -> int:
+    from ...design import _sweep as sweeps
+    from ...errors import RecipeError
+
+    common = {"points": args.points, "beyond_range": args.beyond_range,
+              "species": tuple(s.strip() for s in args.species.split(","))
+              if args.species else ()}
+    if args.add:
+        if not args.to:
+            raise RecipeError("--add", "a titration needs --to", 'e.g. --to "50 mL"')
+        result = sweeps.titration(args.recipe, args.add, args.to, sample=args.sample, **common)
+    elif args.dilute:
+        result = sweeps.dilution(args.recipe, args.dilute, **common)
+    elif args.temperature:
+        result = sweeps.temperature_series(args.recipe, args.temperature, **common)
+    else:
+        result = sweeps.pH_series(args.recipe, args.pH, **common)
+    print(json.dumps(result.to_dict(), indent=2, ensure_ascii=False) if args.json
+          else result.to_csv(), end="" if not args.json else "\n")
+    if not args.json:
+        for ep in result.equivalence:
+            print(f"# equivalence point: {ep['titrant_mL']:.4g} mL, pH {ep['pH']:.3f}",
+                  file=sys.stderr)
+        for w in result.warnings:
+            print(f"# warning: {w}", file=sys.stderr)
+    if args.plot and result.values.size:
+        _plot(result, args)
+    if result.stopped:
+        print(f"ionwright: sweep {result.stopped}", file=sys.stderr)
+        return 1
+    return 0
+
+
+def _plot(result, args) -> None:
+    from ...outputs import _plots as plots
+
+    kind = args.plot_kind
+    if kind == "auto":
+        kind = {"titration": "titration", "temperature": "saturation",
+                "pH": "distribution"}.get(result.kind, "capacity")
+    if kind == "titration":
+        figure = plots.titration_curve(result)
+    elif kind == "distribution":
+        component = args.component or next(c for c in result.bench.system.components
+                                           if c != "H+")
+        figure = plots.species_distribution(result, component)
+    elif kind == "saturation":
+        figure = plots.saturation_vs_temperature(result)
+    else:
+        figure = plots.buffer_capacity_curve(result)
+    plots.save(figure, args.plot)

@@ -1,0 +1,750 @@
+"""Equilibrium with solids and gases: a change of basis for gases, an active set for solids.
+
+A gas held at a partial pressure fixes the activity of a new basis entity: the gas takes
+the place of one component (its *pivot*), every species' stoichiometry and log K are
+re-expressed in the new basis, and the solver runs with the gas activity (its pressure)
+fixed. The amount taken up is the mass-balance residual of the gas row.
+
+A solid adds the amount ξ that dissolves (negative: precipitates) as an unknown, with the
+condition SI = 0 while it is present. Swapping a solid into the basis as well would leave
+totals such as m(SO4) − m(Ca), which are zero for gypsum in pure water, and the solver
+rightly refuses non-positive totals; so the amounts are found by Newton's method on SI(ξ)
+instead, whose Jacobian Pᵀ (∂y/∂T) P comes from the implicit-function theorem on the
+converged mass balances (:mod:`ionwright.sensitivity`). It is symmetric positive definite
+when the solids present are linearly independent: the phase rule. The active set follows
+DESIGN.md: ``"equilibrate"`` solids are present in excess; ``"precipitate-only"`` solids
+join when supersaturated and leave when their precipitated amount would turn negative; a
+solid given as an amount leaves when it has all dissolved. The mass of water is held at
+1 kg: water released or taken up by a phase (gypsum's two waters) is not added.
+
+References
+----------
+Morel, F. & Morgan, J. (1972) Environ. Sci. Technol. 6, 58–67 (tableau; change of basis).
+Smith, W.R. & Missen, R.W. (1982) Chemical Reaction Equilibrium Analysis, Wiley, ch. 2
+(stoichiometric basis, phase rule).
+Nocedal, J. & Wright, S.J. (2006) Numerical Optimization, 2nd ed., Springer, ch. 16
+(active sets), ch. 19 (fraction-to-the-boundary rule).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+
+from . import _solver as solver
+from ..errors import PhaseRuleError, RecipeError, UnknownNameError
+from ..chemistry._formula import parse_formula
+from ._sensitivity import response
+from ._solver import Equilibrium, bound_slice
+from ._system import PROTON, WATER, ChemicalSystem, log10_k_at
+from ..chemistry._tableset import Resolved, TableSet
+
+LN10 = math.log(10.0)
+EQUILIBRATE = "equilibrate"
+PRECIPITATE_ONLY = "precipitate-only"
+AMOUNT = "amount"
+SOLID_WORDS = (EQUILIBRATE, PRECIPITATE_ONLY)
+
+ATM_PER_UNIT = {"atm": 1.0, "matm": 1e-3, "uatm": 1e-6, "µatm": 1e-6, "μatm": 1e-6,
+                "bar": 1 / 1.01325, "mbar": 1e-3 / 1.01325, "kPa": 1 / 101.325,
+                "Pa": 1 / 101325.0}
+MOL_PER_UNIT = {"mol": 1.0, "mmol": 1e-3, "umol": 1e-6, "µmol": 1e-6, "μmol": 1e-6}
+GRAMS_PER_UNIT = {"g": 1.0, "mg": 1e-3, "kg": 1e3}
+_PRESSURE = re.compile(r"^\s*(?:10\s*\^\s*(?P<exp>[-+]?\d+(?:\.\d*)?)|(?P<num>[-+]?(?:\d+\.?\d*|"
+                       r"\.\d+)(?:[eE][-+]?\d+)?))\s*(?P<unit>[A-Za-zµμ]*)\s*$")
+_AMOUNT = re.compile(r"^\s*(?P<num>[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*"
+                     r"(?P<unit>[A-Za-zµμ]+)\s*$")
+
+SI_TOLERANCE = 1e-10        # |SI| of a present solid that counts as saturated
+ACTIVATION_SI = 1e-9        # SI above which an absent solid joins the active set
+MAX_PHASE_ITERATIONS = 60
+FRACTION_TO_BOUNDARY = 0.9  # never step more than this share of the way to a zero total
+START_AMOUNT = 1e-8         # mol/kg a dissolving solid starts from when none is in solution
+FIXED_COLUMN_ALLOWANCE = 1.0  # mol/kg: ionic-strength room for fixed activities (see inner)
+LOG_STEP_CAP = 6.0          # largest change of ln(distance to the precipitation limit)
+
+
+# -- what the recipe asks for ----------------------------------------------------------------
+@dataclass(frozen=True)
+class SolidChoice:
+    """One entry of ``[solids]``: a mode, and for ``"amount"`` the mol per kg of water."""
+
+    name: str
+    mode: str
+    amount_mol_per_kg: float | None = None
+    given: str = ""
+
+
+@dataclass(frozen=True)
+class GasChoice:
+    """One entry of ``[gases]``: the gas (table name) and its partial pressure."""
+
+    name: str
+    log10_pressure_atm: float
+    given: str = ""
+
+    @property
+    def pressure_atm(self) -> float:
+        return 10.0 ** self.log10_pressure_atm
+
+
+@dataclass(frozen=True)
+class PhaseChoice:
+    """The ``[solids]`` and ``[gases]`` of a recipe, checked against the tables."""
+
+    solids: tuple[SolidChoice, ...] = ()
+    gases: tuple[GasChoice, ...] = ()
+
+    def __bool__(self) -> bool:
+        return bool(self.solids or self.gases)
+
+
+def read_phases(raw: Mapping[str, Any], tables: TableSet, origin: str = "(mapping)"
+                ) -> PhaseChoice:
+    """The :class:`PhaseChoice` of a recipe's raw ``solids`` and ``gases`` tables."""
+    solids = [_solid_choice(name, value, tables, origin)
+              for name, value in _table(raw, "solids", origin).items()]
+    gases = [_gas_choice(name, value, tables, origin)
+             for name, value in _table(raw, "gases", origin).items()]
+    return PhaseChoice(tuple(s for s in solids if s is not None), tuple(gases))
+
+
+def _table(raw: Mapping[str, Any], key: str, origin: str) -> Mapping[str, Any]:
+    value = raw.get(key, {})
+    if not isinstance(value, Mapping):
+        example = ('gypsum = "equilibrate"' if key == "solids" else 'CO2 = "420 uatm"')
+        raise RecipeError(f"{origin} [{key}]", f"must be a table, got {value!r}",
+                          f"e.g. [{key}] then {example}")
+    return value
+
+
+def _solid_choice(name: str, value: Any, tables: TableSet, origin: str) -> SolidChoice | None:
+    if name not in tables.solids:
+        raise UnknownNameError("solid", name, tables.solids,
+                               "`ionwright tables show solids` lists them")
+    where = f"{origin} [solids] {name!r}"
+    if isinstance(value, str) and value.strip().lower() in SOLID_WORDS:
+        return SolidChoice(name, value.strip().lower(), given=value)
+    amount = _solid_amount(value, tables.solids[name].formula, where)
+    if amount == 0.0:
+        return None
+    return SolidChoice(name, AMOUNT, amount, given=str(value))
+
+
+def _solid_amount(value: Any, formula: str, where: str) -> float:
+    """mol per kg of water from a number (mol/kg), ``"2 g"``, ``"5 mmol"`` and the like."""
+    hint = ('"equilibrate" (in excess), "precipitate-only", or an amount per kg of water '
+            'such as "2 g", "5 mmol" or 0.01 (mol)')
+    if isinstance(value, (int, float)) and not isinstance(value, bool):
+        number, unit = float(value), "mol"
+    else:
+        match = _AMOUNT.match(str(value))
+        if not match or match["unit"] not in {**MOL_PER_UNIT, **GRAMS_PER_UNIT}:
+            raise RecipeError(where, f"{value!r} is not a mode or an amount", hint)
+        number, unit = float(match["num"]), match["unit"]
+    if not math.isfinite(number) or number < 0:
+        raise RecipeError(where, f"amount {value!r} must be ≥ 0", hint)
+    if unit in MOL_PER_UNIT:
+        return number * MOL_PER_UNIT[unit]
+    return number * GRAMS_PER_UNIT[unit] / parse_formula(formula).molar_mass
+
+
+def _gas_choice(name: str, value: Any, tables: TableSet, origin: str) -> GasChoice:
+    table_name = name if name in tables.gases else f"{name}(g)"
+    if table_name not in tables.gases:
+        bare = [g.removesuffix("(g)") for g in tables.gases]
+        raise UnknownNameError("gas", name, [*tables.gases, *bare],
+                               "`ionwright tables show gases` lists them")
+    return GasChoice(table_name, log10_pressure(value, f"{origin} [gases] {name!r}"),
+                     str(value))
+
+
+def log10_pressure(value: Any, where: str = "pressure") -> float:
+    """log10 of a partial pressure in atm from ``"420 uatm"``, ``"10^-3.5 atm"``, ``"0.03 bar"``.
+
+    A plain number is in atm. Units: atm, matm, uatm (µatm), bar, mbar, kPa, Pa.
+    """
+    hint = 'e.g. "420 uatm", "10^-3.5 atm", "0.03 bar" or a number in atm'
+    if isinstance(value, (int, float)) and not isinstance(value, bool):
+        exponent, number, unit = None, float(value), "atm"
+    else:
+        match = _PRESSURE.match(str(value))
+        if not match:
+            raise RecipeError(where, f"cannot read the partial pressure {value!r}", hint)
+        exponent = match["exp"]
+        number = None if exponent is not None else float(match["num"])
+        unit = match["unit"] or "atm"
+    if unit not in ATM_PER_UNIT:
+        near = [u for u in ATM_PER_UNIT if u.lower() == unit.lower()]
+        raise RecipeError(where, f"unknown pressure unit {unit!r}",
+                          f"did you mean {near[0]!r}?" if near else
+                          f"units: {', '.join(ATM_PER_UNIT)}")
+    if exponent is not None:
+        return float(exponent) + math.log10(ATM_PER_UNIT[unit])
+    if not math.isfinite(number) or number <= 0:
+        raise RecipeError(where, f"partial pressure {value!r} must be > 0",
+                          "remove the gas to leave it out; " + hint)
+    return math.log10(number * ATM_PER_UNIT[unit])
+
+
+def components_needed(choice: PhaseChoice, tables: TableSet) -> set[str]:
+    """Components that gases and dissolving solids can bring into solution.
+
+    A ``"precipitate-only"`` solid brings nothing: it forms only from what is there.
+    """
+    out: set[str] = set()
+    for gas in choice.gases:
+        out |= set(tables.resolve(gas.name, "gases").stoichiometry)
+    for solid in choice.solids:
+        if solid.mode != PRECIPITATE_ONLY:
+            out |= set(tables.resolve(solid.name, "solids").stoichiometry)
+    return out - {WATER, PROTON}
+
+
+# -- phase constants in components -----------------------------------------------------------
+@dataclass(frozen=True)
+class PhaseReaction:
+    """A solid or gas as a dissolution into solver components, with log10 K(T)."""
+
+    name: str
+    kind: str                    # "solid" | "gas"
+    stoichiometry: np.ndarray    # (c,) per mole dissolved, in the system's components
+    water: float                 # H2O released per mole dissolved
+    resolved: Resolved
+    molar_mass: float
+
+    def log10_k(self, t_C: np.ndarray) -> np.ndarray:
+        """log10 K of dissolution into components at *t_C*, shape (n,).
+
+        The table gives K of dissolution into the species of ``dissolves_to``; a product
+        that is itself a species formed from components (OH-, CO2(aq)) divides K by its
+        formation constant: :meth:`TableSet.resolve` gives those terms negative multipliers.
+        """
+        t_C = np.atleast_1d(np.asarray(t_C, dtype=float))
+        return sum(mult * np.asarray(log10_k_at(logk, t_C), dtype=float)
+                   for _, mult, logk in self.resolved.terms)
+
+
+def phase_reaction(system: ChemicalSystem, tables: TableSet, name: str, kind: str
+                   ) -> PhaseReaction | None:
+    """The reaction of solid or gas *name* in *system*'s components (None if one is absent)."""
+    resolved = tables.resolve(name, {"solid": "solids", "gas": "gases"}[kind])
+    column = {c: j for j, c in enumerate(system.components)}
+    stoich = np.zeros(system.n_components)
+    for comp, coeff in resolved.stoichiometry.items():
+        if comp == WATER:
+            continue
+        if comp not in column:
+            return None
+        stoich[column[comp]] = coeff
+    record = (tables.solids if kind == "solid" else tables.gases)[name]
+    return PhaseReaction(name, kind, stoich, float(resolved.stoichiometry.get(WATER, 0.0)),
+                         resolved, parse_formula(record.formula).molar_mass)
+
+
+# -- gases: the change of basis ----------------------------------------------------------------
+@dataclass(frozen=True)
+class GasBasis:
+    """A system with each gas in place of its pivot component; the solver sees it as a system.
+
+    With A the matrix whose rows are the new basis entities in old components (unit rows,
+    and the gases' stoichiometry in the pivot rows): ν' = ν A⁻¹, log K' = log K + ν' κ
+    with κ the gases' log K of dissolution in their rows, ν'(H2O) = ν(H2O) − ν' b with b
+    their water, and the totals T' = T A⁻¹ (row vectors).
+    """
+
+    base: ChemicalSystem
+    gases: tuple[PhaseReaction, ...]
+    pivots: tuple[int, ...]
+    inverse: np.ndarray          # A⁻¹, (c, c)
+    nu: np.ndarray               # (s, c)
+    nu_water: np.ndarray         # (s,)
+    components: tuple[str, ...]
+
+    # what the solver reads from a system
+    @property
+    def species(self) -> tuple[str, ...]:
+        return self.base.species
+
+    @property
+    def charge(self) -> np.ndarray:
+        return self.base.charge
+
+    @property
+    def properties(self):
+        return self.base.properties
+
+    @property
+    def n_components(self) -> int:
+        return self.base.n_components
+
+    def kappa(self, t_C: np.ndarray) -> np.ndarray:
+        """log10 K of each gas in its pivot column, zero elsewhere: shape (n, c)."""
+        t_C = np.atleast_1d(np.asarray(t_C, dtype=float))
+        out = np.zeros((t_C.size, self.n_components))
+        for gas, col in zip(self.gases, self.pivots):
+            out[:, col] = gas.log10_k(t_C)
+        return out
+
+    def log10_k(self, t_C: np.ndarray, samples_last: bool = False) -> np.ndarray:
+        out = self.base.log10_k(t_C) + self.kappa(t_C) @ self.nu.T
+        return np.ascontiguousarray(out.T) if samples_last else out
+
+    def new_totals(self, totals: np.ndarray) -> np.ndarray:
+        return totals @ self.inverse
+
+    def new_direction(self, direction: np.ndarray) -> np.ndarray:
+        """A change of old totals (n, c) as a change of the new totals."""
+        return direction @ self.inverse
+
+    def old_log_activity(self, y: np.ndarray, ln_aw: np.ndarray, t_C: np.ndarray
+                         ) -> np.ndarray:
+        """ln a of the old components from the new-basis ln a (n, c)."""
+        water = np.zeros(self.n_components)
+        for gas, col in zip(self.gases, self.pivots):
+            water[col] = gas.water
+        shifted = y + LN10 * self.kappa(t_C) - ln_aw[:, None] * water[None, :]
+        return shifted @ self.inverse.T
+
+
+def gas_basis(system: ChemicalSystem, gases: Sequence[PhaseReaction], fixed: np.ndarray
+              ) -> GasBasis:
+    """Swap each gas into the basis in place of a free, non-proton component it contains.
+
+    Pivots are chosen by Gaussian elimination with the largest remaining coefficient, so
+    the gases must be linearly independent of each other and of the fixed components.
+    """
+    c = system.n_components
+    matrix = np.eye(c)
+    reduced: list[np.ndarray] = []
+    pivots: list[int] = []
+    for gas in gases:
+        row = gas.stoichiometry.copy()
+        for prev, col in zip(reduced, pivots):
+            row = row - row[col] / prev[col] * prev
+        candidates = np.abs(row) * (~fixed) * (np.arange(c) != 0)
+        candidates[pivots] = 0.0
+        if candidates.max(initial=0.0) <= 1e-9:
+            others = [g.name for g in gases if g is not gas] + (["the fixed pH"]
+                                                                   if fixed[0] else [])
+            raise PhaseRuleError([gas.name], f"its composition is a combination of "
+                                 f"{', '.join(others) or 'the protons alone'}, so its "
+                                 "pressure cannot be held as well")
+        col = int(np.argmax(candidates))
+        reduced.append(row)
+        pivots.append(col)
+        matrix[col] = gas.stoichiometry
+    inverse = np.linalg.inv(matrix)
+    nu = system.nu @ inverse
+    water = np.zeros(c)
+    for gas, col in zip(gases, pivots):
+        water[col] = gas.water
+    names = list(system.components)
+    for gas, col in zip(gases, pivots):
+        names[col] = gas.name
+    return GasBasis(system, tuple(gases), tuple(pivots), inverse, _clean(nu),
+                    system.nu_water - _clean(nu) @ water, tuple(names))
+
+
+def _clean(a: np.ndarray) -> np.ndarray:
+    """Round-off of an exact rational change of basis back to the nearest simple value."""
+    rounded = np.round(a * 840.0) / 840.0   # 840 = lcm(1..8): stoichiometric fractions
+    return np.where(np.abs(a - rounded) < 1e-9, rounded, a)
+
+
+# -- the batched equilibrium with phases -----------------------------------------------------
+@dataclass
+class PhaseEquilibrium:
+    """Equilibrium of a batch with solids and gases; arrays over samples (n)."""
+
+    equilibrium: Equilibrium          # in the system's own components
+    inner: Equilibrium                # as solved, in the gas basis
+    basis: GasBasis
+    free: np.ndarray                  # (c,) columns with a mass balance in the gas basis
+    solids: tuple[PhaseReaction, ...]
+    modes: tuple[SolidChoice, ...]
+    dissolved: np.ndarray             # (n, m) mol/kg of each solid into solution
+    present: np.ndarray               # (n, m) solid at equilibrium with the solution
+    saturation_index: np.ndarray      # (n, m)
+    gas_uptake: np.ndarray            # (n, g) mol/kg of each gas into solution
+    totals: np.ndarray                # (n, c) in solution, system components
+    gas_log10_pressure: np.ndarray    # (n, g) atm
+    t_C: np.ndarray                   # (n,)
+    bound: Any = None
+    skipped: dict[str, list[str]] = field(default_factory=dict)  # solid → missing components
+    traced: np.ndarray | None = None  # (n, c) components carried at a trace (design.TRACE)
+    notes: list[str] = field(default_factory=list)
+
+    @property
+    def status(self) -> np.ndarray:
+        return self.equilibrium.status
+
+    def solid_matrix(self) -> np.ndarray:
+        """(m, c) stoichiometry of the solids in the gas basis."""
+        if not self.solids:
+            return np.zeros((0, self.basis.n_components))
+        return self.basis.new_direction(np.array([s.stoichiometry for s in self.solids]))
+
+
+def equilibrate(system: ChemicalSystem, tables: TableSet, totals: np.ndarray, bound,
+                t_C: np.ndarray, choice: PhaseChoice,
+                fixed_log10_activity: np.ndarray | None = None) -> PhaseEquilibrium:
+    """Solve a batch with the recipe's solids and gases; *totals* (n, c) in mol/kg.
+
+    Samples that fail keep their status (never a silent answer); a recipe whose phases
+    break the phase rule raises :class:`PhaseRuleError` before anything is solved.
+    """
+    totals = np.atleast_2d(np.asarray(totals, dtype=float))
+    n, c = totals.shape
+    t_C = np.broadcast_to(np.asarray(t_C, dtype=float), (n,)).copy()
+    fixed = (np.full((n, c), np.nan) if fixed_log10_activity is None
+             else np.array(np.broadcast_to(fixed_log10_activity, (n, c)), dtype=float))
+    gases = [phase_reaction(system, tables, g.name, "gas") for g in choice.gases]
+    basis = gas_basis(system, gases, ~np.isnan(fixed[0]))
+    for gas, col in zip(choice.gases, basis.pivots):
+        fixed[:, col] = gas.log10_pressure_atm
+    solids, modes, skipped = [], [], {}
+    for s in choice.solids:
+        reaction = phase_reaction(system, tables, s.name, "solid")
+        if reaction is not None:
+            solids.append(reaction)
+            modes.append(s)
+        else:
+            skipped[s.name] = sorted(set(tables.resolve(s.name, "solids").stoichiometry)
+                                     - set(system.components) - {WATER})
+    free = np.isnan(fixed[0])
+    check_phase_rule(basis, solids, modes, free)
+    work = _Work(basis, bound, t_C, fixed, totals, tuple(solids), tuple(modes), free)
+    state = work.run()
+    state.skipped = skipped
+    return state
+
+
+def check_phase_rule(basis: GasBasis, solids: Sequence[PhaseReaction],
+                     modes: Sequence[SolidChoice], free: np.ndarray) -> None:
+    """Raise :class:`PhaseRuleError` when the solids held present cannot all coexist.
+
+    Each ``"equilibrate"`` solid fixes one combination of the free components; they must
+    be linearly independent (so no more of them than free components), and none may be
+    fixed by the gases and pH alone.
+    """
+    held = [s for s, m in zip(solids, modes) if m.mode == EQUILIBRATE]
+    if not held:
+        return
+    rows = basis.new_direction(np.array([s.stoichiometry for s in held]))[:, free]
+    names = [s.name for s in held]
+    n_free = int(free.sum())
+    if len(held) > n_free:
+        raise PhaseRuleError(names, f"{len(held)} solids are held at equilibrium but the "
+                             f"solution has only {n_free} free component(s) "
+                             f"({', '.join(np.array(basis.components)[free])})")
+    for k, row in enumerate(rows):
+        if np.allclose(row, 0.0):
+            raise PhaseRuleError([names[k]], "its saturation is set by the fixed pH and gas "
+                                 "pressures alone, so it cannot be held at equilibrium too")
+    if np.linalg.matrix_rank(rows, tol=1e-9) < len(held):
+        raise PhaseRuleError(names, "their compositions are linearly dependent (for "
+                             "example two forms of one mineral), so they cannot all be at "
+                             "equilibrium at once")
+
+
+@dataclass
+class _Work:
+    """The Newton iteration on the solids' dissolved amounts for one batch."""
+
+    basis: GasBasis
+    bound: Any
+    t_C: np.ndarray
+    fixed: np.ndarray
+    totals: np.ndarray
+    solids: tuple[PhaseReaction, ...]
+    modes: tuple[SolidChoice, ...]
+    free: np.ndarray
+
+    def __post_init__(self) -> None:
+        n, m = self.totals.shape[0], len(self.solids)
+        self.new_totals = self.basis.new_totals(self.totals)
+        c = self.totals.shape[1]
+        self.p_old = np.array([s.stoichiometry for s in self.solids]).reshape(m, c)
+        self.p_new = self.basis.new_direction(self.p_old) if m else self.p_old
+        self.water = np.array([s.water for s in self.solids])
+        self.log10_k = (np.array([s.log10_k(self.t_C) for s in self.solids]).T if m
+                      else np.zeros((n, 0)))
+        mode = np.array([x.mode for x in self.modes], dtype=object)
+        self.precipitate_only = mode == PRECIPITATE_ONLY
+        self.ceiling = np.where(self.precipitate_only, 0.0, np.inf)[None, :].repeat(n, 0)
+        for k, x in enumerate(self.modes):
+            if x.mode == AMOUNT:
+                self.ceiling[:, k] = x.amount_mol_per_kg
+        # columns whose totals the solver needs positive
+        self.positive = self.free.copy()
+        self.positive[0] = False
+
+    # -- one batched inner solve -----------------------------------------------------------
+    def inner(self, xi: np.ndarray, rows: np.ndarray) -> tuple[Equilibrium, np.ndarray]:
+        """Solve samples *rows* with dissolved amounts *xi* (len(rows), m); SI (len, m)."""
+        new_totals = self.new_totals[rows] + xi @ self.p_new
+        # A fixed column has no mass balance; the solver reads its total only to bound
+        # the ionic strength, which a fixed pH or gas can raise beyond what the totals
+        # imply (CO2 in pure water has a zero carbonate total). Samples that still reach
+        # the bound are caught by _capped_ionic_strength.
+        fixed_columns = ~self.free
+        new_totals[:, fixed_columns] = np.maximum(np.abs(new_totals[:, fixed_columns]),
+                                                  FIXED_COLUMN_ALLOWANCE)
+        eq = solver.solve(self.basis, new_totals, bound_slice(self.bound, rows),
+                          self.fixed[rows])
+        return eq, self.saturation(eq, rows)
+
+    def saturation(self, eq: Equilibrium, rows: np.ndarray) -> np.ndarray:
+        if not self.solids:
+            return np.zeros((rows.size, 0))
+        old = self.basis.old_log_activity(eq.log_activity, eq.ln_water_activity, self.t_C[rows])
+        log_iap = (old @ self.p_old.T + eq.ln_water_activity[:, None] * self.water) / LN10
+        si = log_iap - self.log10_k[rows]
+        return np.where(eq.status[:, None] == "converged", si, np.nan)
+
+    # -- the whole iteration -----------------------------------------------------------------
+    def run(self) -> PhaseEquilibrium:
+        n, m = self.totals.shape[0], len(self.solids)
+        xi = np.zeros((n, m))
+        present = np.zeros((n, m), dtype=bool)
+        if m:
+            supply = ~self.precipitate_only[None, :]
+            absent = supply & ~(self.room(xi, np.arange(n)) > 0)
+            xi = np.where(absent, np.minimum(START_AMOUNT, self.ceiling), 0.0)
+            present = np.broadcast_to(supply, (n, m)).copy()
+        eq, si = self.inner(xi, np.arange(n))
+        failed = eq.status != "converged"
+        if m:
+            eq, si, present, failed = self.iterate(xi, present, eq, si, ~failed)
+        return self.finish(eq, xi, present, si, failed)
+
+    def room(self, xi: np.ndarray, rows: np.ndarray) -> np.ndarray:
+        """How far each solid alone can precipitate before a total reaches zero (n, m).
+
+        The distance is in mol/kg of that solid; infinite for a solid that uses no
+        component whose total must stay positive.
+        """
+        base = self.new_totals[rows] + xi @ self.p_new
+        out = np.full(xi.shape, np.inf)
+        for k in range(xi.shape[1]):
+            p = self.p_new[k]
+            uses = self.positive & (p > 1e-12)
+            if uses.any():
+                out[:, k] = np.min(base[:, uses] / p[uses], axis=1)
+        return out
+
+    def iterate(self, xi, present, eq, si, pending):
+        """Newton steps on the pending samples until their solids are settled."""
+        failed = ~pending.copy()
+        for _ in range(MAX_PHASE_ITERATIONS):
+            rows = np.flatnonzero(pending)
+            if not rows.size:
+                break
+            present[rows] = self.activate(xi[rows], present[rows], si[rows])
+            done = self.satisfied(si[rows], present[rows])
+            pending[rows[done]] = False
+            rows = rows[~done]
+            if not rows.size:
+                break
+            step = self.newton_step(eq, rows, si[rows], present[rows])
+            xi[rows], present[rows] = self.take_step(xi[rows], step, present[rows], rows)
+            sub_eq, sub_si = self.inner(xi[rows], rows)
+            eq = _merge(eq, sub_eq, rows)
+            si[rows] = sub_si
+            bad = sub_eq.status != "converged"
+            failed[rows[bad]] = True
+            pending[rows[bad]] = False
+        failed |= pending
+        return eq, si, present, failed
+
+    def activate(self, xi, present, si):
+        """Let absent solids that are supersaturated join, one independent solid at a time."""
+        can = ~present & (si > ACTIVATION_SI) & np.isfinite(si)
+        for k in np.flatnonzero(can.any(axis=1)):
+            for j in np.argsort(-np.nan_to_num(si[k], nan=-np.inf)):
+                if can[k, j] and self.independent(present[k] | (np.arange(len(si[k])) == j)):
+                    present[k, j] = True
+        return present
+
+    def independent(self, mask: np.ndarray) -> bool:
+        rows = self.p_new[mask][:, self.free]
+        return np.linalg.matrix_rank(rows, tol=1e-9) == int(mask.sum())
+
+    def satisfied(self, si, present):
+        """Present solids at SI = 0 and absent ones not supersaturated."""
+        ok_present = np.where(present, np.abs(si) <= SI_TOLERANCE, True)
+        ok_absent = np.where(present, True, ~(si > ACTIVATION_SI))
+        return np.all(ok_present & ok_absent, axis=1)
+
+    def newton_step(self, eq: Equilibrium, rows, si, present):
+        """Δξ solving (P R Pᵀ/ln 10) Δξ = −SI on the present solids; zero for the absent."""
+        sub = _take(eq, rows)
+        R = response(self.basis, sub, bound_slice(self.bound, rows), self.free)  # (r, f, f)
+        pf = self.p_new[:, self.free]                                           # (m, f)
+        H = np.einsum("if,rfg,jg->rij", pf, R, pf) / LN10
+        both = present[:, :, None] & present[:, None, :]
+        m = si.shape[1]
+        H = np.where(both, H, 0.0) + np.where(~present, 1.0, 0.0)[:, :, None] * np.eye(m)
+        rhs = np.where(present, -np.nan_to_num(si), 0.0)
+        return np.linalg.solve(H, rhs[..., None])[..., 0]
+
+    def take_step(self, xi, step, present, rows):
+        """Step in ln(distance to the precipitation limit); a solid reaching its bound leaves.
+
+        Newton on SI in the variable w = ln(ξ − ξ_limit) is Newton on ξ for small steps,
+        but can neither cross the limit nor creep towards the solubility from a trace
+        start (SI is close to linear in w there). A fraction-to-boundary rule guards the
+        joint step of solids that share a component.
+        """
+        room = self.room(xi, rows)
+        finite = np.isfinite(room) & (room > 0)
+        dw = np.clip(np.where(finite, step / np.where(finite, room, 1.0), 0.0),
+                     -LOG_STEP_CAP, LOG_STEP_CAP)
+        step = np.where(finite, room * np.expm1(dw), step)
+        base = self.new_totals[rows] + xi @ self.p_new
+        change = step @ self.p_new
+        shrinking = self.positive[None, :] & (change < 0)
+        ratio = np.where(shrinking, base / np.where(shrinking, -change, 1.0), np.inf)
+        limit = FRACTION_TO_BOUNDARY * np.min(ratio, axis=1, initial=np.inf)
+        alpha = np.minimum(1.0, limit)
+        new = xi + alpha[:, None] * step
+        ceiling = self.ceiling[rows]
+        over = present & (new >= ceiling)
+        new = np.where(over, ceiling, new)
+        return new, present & ~over
+
+    def finish(self, eq, xi, present, si, failed) -> PhaseEquilibrium:
+        n = xi.shape[0]
+        status = eq.status.astype(object)
+        status[failed & (status == "converged")] = "max-iterations"
+        capped = _capped_ionic_strength(eq, self.basis.charge) & (status == "converged")
+        status[capped] = "max-iterations"
+        notes = list(eq.notes)
+        if capped.any():
+            notes.append(f"{int(capped.sum())} sample(s) reached the solver's ceiling on "
+                         "ionic strength (a fixed pH or gas can hold more ions than the totals "
+                         "bound) and are reported as not converged rather than wrong")
+        old_y = self.basis.old_log_activity(eq.log_activity, eq.ln_water_activity, self.t_C)
+        with_solids = self.totals + xi @ self.p_old
+        new_with_solids = self.basis.new_totals(with_solids)
+        carried = eq.molality @ self.basis.nu
+        uptake = np.stack([carried[:, col] - new_with_solids[:, col]
+                           for col in self.basis.pivots], axis=1) if self.basis.pivots \
+            else np.zeros((n, 0))
+        in_solution = with_solids + (uptake @ np.array([g.stoichiometry for g in
+                                                       self.basis.gases])
+                                     if self.basis.gases else 0.0)
+        outer = Equilibrium(log_activity=old_y, molality=eq.molality, ln_gamma=eq.ln_gamma,
+                            ionic_strength=eq.ionic_strength,
+                            ln_water_activity=eq.ln_water_activity, residual=eq.residual,
+                            iterations=eq.iterations, status=status.astype(str),
+                            notes=notes)
+        inner = Equilibrium(**{**eq.__dict__, "status": status.astype(str)})
+        pressures = self.fixed[:, list(self.basis.pivots)]
+        return PhaseEquilibrium(outer, inner, self.basis, self.free, self.solids, self.modes,
+                                xi, present, si, uptake, in_solution, pressures, self.t_C,
+                                self.bound)
+
+
+def _capped_ionic_strength(eq: Equilibrium, charge: np.ndarray) -> np.ndarray:
+    """Samples whose ionic strength unknown disagrees with ½ Σ z² m of their molalities.
+
+    The solver bounds √I by a ceiling from the totals; fixed activities (a pH, a gas) can
+    need more, and a sample held at that ceiling must not pass as converged.
+    """
+    ionic = 0.5 * eq.molality @ charge ** 2
+    return np.abs(ionic - eq.ionic_strength) > 1e-6 * np.maximum(ionic, 1e-12)
+
+
+def _take(eq: Equilibrium, rows: np.ndarray) -> Equilibrium:
+    """The samples *rows* of a batch equilibrium."""
+    return Equilibrium(log_activity=eq.log_activity[rows], molality=eq.molality[rows],
+                       ln_gamma=eq.ln_gamma[rows], ionic_strength=eq.ionic_strength[rows],
+                       ln_water_activity=eq.ln_water_activity[rows],
+                       residual=eq.residual[rows], iterations=eq.iterations[rows],
+                       status=eq.status[rows], notes=eq.notes)
+
+
+def _merge(eq: Equilibrium, sub: Equilibrium, rows: np.ndarray) -> Equilibrium:
+    """*eq* with samples *rows* replaced by *sub* (iterations added up)."""
+    out = {}
+    for name in ("log_activity", "molality", "ln_gamma", "ionic_strength",
+                 "ln_water_activity", "residual", "status"):
+        arr = getattr(eq, name).copy()
+        if name == "status":
+            arr = arr.astype(object)
+        arr[rows] = getattr(sub, name)
+        out[name] = arr.astype(str) if name == "status" else arr
+    iterations = eq.iterations.copy()
+    iterations[rows] += sub.iterations
+    return Equilibrium(**out, iterations=iterations, notes=eq.notes)
+
+
+# -- what is reported ------------------------------------------------------------------------
+def describe(state: PhaseEquilibrium, k: int) -> dict[str, dict[str, Any]]:
+    """The JSON ``phases`` object of sample *k*: per solid and gas, what went where.
+
+    ``into_solution_mol_per_kg`` is positive for an amount dissolved or taken up and
+    negative for an amount precipitated or released, per kg of water.
+    """
+    out: dict[str, dict[str, Any]] = {}
+    for j, (solid, mode) in enumerate(zip(state.solids, state.modes)):
+        xi = float(state.dissolved[k, j])
+        entry: dict[str, Any] = {
+            "kind": "solid", "mode": mode.mode, "state": _solid_state(state, k, j),
+            "into_solution_mol_per_kg": xi, "into_solution_g_per_kg": xi * solid.molar_mass,
+            "saturation_index": float(state.saturation_index[k, j])}
+        if mode.mode == AMOUNT:
+            entry["available_mol_per_kg"] = mode.amount_mol_per_kg
+            entry["left_mol_per_kg"] = mode.amount_mol_per_kg - xi
+        out[solid.name] = entry
+    for name, missing in state.skipped.items():
+        out[name] = {"kind": "solid", "mode": PRECIPITATE_ONLY, "state": "cannot form",
+                     "into_solution_mol_per_kg": 0.0, "into_solution_g_per_kg": 0.0,
+                     "needs": missing}
+    for g, gas in enumerate(state.basis.gases):
+        out[gas.name] = {"kind": "gas",
+                         "partial_pressure_atm": float(10.0 ** state.gas_log10_pressure[k, g]),
+                         "into_solution_mol_per_kg": float(state.gas_uptake[k, g])}
+    return out
+
+
+def _solid_state(state: PhaseEquilibrium, k: int, j: int) -> str:
+    if state.present[k, j]:
+        return "saturated"
+    if state.modes[j].mode == AMOUNT:
+        return "all dissolved"
+    return "not formed"
+
+
+def phase_summary(result) -> dict[str, dict[str, Any]]:
+    """The ``phases`` entry of a result's JSON (empty for a recipe without phases)."""
+    return dict(getattr(result, "phases", {}) or {})
+
+
+def phase_lines(result) -> list[str]:
+    """Lines of the text report on solids and gases (none for a recipe without phases)."""
+    phases = phase_summary(result)
+    if not phases:
+        return []
+    lines = ["", "solids and gases (per kg of water; + into solution, − out of it)"]
+    for name, p in phases.items():
+        amount = f"{p['into_solution_mol_per_kg']:+11.4e} mol/kg"
+        if p["kind"] == "gas":
+            lines.append(f"  {name:<18}{p['partial_pressure_atm']:10.3e} atm {amount}  "
+                         f"{'taken up' if p['into_solution_mol_per_kg'] >= 0 else 'released'}")
+            continue
+        grams = f"({p['into_solution_g_per_kg']:+.4g} g/kg)"
+        detail = p["state"]
+        if "saturation_index" in p and p["state"] != "saturated":
+            detail += f", SI {p['saturation_index']:.2f}"
+        if "needs" in p:
+            detail += f" (needs {', '.join(p['needs'])})"
+        lines.append(f"  {name:<18}{p['mode']:<17}{amount} {grams:<16} {detail}")
+    return lines

@@ -1,0 +1,179 @@
+"""Compile a chemical system: components, species, stoichiometry and log K at T.
+
+Given a merged table set and the components a recipe contains, the system holds every
+species that can form from them, as arrays ready for the vectorised solver. Water (H2O)
+is a component whose activity is fixed by the activity model, so it has no mass balance.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import cached_property
+from typing import Iterable
+
+import numpy as np
+
+from ..chemistry import _temperature as temperature
+from ..activity._base import SpeciesProperties
+from ._sparse import SparseRows
+from ..chemistry._records import LogK
+from ..chemistry._tableset import Resolved, TableSet
+
+WATER = "H2O"
+PROTON = "H+"
+KELVIN = 273.15
+
+
+def log10_k_at(logk: LogK, t_C: np.ndarray) -> np.ndarray:
+    """log10 K of one reaction at temperatures *t_C* by the description it carries."""
+    t_C = np.asarray(t_C, dtype=float)
+    terms = temperature.basis(t_C.ravel() + KELVIN)
+    out = np.zeros(terms.shape[1])
+    for weight, term in zip(basis_coefficients(logk), terms):  # in order: same bits for any n
+        out += weight * term
+    return out.reshape(t_C.shape)
+
+
+def basis_coefficients(logk: LogK) -> np.ndarray:
+    """Weights (5,) of :func:`temperature.basis` that give this reaction's log10 K(T)."""
+    return temperature.basis_coefficients(logk.log10_k, logk.enthalpy_kJ,
+                                          logk.heat_capacity_J, logk.analytic)
+
+
+@dataclass(frozen=True)
+class ChemicalSystem:
+    """Components and species of one recipe's chemistry, as solver-ready arrays."""
+
+    tables: TableSet
+    components: tuple[str, ...]      # solver components, H+ first, no H2O
+    species: tuple[str, ...]         # components first, then formed species
+    nu: np.ndarray                   # (s, c) stoichiometry in solver components
+    nu_water: np.ndarray             # (s,) coefficient of H2O
+    charge: np.ndarray               # (s,)
+    properties: SpeciesProperties
+    resolved: tuple[Resolved, ...]   # one per species
+
+    @property
+    def n_components(self) -> int:
+        return len(self.components)
+
+    def log10_k(self, t_C: np.ndarray, samples_last: bool = False) -> np.ndarray:
+        """log10 K of formation of every species at *t_C* of shape (n,): (n, s), or
+        (s, n) with *samples_last* (the solver's layout). Summed term by term over the
+        temperature basis, so a sample's values do not depend on the batch."""
+        t_C = np.asarray(t_C, dtype=float)
+        if t_C.size == 1:  # single solves come back to the same temperature: kept, read-only
+            return self._remember((float(t_C.ravel()[0]), samples_last),
+                                  lambda: self._log10_k(t_C, samples_last, read_only=True))
+        return self._log10_k(t_C, samples_last)
+
+    def _log10_k(self, t_C: np.ndarray, samples_last: bool, read_only: bool = False):
+        out = self._log10_k_rows @ temperature.basis(t_C + KELVIN)
+        out = out if samples_last else out.T
+        if read_only:
+            out.setflags(write=False)
+        return out
+
+    def _remember(self, key: tuple, make):
+        """The value kept under *key*, made on first use (at most 64 kept per system)."""
+        memo = self._memo
+        found = memo.get(key)
+        if found is None:
+            if len(memo) >= 64:
+                memo.clear()
+            found = memo[key] = make()
+        return found
+
+    @cached_property
+    def _memo(self) -> dict:
+        """Results kept per temperature: log10 K of one temperature, notes of a span."""
+        return {}
+
+    @cached_property
+    def _log10_k_rows(self) -> SparseRows:
+        return SparseRows(self._log10_k_weights)
+
+    @cached_property
+    def _log10_k_weights(self) -> np.ndarray:
+        """(s, 5): each species' formation log10 K as weights of the temperature basis."""
+        out = np.zeros((len(self.species), 5))
+        for i, res in enumerate(self.resolved):
+            for _, mult, logk in res.terms:
+                out[i] += mult * basis_coefficients(logk)
+        return out
+
+    def temperature_notes(self, t_C: np.ndarray) -> list[str]:
+        """A warning for each constant used outside the temperature range it is known for."""
+        if t_C.size == 1:
+            lo = hi = float(t_C.reshape(-1)[0])
+        else:
+            lo, hi = float(np.min(t_C)), float(np.max(t_C))
+        return list(self._remember(("notes", lo, hi), lambda: tuple(self._notes(lo, hi))))
+
+    def _notes(self, lo: float, hi: float) -> list[str]:
+        notes: dict[str, None] = {}
+        for res in self.resolved:
+            for name, _, logk in res.terms:
+                if logk.range_C is not None and (lo < logk.range_C[0] or hi > logk.range_C[1]):
+                    notes[f"log K of {name!r} is known for {logk.range_C[0]:g}–"
+                          f"{logk.range_C[1]:g} °C; used at {_span(lo, hi)} °C"] = None
+                elif logk.range_C is None and logk.method.startswith("none") and (
+                        abs(lo - 25) > 5 or abs(hi - 25) > 5):
+                    notes[f"log K of {name!r} has no temperature dependence in its table; "
+                          f"the 25 °C value was used at {_span(lo, hi)} °C"] = None
+        return list(notes)
+
+    def index(self, species: str) -> int:
+        return self.species.index(species)
+
+
+def _span(lo: float, hi: float) -> str:
+    return f"{lo:g}" if lo == hi else f"{lo:g}–{hi:g}"
+
+
+def compile_system(tables: TableSet, present: Iterable[str]) -> ChemicalSystem:
+    """The system of every species that forms from the *present* components (plus H+, H2O).
+
+    Systems are immutable, so each is compiled once per table set and reused.
+    """
+    present = frozenset(present) - {WATER, PROTON}
+    known = tables.memo.setdefault("system", {})
+    if present not in known:
+        known[present] = _compile(tables, present)
+    return known[present]
+
+
+def _compile(tables: TableSet, present: frozenset[str]) -> ChemicalSystem:
+    components = (PROTON, *sorted(present, key=_component_order))
+    allowed = set(components) | {WATER}
+    resolved = [tables.resolve(c) for c in components]
+    for name in tables.species:
+        res = tables.resolve(name)
+        if set(res.stoichiometry) <= allowed and name not in components:
+            resolved.append(res)
+    col = {c: j for j, c in enumerate(components)}
+    nu = np.zeros((len(resolved), len(components)))
+    nu_water = np.zeros(len(resolved))
+    for i, res in enumerate(resolved):
+        for comp, coeff in res.stoichiometry.items():
+            if comp == WATER:
+                nu_water[i] = coeff
+            else:
+                nu[i, col[comp]] = coeff
+    entries = [tables.entry(r.name) for r in resolved]
+
+    def field(attr: str, default: float) -> np.ndarray:
+        values = [getattr(e, attr, None) for e in entries]
+        return np.array([default if v is None else v for v in values], dtype=float)
+
+    charge = np.array([e.charge for e in entries], dtype=float)
+    props = SpeciesProperties(
+        names=tuple(r.name for r in resolved), charge=charge,
+        ion_size=field("ion_size", np.nan), tj_a=field("tj_a", np.nan),
+        tj_b=field("tj_b", np.nan), setschenow=field("setschenow", 0.0))
+    return ChemicalSystem(tables, components, props.names, nu, nu_water, charge, props,
+                          tuple(resolved))
+
+
+def _component_order(name: str) -> str:
+    return name.casefold()

@@ -1,0 +1,455 @@
+"""Buffer designer: what to weigh and how much titrant gives a pH at the use temperature.
+
+A buffer is named by a reagent of the tables (``"HEPES"``, ``"Tris"``) or by its
+component family (``"phosphate"``, ``"acetate"``, ``"citrate"``). Its weighable forms are
+the named reagents that make the buffer component with protons and a counter-ion, and for
+carbon-free components the salts composed from the formula (NaH2PO4, Na2HPO4). Two ways
+to make it: weigh one form and titrate it with a stock to the pH at the use temperature,
+or weigh an acid form and its salt in the ratio that gives the pH (a conjugate pair).
+The card gives the grams, the titrant volume, the final ionic strength, the buffer
+capacity and the pH drift per °C at use, and the pH the meter should read at the bench
+temperature (the same solution at the bench temperature) so that it is right at use.
+
+References
+----------
+Good, N.E. et al. (1966) Biochemistry 5, 467–477 (the zwitterionic buffers).
+Goldberg, R.N., Kishore, N. & Lennen, R.M. (2002) J. Phys. Chem. Ref. Data 31, 231–370
+(buffer ionization constants and their temperature dependence, in the core table).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import dataclass, field, replace
+from typing import Any
+
+import numpy as np
+
+from ..chemistry._density import ingredient_solute
+from ._target import Workbench, find_dose, read_stock, split_name_and_quantity, stock_cautions
+from ..engine._solve import load_tables
+from ..errors import IonwrightError, RecipeError, UnknownNameError, UnreachableTargetError
+from ..chemistry._ingredients import Makeup, makeup
+from ..plugins._registry import Registry, default_registry
+from ..inputs._recipe import (DISSOLVE_DIMENSIONS, check_ph, check_temperature, entry_for,
+                              mix, read_recipe)
+from ..outputs._result import Result
+from ..core._sensitivity import buffer_capacity
+from ..core._system import PROTON, WATER, log10_k_at
+from ..inputs._units import expect, parse_quantity
+
+#: Buffer families named by their anion rather than by a reagent.
+FAMILIES = {"phosphate": "PO4-3", "acetate": "CH3COO-", "citrate": "Cit-3",
+            "carbonate": "CO3-2", "borate": "B(OH)4-", "phthalate": "Phthalate-2",
+            "sulfate": "SO4-2"}
+COUNTER_IONS = ("Na+", "K+", "Cl-")
+DRIFT_STEP_C = 0.5          # half-width of the temperature difference for the drift
+CONCENTRATION_DIMENSIONS = ("molarity", "molality")
+
+
+@dataclass(frozen=True)
+class BufferForm:
+    """A weighable form of a buffer: the ingredient and the protons it carries."""
+
+    name: str
+    makeup: Makeup
+    protons: float
+
+    @property
+    def molar_mass(self) -> float:
+        return self.makeup.molar_mass
+
+
+def buffer_component(name: str, tables) -> str:
+    """The component a buffer name stands for (``"HEPES"`` → ``"HEPES-"``)."""
+    if name.casefold() in FAMILIES:
+        return FAMILIES[name.casefold()]
+    if name in tables.components and name not in (PROTON, WATER):
+        return name
+    reagent = tables.reagent(name)
+    if reagent is not None:
+        made = makeup(reagent.name, tables)
+        buffering = [c for c in made.per_mole if c not in (PROTON, WATER, *COUNTER_IONS)
+                     and _protonated(c, tables)]
+        if len(buffering) == 1:
+            return buffering[0]
+    known = [*FAMILIES, *(r for r in tables.reagent_names() if _buffer_like(r, tables))]
+    raise UnknownNameError("buffer", name, known, "name a reagent of the tables (e.g. "
+                           "HEPES, Tris) or a family (phosphate, acetate, citrate)")
+
+
+def _buffer_like(reagent: str, tables) -> bool:
+    made = makeup(reagent, tables)
+    return any(_protonated(c, tables) for c in made.per_mole
+               if c not in (PROTON, WATER, *COUNTER_IONS))
+
+
+def _protonated(component: str, tables) -> dict[float, str]:
+    """{protons: species} of the species formed from *component* and H+ only."""
+    out = {}
+    for name in tables.species:
+        stoich = {k: v for k, v in tables.resolve(name).stoichiometry.items() if k != WATER}
+        if set(stoich) == {component, PROTON} and stoich[component] == 1:
+            out[stoich[PROTON]] = name
+    return out
+
+
+def buffer_forms(component: str, tables, cation: str = "Na+") -> list[BufferForm]:
+    """Weighable forms of *component*, fewest protons first.
+
+    Named reagents count when they make one mole of the component with protons, water
+    and at most one kind of counter-ion; for a carbon-free component the acid and its
+    *cation* salts are composed from the formula as well. Hydrates come after the
+    anhydrous form of the same proton count.
+    """
+    found: dict[tuple[float, str], BufferForm] = {}
+    for name in tables.reagent_names():
+        made = makeup(name, tables)
+        parts = {k: v for k, v in made.per_mole.items() if k not in (PROTON, WATER)}
+        if parts.get(component) != 1:
+            continue
+        others = set(parts) - {component}
+        if others and not (len(others) == 1 and others <= set(COUNTER_IONS)):
+            continue
+        if others and others != {cation} and others != {"Cl-"}:
+            continue
+        protons = made.per_mole.get(PROTON, 0.0)
+        found[(protons, name)] = BufferForm(name, made, protons)
+    entry = tables.components[component]
+    if "C" not in entry.elements and entry.charge < 0:
+        body = entry.formula.split("-")[0].split("+")[0]
+        metal = cation.rstrip("+")
+        for protons in range(-entry.charge + 1):
+            metals = -entry.charge - protons
+            text = ((f"{metal}{metals if metals > 1 else ''}" if metals else "")
+                    + (f"H{protons if protons > 1 else ''}" if protons else "") + body)
+            try:
+                made = makeup(text, tables)
+            except IonwrightError:  # a composed formula that does not split is no form
+                continue
+            if made.per_mole.get(component) == 1:
+                found.setdefault((float(protons), text), BufferForm(text, made, float(protons)))
+    forms = sorted(found.values(), key=lambda f: (f.protons, f.makeup.per_mole.get(WATER, 0.0),
+                                                  f.name))
+    return forms
+
+
+def mean_protons(component: str, tables, pH: float, t_C: float) -> float:
+    """Average protons bound per buffer molecule at *pH* and *t_C* (ideal solution)."""
+    species = _protonated(component, tables)
+    k = np.array([0.0, *species])
+    log10_k = np.array([0.0, *(float(_log10_k_total(tables, s, t_C)) for s in species.values())])
+    weight = log10_k - k * pH
+    w = np.exp((weight - weight.max()) * np.log(10.0))
+    return float((k * w).sum() / w.sum())
+
+
+def _log10_k_total(tables, species: str, t_C: float) -> float:
+    """log10 K of formation of *species* from components at *t_C*."""
+    res = tables.resolve(species)
+    return sum(m * float(log10_k_at(lk, np.array([t_C]))[0]) for _, m, lk in res.terms)
+
+
+@dataclass
+class Weighed:
+    """One thing to weigh out for the batch."""
+
+    name: str
+    formula: str
+    molar_mass: float
+    moles: float
+
+    @property
+    def grams(self) -> float:
+        return self.moles * self.molar_mass
+
+
+@dataclass
+class BufferCard:
+    """The recipe card of a designed buffer."""
+
+    buffer: str
+    component: str
+    target_pH: float
+    use_temperature_C: float
+    bench_temperature_C: float
+    volume_L: float
+    concentration: str
+    weigh: list[Weighed]
+    method: str                         # "titrate" or "conjugate pair"
+    result: Result                      # the buffer at use
+    ionic_strength: float
+    capacity_mmol_per_L_pH: float
+    drift_per_C: float
+    bench_pH: float
+    titrant: str | None = None
+    titrant_mL: float | None = None
+    cautions: list[str] = field(default_factory=list)
+
+    def to_dict(self) -> dict[str, Any]:
+        return {
+            "buffer": self.buffer, "component": self.component, "method": self.method,
+            "target_pH": self.target_pH, "pH": self.result.pH,
+            "use_temperature_C": self.use_temperature_C,
+            "bench_temperature_C": self.bench_temperature_C, "volume_L": self.volume_L,
+            "concentration": self.concentration,
+            "weigh": [{"name": w.name, "formula": w.formula, "molar_mass_g_per_mol": w.molar_mass,
+                       "mol": w.moles, "g": w.grams} for w in self.weigh],
+            "titrant": self.titrant, "titrant_mL": self.titrant_mL,
+            "ionic_strength": self.ionic_strength,
+            "buffer_capacity_mmol_per_L_per_pH": self.capacity_mmol_per_L_pH,
+            "pH_drift_per_C": self.drift_per_C, "bench_pH": self.bench_pH,
+            "cautions": self.cautions, "warnings": self.result.warnings}
+
+    def report(self) -> str:
+        head = (f"{self.buffer} buffer, {self.concentration}, pH {self.target_pH:.2f} at "
+                f"{self.use_temperature_C:g} °C, {_volume_text(self.volume_L)}")
+        lines = [head, "=" * len(head), "weigh out"]
+        for w in self.weigh:
+            lines.append(f"  {w.name:<30}{w.grams:10.4f} g   ({w.formula}, "
+                         f"{w.molar_mass:.2f} g/mol; {1000 * w.moles:.4g} mmol)")
+        bench = f"{self.bench_temperature_C:g} °C"
+        if self.method == "titrate":
+            lines.append(f"dissolve in about 80 % of the volume, then titrate with "
+                         f"{self.titrant}: about {self.titrant_mL:.3f} mL")
+            lines.append(f"  stop when the meter reads pH {self.bench_pH:.2f} at {bench}")
+        else:
+            lines.append("dissolve (a conjugate pair: no titration needed)")
+            lines.append(f"  the meter should read pH {self.bench_pH:.2f} at {bench}")
+        lines.append(f"make up to {_volume_text(self.volume_L)} with water and mix")
+        lines += ["", f"at use ({self.use_temperature_C:g} °C)",
+                  f"  pH                 {self.result.pH:8.3f}",
+                  f"  ionic strength     {self.ionic_strength:8.4f} mol/kg",
+                  f"  buffer capacity    {self.capacity_mmol_per_L_pH:8.2f} mmol/(L·pH)",
+                  f"  pH drift           {self.drift_per_C:+8.4f} per °C",
+                  f"  meter at {bench:<9} {self.bench_pH:8.3f} (same solution)"]
+        notes = [*self.cautions, *(w for w in self.result.warnings
+                                   if not w.startswith("CAUTION"))]
+        lines += ["", "cautions and notes"] + [f"  - {n}" for n in notes]
+        lines.append("  - the meter reading assumes a meter calibrated at the bench "
+                     "temperature; temperature compensation corrects the electrode, not "
+                     "the buffer")
+        return "\n".join(lines)
+
+
+def _volume_text(volume_L: float) -> str:
+    return f"{volume_L:g} L" if volume_L >= 1 else f"{1000 * volume_L:g} mL"
+
+
+def design_buffer(buffer: str, pH: float, concentration: str, *, temperature_C: float = 25.0,
+                  with_: Sequence[str] = (), volume: str = "1 L", titrant: str | None = None,
+                  bench_temperature_C: float | None = None, pair: bool = False,
+                  form: str | None = None, activity_model: str = "davies",
+                  tables: Sequence[str] = ("core",), registry: Registry | None = None
+                  ) -> BufferCard:
+    """Design *buffer* at *pH* and *temperature_C*; see the module docstring.
+
+    *titrant* (``"NaOH 10 mol/L"``) titrates one weighed form; *pair* weighs an acid form
+    and its salt instead. *form* names the form to weigh (default: the closest one on the
+    far side of the target from the titrant).
+    """
+    registry = registry or default_registry()
+    check_ph(pH, "buffer pH")
+    t_use = check_temperature(temperature_C, "--temperature")
+    t_bench = check_temperature(t_use if bench_temperature_C is None else bench_temperature_C,
+                                "--bench-temperature")
+    table_set = load_tables(tuple(tables), registry)
+    component = buffer_component(buffer, table_set)
+    amount = expect(parse_quantity(concentration, "--conc"), CONCENTRATION_DIMENSIONS, "--conc")
+    volume_q = expect(parse_quantity(volume, "--volume"), ("volume",), "--volume")
+    extras = [split_name_and_quantity(w, "--with") for w in with_]
+    base = {"temperature_C": t_use, "activity_model": activity_model, "tables": list(tables),
+            "volume": volume}
+    titrant_name = titrant_stock = None
+    cation = "Na+"
+    if titrant is not None:
+        titrant_name, titrant_stock = split_name_and_quantity(titrant, "--titrant")
+        made = makeup(titrant_name, table_set)
+        cation = next((c for c in ("K+", "Na+") if c in made.per_mole), "Na+")
+    forms = buffer_forms(component, table_set, cation)
+    if not forms:
+        raise RecipeError(f"buffer {buffer!r}", "the tables hold no weighable form of "
+                          f"{component}", "add a named reagent for it to a table")
+    n_bar = mean_protons(component, table_set, pH, t_use)
+    if pair and titrant is not None:
+        raise RecipeError(f"buffer {buffer!r}", "a conjugate pair needs no titrant",
+                          "give either --titrant or --pair")
+    if pair:
+        acid, salt = _pair(forms, n_bar, buffer, form)
+        return _pair_card(buffer, component, pH, amount.text, acid, salt, extras, base,
+                          t_use, t_bench, volume_q.value, registry)
+    if titrant is None:
+        raise RecipeError(f"buffer {buffer!r}", "needs a titrant or the conjugate-pair "
+                          "option", 'give --titrant "NaOH 1 mol/L" (or an acid) or --pair')
+    protons = made.per_mole.get(PROTON, 0.0)
+    if protons == 0:
+        raise RecipeError(f"--titrant {titrant!r}", "is neither an acid nor a base",
+                          'use e.g. "NaOH 1 mol/L" or "HCl 1 mol/L"')
+    weighed = _titration_form(forms, n_bar, protons, buffer, form)
+    dissolve = {weighed.name: amount.text, **dict(extras)}
+    batch = _Batch.of(base, [*dissolve, titrant_name], table_set, volume_q.value, registry)
+
+    def totals_of(doses: np.ndarray) -> np.ndarray:
+        return np.array([batch.totals({**dissolve, titrant_name: f"{float(d)!r} mol/L"})
+                         for d in doses])
+
+    ceiling = (max(forms[-1].protons, 1.0) + 1.0) * amount.value + 0.01
+    dose, _ = find_dose(batch.bench, totals_of, ceiling, pH, titrant_name, "mol per L")
+    stock = read_stock(titrant_name, titrant_stock, table_set, t_bench, "--titrant")
+    mL = 1000.0 * dose * volume_q.value / stock.moles_per_L
+    card = _card(batch, {**dissolve, titrant_name: f"{float(dose)!r} mol/L"}, buffer,
+                 component, pH, amount.text, t_bench, "titrate", list(dissolve))
+    card.titrant, card.titrant_mL = f"{titrant_name} {titrant_stock}", mL
+    card.cautions = stock_cautions(stock, batch.bench) + card.cautions
+    return card
+
+
+@dataclass
+class _Batch:
+    """A batch made up to volume: its ingredients mixed for the water, at any amounts."""
+
+    bench: Workbench
+    base: dict
+    volume_L: float
+    solutes: dict
+
+    @classmethod
+    def of(cls, base: dict, names: Sequence[str], tables, volume_L: float,
+           registry: Registry) -> _Batch:
+        plain = {k: v for k, v in base.items() if k != "volume"}
+        bench = Workbench.of({**plain, "dissolve": {n: 1e-3 for n in names}}, registry)
+        solutes = {}
+        for name in names:
+            made = makeup(name, tables)
+            solutes[name] = ingredient_solute(made.name, made.formula, made.per_mole, tables)
+        return cls(bench, base, volume_L, solutes)
+
+    def molalities(self, amounts: dict[str, str]) -> tuple[dict[str, float], float]:
+        """{ingredient: mol per kg of water} and the kg of water of the batch."""
+        entries = []
+        for name, text in amounts.items():
+            where = f"buffer ingredient {name!r}"
+            quantity = expect(parse_quantity(text, where), DISSOLVE_DIMENSIONS, where)
+            entries.append(entry_for(self.solutes[name], "ingredient", quantity, where, name))
+        made = mix(entries, self.base["temperature_C"], volume_L=self.volume_L,
+                   where="buffer batch")
+        water = made.solution.water_kg
+        return {n: m / water for n, m in zip(amounts, made.moles)}, water
+
+    def totals(self, amounts: dict[str, str]) -> np.ndarray:
+        molal, _ = self.molalities(amounts)
+        return sum((m * self.bench.direction(n) for n, m in molal.items()),
+                   np.zeros(self.bench.system.n_components))
+
+    def recipe(self, amounts: dict[str, str]):
+        return read_recipe({**self.base, "dissolve": amounts}, self.bench.registry)
+
+
+def _titration_form(forms: list[BufferForm], n_bar: float, titrant_protons: float,
+                    buffer: str, wanted: str | None) -> BufferForm:
+    if wanted is not None:
+        return _named_form(forms, wanted, buffer)
+    if titrant_protons < 0:       # a base raises the pH: start from a more acidic form
+        fitting = [f for f in forms if f.protons >= n_bar - 1e-9]
+        pick = min(fitting, key=lambda f: f.protons) if fitting else None
+    else:
+        fitting = [f for f in forms if f.protons <= n_bar + 1e-9]
+        pick = max(fitting, key=lambda f: f.protons) if fitting else None
+    if pick is None:
+        direction = "acidic" if titrant_protons < 0 else "basic"
+        raise RecipeError(f"buffer {buffer!r}", f"has no form {direction} enough to titrate "
+                          f"to this pH with that titrant (forms: "
+                          f"{', '.join(f.name for f in forms)})",
+                          "titrate the other way (an acid instead of a base) or use --pair")
+    same = [f for f in forms if f.protons == pick.protons]
+    return same[0]
+
+
+def _named_form(forms: list[BufferForm], wanted: str, buffer: str) -> BufferForm:
+    for f in forms:
+        if f.name.casefold() == wanted.casefold():
+            return f
+    raise UnknownNameError(f"form of {buffer}", wanted, [f.name for f in forms])
+
+
+def _pair(forms: list[BufferForm], n_bar: float, buffer: str, wanted: str | None
+          ) -> tuple[BufferForm, BufferForm]:
+    """The acid form and salt that bracket the target (most protons first)."""
+    if wanted is not None:
+        names = [w.strip() for w in wanted.split(",")]
+        if len(names) != 2:
+            raise RecipeError("--form", f"{wanted!r}: a pair needs two forms, acid first",
+                              'e.g. --form "NaH2PO4,Na2HPO4"')
+        acid, salt = (_named_form(forms, n, buffer) for n in names)
+        return acid, salt
+    acids = [f for f in forms if f.protons >= n_bar - 1e-9]
+    salts = [f for f in forms if f.protons <= n_bar + 1e-9]
+    if acids and salts:
+        acid = min(acids, key=lambda f: f.protons)
+        acid = next(f for f in forms if f.protons == acid.protons)
+        salt_k = max(f.protons for f in salts if f.protons < acid.protons) if any(
+            f.protons < acid.protons for f in salts) else None
+        if salt_k is not None:
+            salt = next(f for f in forms if f.protons == salt_k)
+            return acid, salt
+    raise RecipeError(f"buffer {buffer!r}", "has no acid form and salt in the tables that "
+                      f"bracket this pH (forms: {', '.join(f.name for f in forms)})",
+                      "titrate instead (give --titrant)")
+
+
+def _pair_card(buffer, component, pH, concentration, acid, salt, extras, base, t_use, t_bench,
+               volume_L, registry) -> BufferCard:
+    tables = load_tables(tuple(base["tables"]), registry)
+    batch = _Batch.of(base, [acid.name, salt.name, *dict(extras)], tables, volume_L, registry)
+
+    def amounts(share: float) -> dict[str, str]:
+        out = {}
+        if share < 1.0:
+            out[acid.name] = _scaled(concentration, 1.0 - share)
+        if share > 0.0:
+            out[salt.name] = _scaled(concentration, share)
+        return {**out, **dict(extras)}
+
+    def totals_of(shares: np.ndarray) -> np.ndarray:
+        return np.array([batch.totals(amounts(min(float(s), 1.0))) for s in shares])
+
+    try:
+        share, _ = find_dose(batch.bench, totals_of, 1.0, pH, f"{acid.name} + {salt.name}",
+                             f"share of {salt.name}")
+    except UnreachableTargetError as exc:
+        raise UnreachableTargetError(
+            f"{acid.name} and {salt.name}", "pH", pH, exc.reachable,
+            "(all acid form to all salt)", "titrate instead (give --titrant)") from None
+    final = amounts(share)
+    names = [n for n in (acid.name, salt.name) if n in final]
+    return _card(batch, final, buffer, component, pH, concentration, t_bench,
+                 "conjugate pair", [*names, *dict(extras)])
+
+
+def _scaled(concentration: str, share: float) -> str:
+    q = parse_quantity(concentration, "--conc")
+    unit = "mol/L" if q.dimension == "molarity" else "mol/kg"
+    return f"{float(q.value * share)!r} {unit}"
+
+
+def _card(batch: _Batch, amounts: dict[str, str], buffer, component, pH, concentration,
+          t_bench, method, weigh_names) -> BufferCard:
+    bench = batch.bench
+    t_use = batch.base["temperature_C"]
+    recipe = batch.recipe(amounts)
+    totals = batch.totals(amounts)
+    temps = np.array([t_use, t_use - DRIFT_STEP_C, t_use + DRIFT_STEP_C, t_bench])
+    state = bench.solve(np.repeat(totals[None, :], temps.size, axis=0), temps)
+    result = replace(bench, recipe=recipe).result(state, 0)
+    ph = bench.pH(state)
+    molal, water_kg = batch.molalities(amounts)
+    beta = float(buffer_capacity(state)[0]) * water_kg / batch.volume_L
+    weigh = []
+    for name in weigh_names:
+        made = makeup(name, bench.tables)
+        weigh.append(Weighed(made.name, made.formula, made.molar_mass, molal[name] * water_kg))
+    cautions = [w for w in result.warnings if w.startswith("CAUTION")]
+    return BufferCard(buffer, component, pH, t_use, t_bench, batch.volume_L, concentration,
+                      weigh, method, result, result.ionic_strength, 1000.0 * beta,
+                      float((ph[2] - ph[1]) / (2 * DRIFT_STEP_C)), float(ph[3]),
+                      cautions=cautions)

@@ -1,0 +1,292 @@
+"""Which activity model to trust: one recipe solved with every model, side by side.
+
+Also the model-level numbers a single result reports: water activity and osmotic
+coefficient where the model provides them, and the model's own validity warnings.
+
+A model is *valid* for a solution when its ionic strength is within the model's stated
+range (and, for a model with fitted parameters, within their fits); it is *complete*
+when every species carrying a noticeable share of the ionic strength has the model's
+parameters. The model to trust is the valid and complete one with the widest stated
+range; the comparison says so and why, or says that no model qualifies.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from dataclasses import dataclass, replace
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+
+from ..errors import ConvergenceError
+from ..inputs._recipe import Recipe, read_recipe
+from ..chemistry._water import WATER_MOLAR_MASS_G
+
+if TYPE_CHECKING:  # imported for annotations only: result imports this module
+    from ..plugins._registry import Registry
+    from ..outputs._result import Result
+
+SIGNIFICANT_SHARE = 0.01     # a species matters if it carries ≥ 1 % of the ionic strength
+KEY_COMPONENTS = 6           # free-ion activities shown, largest totals first
+# Parameters the built-in size-based models read per charged species: each group needs at
+# least one known value (the models fall back to a default and a note otherwise).
+SIZE_PARAMETERS = {
+    "extended-debye-huckel": (("ion_size", "tj_a"),),
+    "truesdell-jones": (("tj_a", "ion_size"), ("tj_b",)),
+}
+
+
+# ---------------------------------------------------------------------------------------
+# What a single result reports about its model
+# ---------------------------------------------------------------------------------------
+
+def water_activity(result: Result) -> float | None:
+    """a(H2O) of *result*, or None when its model takes a(H2O) = 1."""
+    if not getattr(result.model, "provides_water_activity", False):
+        return None
+    return float(np.exp(result.equilibrium.ln_water_activity[0]))
+
+
+def osmotic_coefficient(result: Result) -> float | None:
+    """φ = −ln a(H2O) / (M_w Σ m) of *result*, or None when its model has no a(H2O)."""
+    if not getattr(result.model, "provides_water_activity", False):
+        return None
+    total = float(np.sum(result.molality))
+    if total <= 0:
+        return 1.0
+    return float(-result.equilibrium.ln_water_activity[0] / (WATER_MOLAR_MASS_G / 1000 * total))
+
+
+def model_validity_notes(result: Result) -> list[str]:
+    """Warnings the model itself gives about the solved composition (e.g. Pitzer fits)."""
+    check = getattr(result.model, "validity_notes", None)
+    return list(check(result.system.properties, result.molality)) if check else []
+
+
+def missing_parameters(model: Any, result: Result) -> list[str]:
+    """Species (or pairs) that matter in *result* but lack *model*'s parameters."""
+    own = getattr(model, "missing_parameters", None)
+    if own is not None:
+        return list(own(result.system.properties, result.molality))
+    groups = SIZE_PARAMETERS.get(model.name, ())
+    props = result.system.properties
+    out = []
+    for i in _significant_ions(result):
+        if any(all(np.isnan(getattr(props, f)[i]) for f in group) for group in groups):
+            out.append(props.names[i])
+    return out
+
+
+def beyond_fitted_range(model: Any, result: Result) -> list[str]:
+    """Parameter sets the model uses past the range they were fitted to."""
+    own = getattr(model, "beyond_fitted_range", None)
+    return list(own(result.system.properties, result.molality)) if own else []
+
+
+def _significant_ions(result: Result) -> list[int]:
+    z2 = result.system.charge ** 2
+    share = 0.5 * result.molality * z2
+    strength = share.sum()
+    if strength <= 0:
+        return []
+    return [i for i in np.flatnonzero(z2 > 0) if share[i] >= SIGNIFICANT_SHARE * strength]
+
+
+# ---------------------------------------------------------------------------------------
+# Comparing models
+# ---------------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class ModelOutcome:
+    """One model's answer for the recipe and how far to believe it."""
+
+    name: str
+    title: str
+    max_ionic_strength: float
+    result: Result | None
+    error: str | None
+    valid: bool
+    complete: bool
+    missing: tuple[str, ...]
+    beyond: tuple[str, ...]
+
+    @property
+    def converged(self) -> bool:
+        return self.result is not None
+
+
+@dataclass(frozen=True)
+class Comparison:
+    """Every applicable model's answer for one recipe, and the one to trust."""
+
+    recipe: Recipe
+    outcomes: tuple[ModelOutcome, ...]
+    trusted: str | None
+    reason: str
+    key_species: tuple[str, ...]
+    solids: tuple[str, ...]
+
+    def outcome(self, name: str) -> ModelOutcome:
+        return next(o for o in self.outcomes if o.name == name)
+
+    def to_dict(self) -> dict[str, Any]:
+        """A JSON-ready summary: one entry per model plus the verdict."""
+        return {
+            "recipe": self.recipe.origin,
+            "temperature_C": self.recipe.temperature_C,
+            "recipe_model": self.recipe.activity_model,
+            "trusted": self.trusted,
+            "reason": self.reason,
+            "models": [_outcome_dict(o, self.key_species) for o in self.outcomes],
+        }
+
+    def report(self) -> str:
+        """The side-by-side table printed by ``ionwright solve --compare-models``."""
+        return _report(self)
+
+
+def compare_models(recipe: str | Path | Mapping[str, Any] | Recipe,
+                   registry: Registry | None = None,
+                   models: tuple[str, ...] | None = None) -> Comparison:
+    """Solve *recipe* with every registered activity model (or those named in *models*).
+
+    A model that does not converge is kept in the comparison with its error; invalid
+    input still raises. The recipe's own ``activity_model`` is only marked, not favoured.
+    """
+    from ..engine._solve import solve
+    from ..plugins._registry import default_registry
+
+    recipe = read_recipe(recipe)
+    registry = registry or default_registry()
+    names = models or tuple(registry.models)
+    outcomes = []
+    for name in names:
+        model = registry.model(name)
+        try:
+            result = solve(replace(recipe, activity_model=name), registry)
+        except ConvergenceError as exc:
+            outcomes.append(ModelOutcome(name, model.title, model.max_ionic_strength, None,
+                                         exc.message, False, False, (), ()))
+            continue
+        missing = tuple(missing_parameters(model, result))
+        beyond = tuple(beyond_fitted_range(model, result))
+        valid = result.ionic_strength <= model.max_ionic_strength and not beyond
+        outcomes.append(ModelOutcome(name, model.title, model.max_ionic_strength, result,
+                                     None, valid, not missing, missing, beyond))
+    trusted, reason = choose_trusted(outcomes)
+    solved = [o.result for o in outcomes if o.result is not None]
+    return Comparison(recipe, tuple(outcomes), trusted, reason, _key_species(solved),
+                      tuple(sorted({s for r in solved for s in r.saturation_indices})))
+
+
+def choose_trusted(outcomes: list[ModelOutcome]) -> tuple[str | None, str]:
+    """The model to trust and why: valid and complete with the widest stated range.
+
+    Failing that, the valid model with the fewest missing parameters; failing that,
+    none (every converged model is outside its range), and the reason says so.
+    """
+    solved = [o for o in outcomes if o.converged]
+    if not solved:
+        return None, "no model converged for this recipe"
+    strength = solved[0].result.ionic_strength
+    best = [o for o in solved if o.valid and o.complete]
+    if best:
+        pick = max(best, key=lambda o: o.max_ionic_strength)
+        return pick.name, (f"the model with the widest range that is valid at I = "
+                           f"{strength:.3g} mol/kg and has parameters for every species "
+                           f"that matters")
+    valid = [o for o in solved if o.valid]
+    if valid:
+        pick = min(valid, key=lambda o: (len(o.missing), -o.max_ionic_strength))
+        return pick.name, (f"no valid model has parameters for every species that "
+                           f"matters; {pick.name} lacks the fewest "
+                           f"({', '.join(pick.missing)}); treat the result as an estimate")
+    widest = max(solved, key=lambda o: o.max_ionic_strength)
+    return None, (f"no model is valid at I = {strength:.3g} mol/kg; {widest.name} has the "
+                  f"widest range (to about {widest.max_ionic_strength:g}) but is "
+                  f"extrapolated here")
+
+
+def _key_species(results: list[Result]) -> tuple[str, ...]:
+    """Free components with the largest totals (H+ is shown as pH)."""
+    if not results:
+        return ()
+    totals = results[0].totals
+    ranked = sorted((c for c in results[0].system.components if c != "H+"),
+                    key=lambda c: -abs(totals.get(c, 0.0)))
+    return tuple(ranked[:KEY_COMPONENTS])
+
+
+def _outcome_dict(o: ModelOutcome, key_species: tuple[str, ...]) -> dict[str, Any]:
+    r = o.result
+    entry: dict[str, Any] = {
+        "name": o.name, "converged": o.converged, "error": o.error,
+        "max_ionic_strength": o.max_ionic_strength, "valid": o.valid,
+        "parameters_complete": o.complete, "missing_parameters": list(o.missing),
+        "beyond_fitted_range": list(o.beyond),
+    }
+    if r is not None:
+        entry.update({
+            "pH": r.pH, "ionic_strength": r.ionic_strength,
+            "log10_activity": {s: float(np.log10(r.species_activity(s))) for s in key_species},
+            "water_activity": water_activity(r),
+            "osmotic_coefficient": osmotic_coefficient(r),
+            "saturation_indices": r.saturation_indices,
+            "warnings": r.warnings,
+        })
+    return entry
+
+
+def _report(c: Comparison) -> str:
+    widths = [max(9, len(o.name) + 3) for o in c.outcomes]
+    label = 24
+
+    def row(name: str, cells: list[str]) -> str:
+        return f"{name:<{label}}" + "".join(f"{cell:>{w}}" for cell, w in zip(cells, widths))
+
+    def numbers(get, fmt: str) -> list[str]:
+        out = []
+        for o in c.outcomes:
+            value = get(o.result) if o.result is not None else None
+            out.append("—" if value is None else format(value, fmt))
+        return out
+
+    head = [o.name + ("*" if o.name == c.recipe.activity_model else "") for o in c.outcomes]
+    title = c.recipe.title or c.recipe.origin
+    lines = [(f"model comparison: {title}, {c.recipe.temperature_C:g} °C "
+              f"(* = the recipe's model)"), "", row("", head),
+             row("converged", ["yes" if o.converged else "no" for o in c.outcomes]),
+             row("valid at this I", ["yes" if o.valid else "no" for o in c.outcomes]),
+             row("parameters complete", ["yes" if o.complete else "no" for o in c.outcomes]),
+             row("valid up to I ≈", [f"{o.max_ionic_strength:g}" for o in c.outcomes]),
+             "",
+             row("pH", numbers(lambda r: r.pH, ".3f")),
+             row("ionic strength", numbers(lambda r: r.ionic_strength, ".4g"))]
+    for s in c.key_species:
+        lines.append(row(f"log a({s})", numbers(lambda r, s=s: np.log10(r.species_activity(s)),
+                                                ".3f")))
+    lines.append(row("a(H2O)", numbers(water_activity, ".4f")))
+    lines.append(row("osmotic coefficient", numbers(osmotic_coefficient, ".4f")))
+    if c.solids:
+        lines += ["", "saturation index"]
+        for solid in c.solids:
+            lines.append(row(f"  {solid}", numbers(
+                lambda r, s=solid: r.saturation_indices.get(s), ".2f")))
+    lines += ["", f"trust: {c.trusted or 'none of them'} — {c.reason}"]
+    details = []
+    for o in c.outcomes:
+        if o.error:
+            details.append(f"{o.name}: did not converge ({o.error})")
+        if o.missing:
+            details.append(f"{o.name}: no parameters for {', '.join(o.missing)}")
+        if o.beyond:
+            details.append(f"{o.name}: past the fitted range of {'; '.join(o.beyond)}")
+    if details:
+        lines += ["", "why some models are not trusted"] + [f"  - {d}" for d in details]
+    shown = [c.outcome(c.trusted)] if c.trusted else list(c.outcomes)
+    cautions = list(dict.fromkeys(w for o in shown if o.result is not None
+                                  for w in o.result.warnings if w.startswith("CAUTION")))
+    if cautions:
+        lines += [""] + cautions
+    return "\n".join(lines)

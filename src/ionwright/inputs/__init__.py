@@ -1,0 +1,4 @@
+"""What users give: recipes (files and mappings), quantities and units, water analyses.
+
+Internal: the public entry points are in :mod:`ionwright`.
+"""

@@ -1,0 +1,145 @@
+"""Figures of sweeps: titration curve, species distribution, saturation index, buffer capacity.
+
+Each function takes a :class:`ionwright.sweep.Sweep` and returns a matplotlib
+``Figure`` built without pyplot (so no global backend is touched: the figure renders
+with Agg when saved). :func:`save` writes PNG or SVG by the file's suffix.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+import numpy as np
+
+if TYPE_CHECKING:  # pragma: no cover
+    from matplotlib.figure import Figure
+
+    from ..design._sweep import Sweep
+
+#: Our palette: deep teal, brick, saffron, sage, plum, slate, sky, rose.
+PALETTE = ("#1d5c7a", "#c2533a", "#e0a030", "#5f8f6a", "#6e4a7e", "#38404f", "#7fb3c8",
+           "#b4436c")
+INK = "#222831"
+GRID = "#d9dde3"
+SIZE = (7.0, 4.4)
+SHOWN_FRACTION = 0.01   # species below this share everywhere are left out of the legend
+LOG_RANGE = 30.0        # β spanning more than this factor is drawn on a log axis
+RELEVANT_SI = -4.0      # solids never above this SI are left out unless asked for
+SUFFIXES = (".png", ".svg")
+
+
+def _figure() -> tuple[Figure, object]:
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=SIZE, layout="constrained")
+    ax = fig.add_subplot()
+    ax.grid(True, color=GRID, linewidth=0.8)
+    ax.set_axisbelow(True)
+    for side in ("top", "right"):
+        ax.spines[side].set_visible(False)
+    ax.tick_params(colors=INK, labelsize=10)
+    return fig, ax
+
+
+def _title(ax, sweep: Sweep, what: str) -> None:
+    recipe = sweep.bench.recipe
+    name = recipe.title or Path(recipe.origin).stem
+    ax.set_title(f"{what}: {name} ({sweep.bench.model.name}, "
+                 f"{_temperature_text(sweep)})", fontsize=11, color=INK, loc="left")
+
+
+def _temperature_text(sweep: Sweep) -> str:
+    t = sweep.state.t_C
+    if t.size and np.ptp(t) > 0:
+        return f"{t.min():g}–{t.max():g} °C"
+    return f"{t[0]:g} °C" if t.size else ""
+
+
+def titration_curve(sweep: Sweep) -> Figure:
+    """pH against titrant volume, with each equivalence point marked and labelled."""
+    fig, ax = _figure()
+    ax.plot(sweep.values, sweep.pH, color=PALETTE[0], linewidth=2.0, label="pH")
+    for k, ep in enumerate(sweep.equivalence, 1):
+        ax.axvline(ep["titrant_mL"], color=PALETTE[1], linestyle=(0, (4, 3)), linewidth=1.0)
+        ax.plot([ep["titrant_mL"]], [ep["pH"]], "o", color=PALETTE[1], markersize=7,
+                zorder=5)
+        ax.annotate(f"equivalence {k}\n{ep['titrant_mL']:.2f} mL, pH {ep['pH']:.2f}",
+                    (ep["titrant_mL"], ep["pH"]), xytext=(8, -28), textcoords="offset points",
+                    fontsize=9, color=PALETTE[1])
+    ax.set_xlabel("titrant added (mL)", color=INK, fontsize=11)
+    ax.set_ylabel("pH", color=INK, fontsize=11)
+    _title(ax, sweep, "titration")
+    return fig
+
+
+def species_distribution(sweep: Sweep, component: str) -> Figure:
+    """Share of *component* in each of its species against pH (best from a pH series)."""
+    fig, ax = _figure()
+    shares = sweep.fraction(component)
+    order = sorted(shares, key=lambda s: float(np.argmax(shares[s])))
+    shown = [s for s in order if np.nanmax(shares[s]) >= SHOWN_FRACTION]
+    x = sweep.pH
+    for k, name in enumerate(shown):
+        ax.plot(x, 100.0 * shares[name], color=PALETTE[k % len(PALETTE)], linewidth=2.0,
+                label=name)
+    ax.set_ylim(-2, 102)
+    ax.set_xlabel("pH", color=INK, fontsize=11)
+    ax.set_ylabel(f"share of dissolved {component} (%)", color=INK, fontsize=11)
+    ax.legend(frameon=False, fontsize=9, loc="center left", bbox_to_anchor=(1.0, 0.5))
+    _title(ax, sweep, f"{component} species")
+    return fig
+
+
+def saturation_vs_temperature(sweep: Sweep, solids: tuple[str, ...] = ()) -> Figure:
+    """Saturation index of the solids against temperature, with SI = 0 drawn.
+
+    By default the solids that come within :data:`RELEVANT_SI` of saturation are drawn.
+    """
+    fig, ax = _figure()
+    names = solids or tuple(n for n, si in sweep.saturation.items()
+                            if np.nanmax(si) >= RELEVANT_SI) or tuple(sweep.saturation)
+    x = sweep.state.t_C
+    for k, name in enumerate(names):
+        ax.plot(x, sweep.saturation[name], color=PALETTE[k % len(PALETTE)], linewidth=2.0,
+                label=name)
+    ax.axhline(0.0, color=INK, linewidth=1.0)
+    ax.text(x[0], 0.05, "supersaturated above, undersaturated below", fontsize=8,
+            color=INK, va="bottom")
+    ax.set_xlabel("temperature (°C)", color=INK, fontsize=11)
+    ax.set_ylabel("saturation index log(IAP/K)", color=INK, fontsize=11)
+    if names:
+        ax.legend(frameon=False, fontsize=9, loc="center left", bbox_to_anchor=(1.0, 0.5))
+    _title(ax, sweep, "saturation")
+    return fig
+
+
+def buffer_capacity_curve(sweep: Sweep) -> Figure:
+    """Buffer capacity β against pH, in mmol per kg of water per pH unit."""
+    fig, ax = _figure()
+    order = np.argsort(sweep.pH)
+    beta = 1000.0 * sweep.beta[order]
+    ax.plot(sweep.pH[order], beta, color=PALETTE[3], linewidth=2.0)
+    ax.set_xlabel("pH", color=INK, fontsize=11)
+    label = "buffer capacity β (mmol kg⁻¹ per pH)"
+    positive = beta[np.isfinite(beta) & (beta > 0)]
+    if positive.size and positive.max() > LOG_RANGE * positive.min():
+        ax.set_yscale("log")
+        label += ", log scale"
+    else:
+        ax.set_ylim(bottom=0)
+    ax.set_ylabel(label, color=INK, fontsize=11)
+    _title(ax, sweep, "buffer capacity")
+    return fig
+
+
+def save(fig: Figure, path: str | Path) -> Path:
+    """Write *fig* as PNG or SVG (by the suffix of *path*)."""
+    from ..errors import RecipeError
+
+    path = Path(path)
+    if path.suffix.lower() not in SUFFIXES:
+        raise RecipeError(f"--plot {str(path)!r}", "must end in .png or .svg",
+                          "e.g. --plot titration.png")
+    fig.savefig(path, dpi=150)
+    return path

@@ -1,0 +1,53 @@
+"""Plain-text report of a result: what a chemist reads first, then the detail."""
+
+from __future__ import annotations
+
+from ._derived import report_lines as derived_lines
+from ..core._phases import phase_lines
+from ._provenance import constants_section
+
+SPECIES_SHOWN = 25
+MIN_SHOWN_MOLALITY = 1e-12
+
+
+def text_report(result) -> str:
+    """The report printed by ``ionwright solve`` without ``--json``."""
+    r = result
+    lines = []
+    if r.recipe.title:
+        lines += [r.recipe.title, "=" * len(r.recipe.title)]
+    lines += [
+        f"pH                 {r.pH:8.3f}",
+        f"ionic strength     {r.ionic_strength:10.4g} mol/kg",
+        f"temperature        {r.temperature_C:8.1f} °C",
+        f"activity model     {r.model.name} ({r.model.title})",
+        f"tables             {', '.join(t.name for t in r.tables.tables)}",
+        "",
+        f"{'species':<16}{'molality':>12}{'activity':>12}{'log γ':>9}",
+        f"{'':<16}{'mol/kg':>12}{'':>12}{'':>9}",
+    ]
+    rows = [row for row in r.species_rows() if row["molality"] >= MIN_SHOWN_MOLALITY]
+    for row in rows[:SPECIES_SHOWN]:
+        lines.append(f"{row['name']:<16}{row['molality']:12.4e}{row['activity']:12.4e}"
+                     f"{row['log_gamma']:9.3f}")
+    hidden = len(r.species_rows()) - min(len(rows), SPECIES_SHOWN)
+    if hidden:
+        lines.append(f"(+{hidden} species below {MIN_SHOWN_MOLALITY:g} mol/kg or past the "
+                     f"first {SPECIES_SHOWN}; --json lists all)")
+    dist = r.distribution()
+    if dist:
+        lines += ["", "where each component is (share of its total)"]
+        for comp, shares in dist.items():
+            parts = [f"{name} {100 * f:.1f} %" for name, f in shares.items() if f >= 0.001]
+            lines.append(f"  {comp:<12} " + ", ".join(parts))
+    if r.saturation_indices:
+        lines += ["", "saturation index (log IAP/Ksp; > 0 supersaturated)"]
+        for name, si in r.saturation_indices.items():
+            lines.append(f"  {name:<20}{si:8.2f}")
+    lines += phase_lines(r)
+    lines += derived_lines(r)
+    lines += constants_section(r)
+    if r.warnings:
+        lines += ["", "warnings"]
+        lines += [f"  - {w}" for w in r.warnings]
+    return "\n".join(lines)

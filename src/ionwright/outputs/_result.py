@@ -1,0 +1,181 @@
+"""The result of one speciation: numbers, warnings, and the fixed-schema JSON object."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from functools import cached_property
+from typing import Any
+
+import numpy as np
+
+from ._cautions import cautions
+from ._derived import derived_quantities, solution_summary
+from ..design._compare import model_validity_notes, osmotic_coefficient, water_activity
+from ..chemistry._ingredients import Makeup
+from ..core._phases import phase_summary
+from ._provenance import constants_used, override_warnings
+from ..inputs._recipe import Recipe
+from ..core._solver import Equilibrium
+from ..core._system import PROTON, WATER, ChemicalSystem, log10_k_at
+from ..chemistry._tableset import TableSet
+
+LN10 = np.log(10.0)
+IMBALANCE_WARNING = 1e-6  # relative charge imbalance worth a warning with a fixed pH
+
+
+@dataclass
+class Result:
+    """Speciation of one recipe; ``to_dict()`` is the JSON contract, ``report()`` the text."""
+
+    recipe: Recipe
+    tables: TableSet
+    system: ChemicalSystem
+    model: Any
+    equilibrium: Equilibrium
+    totals: dict[str, float]
+    makeups: list[Makeup]
+    notes: list[str] = field(default_factory=list)
+    phases: dict[str, Any] = field(default_factory=dict)  # solids and gases: phases.py
+
+    # -- numbers ----------------------------------------------------------------------
+    @property
+    def converged(self) -> bool:
+        return bool(self.equilibrium.success[0])
+
+    @property
+    def temperature_C(self) -> float:
+        return self.recipe.temperature_C
+
+    @property
+    def molality(self) -> np.ndarray:
+        return self.equilibrium.molality[0]
+
+    @property
+    def log10_gamma(self) -> np.ndarray:
+        return self.equilibrium.ln_gamma[0] / LN10
+
+    @property
+    def activity(self) -> np.ndarray:
+        return self.molality * 10.0 ** self.log10_gamma
+
+    @property
+    def pH(self) -> float:
+        return float(-self.equilibrium.log_activity[0, 0] / LN10)
+
+    @property
+    def ionic_strength(self) -> float:
+        return float(self.equilibrium.ionic_strength[0])
+
+    @property
+    def log10_water_activity(self) -> float:
+        return float(self.equilibrium.ln_water_activity[0] / LN10)
+
+    def species_molality(self, name: str) -> float:
+        return float(self.molality[self.system.index(name)])
+
+    def parent_total(self, name: str) -> float:
+        """Total mol/kg of the components (but H+ and H2O) that species *name* is made of."""
+        parents = [c for c in self.tables.resolve(name).stoichiometry if c not in (PROTON, WATER)]
+        return float(sum(self.totals.get(c, 0.0) for c in parents))
+
+    def species_activity(self, name: str) -> float:
+        return float(self.activity[self.system.index(name)])
+
+    @property
+    def charge_balance(self) -> tuple[float, float]:
+        """(Σ z m, Σ |z| m) in mol/kg: the imbalance and its natural scale."""
+        z = self.system.charge
+        return float(z @ self.molality), float(np.abs(z) @ self.molality)
+
+    @cached_property
+    def saturation_indices(self) -> dict[str, float]:
+        """SI = log10(IAP/Ksp) for every solid whose components are all present."""
+        allowed = set(self.system.components) | {WATER}
+        log_a = dict(zip(self.system.components, self.equilibrium.log_activity[0] / LN10))
+        log_a[WATER] = self.log10_water_activity
+        out = {}
+        t = np.array([self.temperature_C])
+        for name in sorted(self.tables.solids):
+            res = self.tables.resolve(name, "solids")
+            if not set(res.stoichiometry) <= allowed:
+                continue
+            log_iap = sum(nu * log_a[c] for c, nu in res.stoichiometry.items())
+            log10_k = sum(m * float(log10_k_at(lk, t)[0]) for _, m, lk in res.terms)
+            out[name] = float(log_iap - log10_k)
+        return out
+
+    def distribution(self) -> dict[str, dict[str, float]]:
+        """For each component but H+: fraction of its total in each species (≥ 1e-6)."""
+        out = {}
+        nu = self.system.nu
+        for j, comp in enumerate(self.system.components):
+            if comp == PROTON or self.totals.get(comp, 0.0) <= 0:
+                continue
+            carried = nu[:, j] * self.molality
+            total = carried.sum()
+            shares = {self.system.species[i]: float(carried[i] / total)
+                      for i in np.flatnonzero(nu[:, j] > 0) if carried[i] / total >= 1e-6}
+            out[comp] = dict(sorted(shares.items(), key=lambda kv: -kv[1]))
+        return out
+
+    @cached_property
+    def warnings(self) -> list[str]:
+        out = list(self.notes)
+        limit = self.model.max_ionic_strength
+        if self.ionic_strength > limit:
+            out.append(f"ionic strength {self.ionic_strength:.3g} mol/kg is beyond the range "
+                       f"of the {self.model.name} model (up to about {limit:g}); results are "
+                       f"less certain; compare models or use one valid at this strength")
+        out.extend(model_validity_notes(self))
+        if "pH" in self.recipe.fix:
+            imbalance, scale = self.charge_balance
+            if scale > 0 and abs(imbalance) / scale > IMBALANCE_WARNING:
+                out.append(f"with pH fixed at {self.recipe.fix['pH']:g} the solution is not "
+                           f"electroneutral: Σz·m = {imbalance:+.3g} mol/kg "
+                           f"({100 * imbalance / scale:+.2g} % of Σ|z|·m); an unlisted "
+                           f"ion or acid/base would make up the difference")
+        out.extend(override_warnings(self))
+        out.extend(cautions(self))
+        return out
+
+    # -- outputs ----------------------------------------------------------------------
+    def species_rows(self) -> list[dict[str, Any]]:
+        """One row per species, sorted by molality (largest first)."""
+        order = np.argsort(-self.molality, kind="stable")
+        return [{"name": self.system.species[i], "charge": int(self.system.charge[i]),
+                 "molality": float(self.molality[i]), "activity": float(self.activity[i]),
+                 "log_gamma": float(self.log10_gamma[i])} for i in order]
+
+    def to_dict(self) -> dict[str, Any]:
+        """The JSON object of the command-line contract (see DESIGN.md)."""
+        return {
+            "converged": self.converged,
+            "temperature_C": self.temperature_C,
+            "activity_model": self.model.name,
+            "pH": self.pH,
+            "ionic_strength": self.ionic_strength,
+            "osmotic_coefficient": osmotic_coefficient(self),
+            "water_activity": water_activity(self),
+            "species": self.species_rows(),
+            "totals": {c: float(self.totals.get(c, 0.0)) for c in self.system.components},
+            "saturation_indices": self.saturation_indices,
+            "distribution": self.distribution(),
+            "iterations": int(self.equilibrium.iterations[0]),
+            "residual": float(self.equilibrium.residual[0]),
+            "constants_used": constants_used(self),
+            "derived": derived_quantities(self),
+            "solution": solution_summary(self),
+            "phases": phase_summary(self),
+            "warnings": self.warnings,
+        }
+
+    def to_frame(self):
+        """Species as a pandas DataFrame indexed by name (pandas imported only here)."""
+        import pandas as pd
+
+        return pd.DataFrame(self.species_rows()).set_index("name")
+
+    def report(self) -> str:
+        from ._report import text_report
+
+        return text_report(self)

@@ -1,8 +1,0 @@
-"""Constant tables: frozen records, the TOML loader, and merged table sets."""
-
-from .loader import load_table, parse_table
-from .records import Component, ConstantTable, LogK, Phase, Reagent, Species
-from .tableset import Override, Resolved, TableSet
-
-__all__ = ["load_table", "parse_table", "Component", "ConstantTable", "LogK", "Phase",
-           "Reagent", "Species", "Override", "Resolved", "TableSet"]
