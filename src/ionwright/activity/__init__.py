@@ -1,6 +1,6 @@
-"""Activity models: one module per model behind the interface in :mod:`.base`."""
+"""Activity models: one module per model behind the interface in :mod:`._base`."""
 
-from ._base import ActivityModel, BoundModel, SpeciesProperties
+from ._base import ActivityModel, BoundModel, IonicStrengthModel, SpeciesProperties
 from ._davies import DaviesModel
 from ._debye_huckel import ExtendedDebyeHuckelModel, TruesdellJonesModel
 from ._ideal import IdealModel
@@ -9,6 +9,6 @@ from ._pitzer import PitzerModel
 BUILTIN_MODELS = (IdealModel, DaviesModel, ExtendedDebyeHuckelModel, TruesdellJonesModel,
                   PitzerModel)
 
-__all__ = ["ActivityModel", "BoundModel", "SpeciesProperties", "BUILTIN_MODELS",
-           "IdealModel", "DaviesModel", "ExtendedDebyeHuckelModel", "TruesdellJonesModel",
+__all__ = ["ActivityModel", "BoundModel", "IonicStrengthModel", "SpeciesProperties",
+           "BUILTIN_MODELS", "IdealModel", "DaviesModel", "ExtendedDebyeHuckelModel", "TruesdellJonesModel",
            "PitzerModel"]
