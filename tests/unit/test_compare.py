@@ -3,7 +3,9 @@
 from __future__ import annotations
 
 import ionwright
-from ionwright.design._compare import ModelOutcome, choose_trusted, compare_models
+import pytest
+
+from ionwright.design._compare import ModelOutcome, choose_trusted, compare_models, ph_spread
 
 BRINE = {"title": "Saltmarsh pickle brine (a scenario of our own)",
          "dissolve": {"NaCl": 3.0, "NaHCO3": 0.01}}
@@ -12,11 +14,12 @@ BUFFER = {"title": "Lotion-line phosphate rinse (a scenario of our own)",
 
 
 class _FakeResult:
-    ionic_strength = 1.2
+    def __init__(self, pH=7.0, ionic_strength=1.2):
+        self.pH, self.ionic_strength = pH, ionic_strength
 
 
-def _outcome(name, limit, valid, complete, missing=()):
-    return ModelOutcome(name, name, limit, _FakeResult(), None, valid, complete,
+def _outcome(name, limit, valid, complete, missing=(), pH=7.0):
+    return ModelOutcome(name, name, limit, _FakeResult(pH), None, valid, complete,
                         tuple(missing), ())
 
 
@@ -27,16 +30,36 @@ def test_trust_goes_to_the_widest_valid_and_complete_model():
     assert name == "truesdell-jones" and "widest range" in reason
 
 
-def test_without_a_complete_model_the_one_lacking_least_is_named_as_an_estimate():
+def test_without_a_complete_model_none_is_trusted_and_the_reason_names_what_is_missing():
+    """The least bad model is not recommended: a model lacking parameters is not trusted."""
     outcomes = [_outcome("a", 2.0, True, False, ["x", "y"]), _outcome("b", 6.0, True, False,
                 ["x"])]
     name, reason = choose_trusted(outcomes)
-    assert name == "b" and "estimate" in reason
+    assert name is None
+    assert reason.startswith("no model can be trusted")
+    assert "a lacks x, y" in reason and "b lacks x" in reason
 
 
 def test_no_model_is_trusted_when_none_is_valid():
     name, reason = choose_trusted([_outcome("davies", 0.5, False, True)])
-    assert name is None and "no model is valid" in reason
+    assert name is None and "none is valid" in reason
+
+
+def test_the_ph_spread_covers_the_models_whose_range_includes_the_ionic_strength():
+    outcomes = [_outcome("davies", 0.5, False, True, pH=6.9),
+                _outcome("truesdell-jones", 2.0, True, False, pH=6.25),
+                _outcome("pitzer", 6.0, True, True, pH=6.61)]
+    spread = ph_spread(outcomes)
+    assert spread.models == ("truesdell-jones", "pitzer")
+    assert spread.spread == pytest.approx(0.36)
+    assert "spread of 0.36" in spread.sentence(1.2)
+
+
+def test_one_valid_model_has_no_spread_and_says_so():
+    spread = ph_spread([_outcome("davies", 0.5, False, True), _outcome("pitzer", 6.0, True,
+                                                                        True)])
+    assert spread.spread == 0.0 and "no second model" in spread.sentence(1.2)
+    assert ph_spread([_outcome("davies", 0.5, False, True)]).spread is None
 
 
 def test_a_strong_brine_is_given_to_pitzer():
@@ -63,6 +86,9 @@ def test_a_dilute_phosphate_buffer_is_not_given_to_pitzer_without_its_parameters
     assert any("PO4" in m for m in pitzer.missing)
     assert comparison.trusted == "davies"  # valid to 0.5 and needs no per-ion parameters
     assert "lacks" not in comparison.reason
+    data = comparison.to_dict()["pH_spread"]
+    assert "davies" in data["models"] and "pitzer" in data["models"]
+    assert data["spread"] == pytest.approx(data["high"] - data["low"]) and data["spread"] >= 0
 
 
 def test_json_of_a_result_has_water_activity_only_where_the_model_gives_it():

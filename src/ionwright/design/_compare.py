@@ -5,9 +5,12 @@ coefficient where the model provides them, and the model's own validity warnings
 
 A model is *valid* for a solution when its ionic strength is within the model's stated
 range (and, for a model with fitted parameters, within their fits); it is *complete*
-when every species carrying a noticeable share of the ionic strength has the model's
+when every species carrying at least 1 % of the ionic strength has the model's
 parameters. The model to trust is the valid and complete one with the widest stated
-range; the comparison says so and why, or says that no model qualifies.
+range. When no model is both, none is trusted: the comparison says so in a plain
+sentence rather than recommending the least bad one. Every comparison also reports the
+spread of pH between the models valid at the solution's ionic strength, as an honest
+indication of how far to believe any of them.
 """
 
 from __future__ import annotations
@@ -126,9 +129,16 @@ class Comparison:
     reason: str
     key_species: tuple[str, ...]
     solids: tuple[str, ...]
+    spread: PhSpread
 
     def outcome(self, name: str) -> ModelOutcome:
         return next(o for o in self.outcomes if o.name == name)
+
+    @property
+    def ionic_strength(self) -> float | None:
+        """I of the first converged model (the models differ only in the pairs formed)."""
+        solved = [o.result.ionic_strength for o in self.outcomes if o.converged]
+        return solved[0] if solved else None
 
     def to_dict(self) -> dict[str, Any]:
         """A JSON-ready summary: one entry per model plus the verdict."""
@@ -138,8 +148,14 @@ class Comparison:
             "recipe_model": self.recipe.activity_model,
             "trusted": self.trusted,
             "reason": self.reason,
+            "pH_spread": {**self.spread.to_dict(), "note": self.spread_sentence()},
             "models": [_outcome_dict(o, self.key_species) for o in self.outcomes],
         }
+
+    def spread_sentence(self) -> str:
+        """The pH spread in words (what the report prints and the JSON carries)."""
+        strength = self.ionic_strength
+        return "no model converged" if strength is None else self.spread.sentence(strength)
 
     def report(self) -> str:
         """The side-by-side table printed by ``ionwright solve --compare-models``."""
@@ -177,14 +193,16 @@ def compare_models(recipe: str | Path | Mapping[str, Any] | Recipe,
     trusted, reason = choose_trusted(outcomes)
     solved = [o.result for o in outcomes if o.result is not None]
     return Comparison(recipe, tuple(outcomes), trusted, reason, _key_species(solved),
-                      tuple(sorted({s for r in solved for s in r.saturation_indices})))
+                      tuple(sorted({s for r in solved for s in r.saturation_indices})),
+                      ph_spread(outcomes))
 
 
 def choose_trusted(outcomes: list[ModelOutcome]) -> tuple[str | None, str]:
-    """The model to trust and why: valid and complete with the widest stated range.
+    """The model to trust and why: valid and complete, with the widest stated range.
 
-    Failing that, the valid model with the fewest missing parameters; failing that,
-    none (every converged model is outside its range), and the reason says so.
+    When no model is both, none is trusted (None) and the reason is a plain sentence
+    that names what each candidate lacks: a model without the parameters of the ions
+    that carry the solution is not trusted, however close it comes.
     """
     solved = [o for o in outcomes if o.converged]
     if not solved:
@@ -195,17 +213,60 @@ def choose_trusted(outcomes: list[ModelOutcome]) -> tuple[str | None, str]:
         pick = max(best, key=lambda o: o.max_ionic_strength)
         return pick.name, (f"the model with the widest range that is valid at I = "
                            f"{strength:.3g} mol/kg and has parameters for every species "
-                           f"that matters")
+                           f"that carries ≥ {100 * SIGNIFICANT_SHARE:g} % of it")
     valid = [o for o in solved if o.valid]
     if valid:
-        pick = min(valid, key=lambda o: (len(o.missing), -o.max_ionic_strength))
-        return pick.name, (f"no valid model has parameters for every species that "
-                           f"matters; {pick.name} lacks the fewest "
-                           f"({', '.join(pick.missing)}); treat the result as an estimate")
+        lacking = "; ".join(f"{o.name} lacks {', '.join(o.missing)}" for o in valid)
+        return None, (f"no model can be trusted for this recipe: the models valid at "
+                      f"I = {strength:.3g} mol/kg lack parameters for species that matter "
+                      f"here ({lacking}); treat every pH above as uncertain, by at least "
+                      f"the spread of the valid models")
     widest = max(solved, key=lambda o: o.max_ionic_strength)
-    return None, (f"no model is valid at I = {strength:.3g} mol/kg; {widest.name} has the "
-                  f"widest range (to about {widest.max_ionic_strength:g}) but is "
-                  f"extrapolated here")
+    return None, (f"no model can be trusted for this recipe: none is valid at "
+                  f"I = {strength:.3g} mol/kg; {widest.name} has the widest range (to about "
+                  f"{widest.max_ionic_strength:g}) but is extrapolated here")
+
+
+@dataclass(frozen=True)
+class PhSpread:
+    """The pH of the models valid at the solution's ionic strength, and their spread.
+
+    Validity here is the ionic-strength range alone (complete parameters or not): the
+    spread says how much the answer depends on the choice among defensible models.
+    """
+
+    models: tuple[str, ...]
+    low: float | None
+    high: float | None
+
+    @property
+    def spread(self) -> float | None:
+        return None if self.low is None else self.high - self.low
+
+    def sentence(self, strength: float) -> str:
+        if not self.models:
+            return (f"no model is valid at I = {strength:.3g} mol/kg, so no spread of pH "
+                    f"can be given; every pH above is an extrapolation")
+        if len(self.models) == 1:
+            return (f"only {self.models[0]} is valid at I = {strength:.3g} mol/kg: there "
+                    f"is no second model to measure its uncertainty against")
+        return (f"the {len(self.models)} models valid at I = {strength:.3g} mol/kg "
+                f"({', '.join(self.models)}) give pH {self.low:.2f} to {self.high:.2f}: a "
+                f"spread of {self.spread:.2f}")
+
+    def to_dict(self) -> dict[str, Any]:
+        return {"models": list(self.models), "low": self.low, "high": self.high,
+                "spread": self.spread}
+
+
+def ph_spread(outcomes: list[ModelOutcome] | tuple[ModelOutcome, ...]) -> PhSpread:
+    """The pH range of the converged models whose stated range covers the solution."""
+    within = [o for o in outcomes if o.converged
+              and o.result.ionic_strength <= o.max_ionic_strength]
+    if not within:
+        return PhSpread((), None, None)
+    values = [o.result.pH for o in within]
+    return PhSpread(tuple(o.name for o in within), min(values), max(values))
 
 
 def _key_species(results: list[Result]) -> tuple[str, ...]:
@@ -273,7 +334,11 @@ def _report(c: Comparison) -> str:
         for solid in c.solids:
             lines.append(row(f"  {solid}", numbers(
                 lambda r, s=solid: r.saturation_indices.get(s), ".2f")))
-    lines += ["", f"trust: {c.trusted or 'none of them'} — {c.reason}"]
+    if c.trusted:
+        lines += ["", f"trust: {c.trusted} — {c.reason}"]
+    else:
+        lines += ["", f"trust: none — {c.reason[0].upper()}{c.reason[1:]}."]
+    lines.append(f"pH spread: {c.spread_sentence()}.")
     details = []
     for o in c.outcomes:
         if o.error:
