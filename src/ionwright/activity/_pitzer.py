@@ -492,18 +492,44 @@ class PitzerModel:
         return out
 
     def beyond_fitted_range(self, species: SpeciesProperties, molality: np.ndarray) -> list[str]:
-        """Pairs that matter in *molality* (s,) whose fit stops below its ionic strength."""
+        """Pairs that matter in *molality* (s,) present beyond the salt molality of their fit.
+
+        The salt molality of a pair in a mixture is the most of its neutral salt the two
+        ions could make, min(m_c/ν_c, m_a/ν_a): past its fit the binary parameters
+        describe a concentration they never saw, and the model is not valid there.
+        """
+        return [f"{entry.label} (fitted to {entry.max_molality:g} mol/kg, here "
+                f"{salt:.3g} mol/kg)" for entry, salt, _ in self._fits(species, molality)
+                if salt > entry.max_molality]
+
+    def stretched_in_ionic_strength(self, species: SpeciesProperties,
+                                    molality: np.ndarray) -> list[str]:
+        """Pairs within their salt molality but used at an ionic strength past their fit.
+
+        A minor salt in a concentrated medium (KH2PO4 in 2 mol/kg KCl) is the usual
+        case: its B(I) is extrapolated, which is the common practice of mixture models
+        but worth a warning; it does not make the model invalid.
+        """
+        strength = _ionic_strength(self.parameters, species, molality)
+        return [f"{entry.label} (fitted to I ≤ {entry.max_ionic_strength:g})"
+                for entry, salt, _ in self._fits(species, molality)
+                if salt <= entry.max_molality and strength > entry.max_ionic_strength]
+
+    def _fits(self, species: SpeciesProperties, molality: np.ndarray):
+        """(entry, salt molality, ionic strength) of each significant pair with a fitted range."""
         params = self.parameters
         ions, _ = _significant(params, species, molality)
-        strength = _ionic_strength(params, species, molality)
+        index = {name: i for i, name in enumerate(species.names)}
         out = []
         for c, zc in ions:
             for a, za in ions:
                 entry = params.binary.get((c, a)) if zc > 0 > za else None
-                limit = entry.max_ionic_strength if entry else None
-                if limit is not None and strength > limit:
-                    out.append(f"{entry.label} (fitted to {entry.max_molality:g} mol/kg, "
-                               f"I ≤ {limit:g})")
+                if entry is None or entry.max_molality is None:
+                    continue
+                g = math.gcd(entry.z_cation, entry.z_anion)
+                nu_c, nu_a = entry.z_anion // g, entry.z_cation // g
+                salt = min(molality[index[c]] / nu_c, molality[index[a]] / nu_a)
+                out.append((entry, float(salt), entry.max_ionic_strength))
         return out
 
     def validity_notes(self, species: SpeciesProperties, molality: np.ndarray) -> list[str]:
@@ -517,9 +543,14 @@ class PitzerModel:
                        f"coefficients are uncertain")
         beyond = self.beyond_fitted_range(species, molality)
         if beyond:
+            out.append(f"pitzer: past the fitted range of {'; '.join(beyond)}; the "
+                       f"parameters are extrapolated and the result is not trusted")
+        stretched = self.stretched_in_ionic_strength(species, molality)
+        if stretched:
             strength = _ionic_strength(self.parameters, species, molality)
-            out.append(f"pitzer: ionic strength {strength:.3g} mol/kg is past the fitted "
-                       f"range of {'; '.join(beyond)}; the parameters are extrapolated")
+            out.append(f"pitzer: ionic strength {strength:.3g} mol/kg is past the single-salt "
+                       f"fit of {'; '.join(stretched)}; their B(I) is extrapolated "
+                       f"(usual for a minor salt in a concentrated medium)")
         return out
 
 

@@ -135,10 +135,9 @@ class Comparison:
         return next(o for o in self.outcomes if o.name == name)
 
     @property
-    def ionic_strength(self) -> float | None:
-        """I of the first converged model (the models differ only in the pairs formed)."""
-        solved = [o.result.ionic_strength for o in self.outcomes if o.converged]
-        return solved[0] if solved else None
+    def ionic_strength(self) -> str | None:
+        """I of the converged models in words ("2.12–2.2"): they differ by the pairs formed."""
+        return strength_text(self.outcomes)
 
     def to_dict(self) -> dict[str, Any]:
         """A JSON-ready summary: one entry per model plus the verdict."""
@@ -207,23 +206,23 @@ def choose_trusted(outcomes: list[ModelOutcome]) -> tuple[str | None, str]:
     solved = [o for o in outcomes if o.converged]
     if not solved:
         return None, "no model converged for this recipe"
-    strength = solved[0].result.ionic_strength
+    strength = strength_text(solved)
     best = [o for o in solved if o.valid and o.complete]
     if best:
         pick = max(best, key=lambda o: o.max_ionic_strength)
         return pick.name, (f"the model with the widest range that is valid at I = "
-                           f"{strength:.3g} mol/kg and has parameters for every species "
+                           f"{strength} mol/kg and has parameters for every species "
                            f"that carries ≥ {100 * SIGNIFICANT_SHARE:g} % of it")
     valid = [o for o in solved if o.valid]
     if valid:
         lacking = "; ".join(f"{o.name} lacks {', '.join(o.missing)}" for o in valid)
         return None, (f"no model can be trusted for this recipe: the models valid at "
-                      f"I = {strength:.3g} mol/kg lack parameters for species that matter "
+                      f"I = {strength} mol/kg lack parameters for species that matter "
                       f"here ({lacking}); treat every pH above as uncertain, by at least "
                       f"the spread of the valid models")
     widest = max(solved, key=lambda o: o.max_ionic_strength)
     return None, (f"no model can be trusted for this recipe: none is valid at "
-                  f"I = {strength:.3g} mol/kg; {widest.name} has the widest range (to about "
+                  f"I = {strength} mol/kg; {widest.name} has the widest range (to about "
                   f"{widest.max_ionic_strength:g}) but is extrapolated here")
 
 
@@ -243,20 +242,30 @@ class PhSpread:
     def spread(self) -> float | None:
         return None if self.low is None else self.high - self.low
 
-    def sentence(self, strength: float) -> str:
+    def sentence(self, strength: str) -> str:
+        """The spread in words; *strength* is the ionic strength as text (mol/kg)."""
         if not self.models:
-            return (f"no model is valid at I = {strength:.3g} mol/kg, so no spread of pH "
+            return (f"no model is valid at I = {strength} mol/kg, so no spread of pH "
                     f"can be given; every pH above is an extrapolation")
         if len(self.models) == 1:
-            return (f"only {self.models[0]} is valid at I = {strength:.3g} mol/kg: there "
+            return (f"only {self.models[0]} is valid at I = {strength} mol/kg: there "
                     f"is no second model to measure its uncertainty against")
-        return (f"the {len(self.models)} models valid at I = {strength:.3g} mol/kg "
+        return (f"the {len(self.models)} models valid at I = {strength} mol/kg "
                 f"({', '.join(self.models)}) give pH {self.low:.2f} to {self.high:.2f}: a "
                 f"spread of {self.spread:.2f}")
 
     def to_dict(self) -> dict[str, Any]:
         return {"models": list(self.models), "low": self.low, "high": self.high,
                 "spread": self.spread}
+
+
+def strength_text(outcomes) -> str | None:
+    """The ionic strength of the converged *outcomes* as text: one value, or their range."""
+    values = [o.result.ionic_strength for o in outcomes if o.converged]
+    if not values:
+        return None
+    low, high = f"{min(values):.3g}", f"{max(values):.3g}"
+    return low if low == high else f"{low}–{high}"
 
 
 def ph_spread(outcomes: list[ModelOutcome] | tuple[ModelOutcome, ...]) -> PhSpread:
