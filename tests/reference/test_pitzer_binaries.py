@@ -16,8 +16,8 @@ import pytest
 from binary_salt_data import SALTS, BinarySalt
 
 from ionwright.activity import PitzerModel
-from ionwright.activity.base import SpeciesProperties
-from ionwright.activity.pitzer_table import bundled_parameters
+from ionwright.activity._base import SpeciesProperties
+from ionwright.data._pitzer_table import bundled_parameters
 
 TOLERANCE = 0.02   # the issue's ±2 % on γ± in the fitted range
 

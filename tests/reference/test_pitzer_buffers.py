@@ -13,7 +13,7 @@ from __future__ import annotations
 import pytest
 
 import ionwright
-from ionwright.compare import compare_models
+from ionwright.design._compare import compare_models
 
 PH_TOLERANCE = 0.01
 PHOSPHATE_1_1 = {"KH2PO4": 0.025, "Na2HPO4": 0.025}
