@@ -1,0 +1,61 @@
+"""The bundled metals table: it loads by name on top of core, checks clean, and the
+water-treatment and laboratory ingredients of issue 17 split into its components."""
+
+from __future__ import annotations
+
+import subprocess
+import sys
+from importlib.resources import files
+
+import pytest
+
+import ionwright
+from ionwright.chemistry._ingredients import makeup
+
+
+@pytest.fixture(scope="module")
+def tables():
+    return ionwright.load_tables(["core", "metals"])
+
+
+def test_metals_is_a_bundled_table_that_checks_clean():
+    path = files("ionwright") / "constants" / "metals.toml"
+    done = subprocess.run([sys.executable, "-m", "ionwright", "tables", "check", str(path)],
+                          capture_output=True, text=True)
+    assert done.returncode == 0, done.stdout + done.stderr
+    assert "table 'metals'" in done.stdout
+
+
+def test_metals_overrides_nothing_in_core(tables):
+    assert not tables.overrides
+
+
+@pytest.mark.parametrize("ingredient, expected", [
+    ("FeCl3", {"Fe+3": 1, "Cl-": 3}),
+    ("FeCl3·6H2O", {"Fe+3": 1, "Cl-": 3, "H2O": 6}),
+    ("FeSO4·7H2O", {"Fe+2": 1, "SO4-2": 1, "H2O": 7}),
+    ("Al2(SO4)3·18H2O", {"Al+3": 2, "SO4-2": 3, "H2O": 18}),
+    ("alum", {"Al+3": 2, "SO4-2": 3, "H2O": 18}),
+    ("CuSO4·5H2O", {"Cu+2": 1, "SO4-2": 1, "H2O": 5}),
+    ("ZnSO4·7H2O", {"Zn+2": 1, "SO4-2": 1, "H2O": 7}),
+    ("Pb(NO3)2", {"Pb+2": 1, "NO3-": 2}),
+    ("SrCl2", {"Sr+2": 1, "Cl-": 2}),
+    ("BaCl2", {"Ba+2": 1, "Cl-": 2}),
+    ("NaBr", {"Na+": 1, "Br-": 1}),
+    ("LiCl", {"Li+": 1, "Cl-": 1}),
+    ("Na2HAsO4·7H2O", {"Na+": 2, "AsO4-3": 1, "H+": 1, "H2O": 7}),
+    ("As2O3", {"H3AsO3": 2, "H2O": -3}),
+])
+def test_ingredients_split_into_metals_components(tables, ingredient, expected):
+    assert makeup(ingredient, tables).per_mole == expected
+
+
+def test_alum_is_the_water_treatment_aluminium_sulfate(tables):
+    reagent = tables.reagent("filter alum")
+    assert reagent is not None and reagent.formula == "Al2(SO4)3·18H2O"
+    assert makeup("alum", tables).molar_mass == pytest.approx(666.4, abs=0.1)
+
+
+def test_a_recipe_without_metals_compiles_no_metal_species():
+    result = ionwright.solve({"tables": ["core", "metals"], "dissolve": {"NaCl": 0.01}})
+    assert not any(name.startswith(("Fe", "Al", "Cu")) for name in result.system.species)
