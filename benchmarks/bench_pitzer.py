@@ -30,8 +30,8 @@ from ionwright.core._system import compile_system
 RUNS = 3
 # mol per kg of water of each ingredient in the unscaled brine
 SEAWATER_LIKE = {"Na+": 0.4186 + 2 * 0.0282 + 0.0018 + 2 * 0.0002, "K+": 0.0102,
-                 "Ca+2": 0.0103, "Mg+2": 0.0528, "Cl-": 0.4186 + 0.0102 + 2 * 0.0103
-                 + 2 * 0.0528, "SO4-2": 0.0282, "CO3-2": 0.0018 + 0.0002}
+                 "Ca2+": 0.0103, "Mg2+": 0.0528, "Cl-": 0.4186 + 0.0102 + 2 * 0.0103
+                 + 2 * 0.0528, "SO4^2-": 0.0282, "CO3^2-": 0.0018 + 0.0002}
 # protons carried by the ingredients: NaHCO3 brings one H+ per carbonate
 PROTONS = 0.0018
 RESULTS = Path(__file__).with_name("RESULTS-pitzer.md")
@@ -120,7 +120,7 @@ def main() -> None:
                    f"Pitzer / Davies on the same careful path: "
                    f"**{pit['solve'] / careful['solve']:.2f}×**."), ""]
     text = "\n".join(lines)
-    RESULTS.write_text(text, encoding="utf-8")
+    RESULTS.write_text(text, encoding="utf^8-")
     print(text)
 
 

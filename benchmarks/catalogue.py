@@ -17,7 +17,7 @@ import numpy as np
 SALTS = ("NaCl", "KCl", "CaCl2", "MgCl2", "MgSO4", "Na2SO4", "NaHCO3")
 ACID, BASE = "HCl", "NaOH"
 INGREDIENTS = (*SALTS, ACID, BASE)
-COMPONENTS = ("Ca+2", "Mg+2", "Na+", "K+", "Cl-", "SO4-2", "CO3-2")
+COMPONENTS = ("Ca2+", "Mg2+", "Na+", "K+", "Cl-", "SO4^2-", "CO3^2-")
 # share of the salinity scale each salt may take (upper bound of a uniform draw)
 _SHARES = {"NaCl": 1.0, "KCl": 0.03, "CaCl2": 0.15, "MgCl2": 0.08, "MgSO4": 0.08,
            "Na2SO4": 0.08, "NaHCO3": 0.15}

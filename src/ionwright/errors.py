@@ -50,7 +50,7 @@ class FormulaError(IonwrightError, ValueError):
         marker = " " * position + "^"
         super().__init__(
             f"cannot read formula {text!r}: {problem}\n    {text}\n    {marker}",
-            "write charges as Ca+2 or CO3-2, hydrates as MgSO4·7H2O, phases as (aq), (g), (s)",
+            "write charges as Ca2+ or CO3^2-, hydrates as MgSO4·7H2O, phases as (aq), (g), (s)",
         )
         self.text, self.position, self.problem = text, position, problem
 
@@ -152,7 +152,7 @@ class PhaseRuleError(IonwrightError, ValueError):
     def __init__(self, phases: list[str], problem: str) -> None:
         super().__init__(
             f"phases {', '.join(repr(p) for p in phases)}: {problem}",
-            'hold fewer phases fixed: make a solid "precipitate-only" or remove it, or '
+            'hold fewer phases fixed: make a solid "may-form" or remove it, or '
             "leave a gas or the pH free")
         self.phases, self.problem = phases, problem
 

@@ -22,7 +22,7 @@ too-hot,0.01,0.001,8,0,130
 
 def test_a_file_with_bad_rows_gives_output_for_every_row(tmp_path, capsys):
     source, target = tmp_path / "in.csv", tmp_path / "out.csv"
-    source.write_text(BAD_ROWS, encoding="utf-8")
+    source.write_text(BAD_ROWS, encoding="utf^8-")
     assert main(["batch", str(source), "-o", str(target), "--chunk-rows", "2"]) == 0
     out = pd.read_csv(target)
     assert list(out["sample"]) == ["good", "empty-cell", "text", "unknown-unit", "negative",
@@ -70,7 +70,7 @@ def test_exit_status_is_one_when_a_row_fails(tmp_path, monkeypatch, capsys):
     monkeypatch.setattr("ionwright.core._newton.careful.CAREFUL_OUTER_ITERATIONS", 1)
     monkeypatch.setattr("ionwright.core._newton.careful.CAREFUL_INNER_ITERATIONS", 1)
     source, target = tmp_path / "in.csv", tmp_path / "out.csv"
-    source.write_text("KH2PO4,CaCl2,NaHCO3\n0.5,0.2,0.3\n", encoding="utf-8")
+    source.write_text("KH2PO4,CaCl2,NaHCO3\n0.5,0.2,0.3\n", encoding="utf^8-")
     assert main(["batch", str(source), "-o", str(target)]) == 1
     assert pd.read_csv(target)["status"].tolist() == ["failed"]  # written all the same
     assert "1 row(s) failed" in capsys.readouterr().err
@@ -78,7 +78,7 @@ def test_exit_status_is_one_when_a_row_fails(tmp_path, monkeypatch, capsys):
 
 def test_a_wrong_suffix_is_a_user_error(tmp_path, capsys):
     source = tmp_path / "in.csv"
-    source.write_text("NaCl\n0.1\n", encoding="utf-8")
+    source.write_text("NaCl\n0.1\n", encoding="utf^8-")
     assert main(["batch", str(source), "-o", str(tmp_path / "out.xlsx")]) == 2
     assert "neither .csv nor .parquet" in capsys.readouterr().err
 

@@ -20,7 +20,7 @@ def run(*args, cwd=None):
 def phosphate(tmp_path):
     path = tmp_path / "phosphate.toml"
     path.write_text('temperature_C = 25.0\nactivity_model = "davies"\ntables = ["core"]\n'
-                    '[dissolve]\nKH2PO4 = 0.025\nNa2HPO4 = 0.025\n', encoding="utf-8")
+                    '[dissolve]\nKH2PO4 = 0.025\nNa2HPO4 = 0.025\n', encoding="utf^8-")
     return path
 
 
@@ -32,11 +32,11 @@ def test_json_output_follows_the_contract(phosphate):
                 "species", "totals", "saturation_indices", "warnings"):
         assert key in data
     assert data["converged"] is True and data["activity_model"] == "davies"
-    hpo4 = next(s for s in data["species"] if s["name"] == "HPO4-2")
+    hpo4 = next(s for s in data["species"] if s["name"] == "HPO4^2-")
     assert set(hpo4) >= {"name", "charge", "molality", "activity", "log_gamma"}
     assert hpo4["charge"] == -2
     assert hpo4["activity"] == pytest.approx(hpo4["molality"] * 10 ** hpo4["log_gamma"])
-    assert data["totals"]["PO4-3"] == pytest.approx(0.05)
+    assert data["totals"]["PO4^3-"] == pytest.approx(0.05)
     # the printed pH is the library's pH for the same recipe
     assert data["pH"] == pytest.approx(ionwright.solve(phosphate).pH, abs=1e-12)
 
@@ -49,15 +49,15 @@ def test_library_to_dict_equals_cli_json(phosphate):
 def test_text_report_reads_well(phosphate):
     proc = run("solve", str(phosphate))
     assert proc.returncode == 0
-    assert "pH" in proc.stdout and "HPO4-2" in proc.stdout and "ionic strength" in proc.stdout
-    assert "PO4-3" in proc.stdout  # the distribution section names the component
+    assert "pH" in proc.stdout and "HPO₄²⁻" in proc.stdout and "ionic strength" in proc.stdout
+    assert "PO₄³⁻" in proc.stdout  # the distribution section names the component
 
 
 def test_to_frame_has_one_row_per_species(phosphate):
     result = ionwright.solve(phosphate)
     frame = result.to_frame()
     assert len(frame) == len(result.system.species)
-    assert frame.loc["HPO4-2", "charge"] == -2
+    assert frame.loc["HPO4^2-", "charge"] == -2
 
 
 def test_demo_runs_and_tells_its_story():
@@ -77,7 +77,7 @@ def test_demo_runs_and_tells_its_story():
 ])
 def test_bad_input_gives_one_clear_message_and_no_traceback(tmp_path, body, needle):
     path = tmp_path / "bad.toml"
-    path.write_text(body, encoding="utf-8")
+    path.write_text(body, encoding="utf^8-")
     proc = run("solve", str(path))
     assert proc.returncode == 2
     assert "Traceback" not in proc.stderr

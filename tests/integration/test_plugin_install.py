@@ -93,7 +93,7 @@ def test_sorbelic_acid_ph_matches_the_proton_balance_solved_by_hand(installed):
 def test_plugin_reagents_are_offered_only_with_the_tables_they_need(installed):
     registry(installed)
     phosphate = ionwright.solve({"dissolve": {"MSL-0031": 0.01}})
-    assert phosphate.totals["PO4-3"] == pytest.approx(0.01)
+    assert phosphate.totals["PO4^3-"] == pytest.approx(0.01)
     assert phosphate.totals["Na+"] == pytest.approx(0.01)
     with pytest.raises(UnknownNameError, match="unknown ingredient 'MSL-0107'"):
         ionwright.solve({"dissolve": {"MSL-0107": 0.01}})
@@ -152,7 +152,7 @@ def test_command_line_sees_the_installed_plugins_and_can_exclude_them(installed,
         "potassium sorbelate" = 0.002
         CaCl2 = 0.0015
         "corvelic acid" = 0.001
-    '''), encoding="utf-8")
+    '''), encoding="utf^8-")
     solved = run_cli(installed, "solve", str(recipe), "--json")
     assert solved.returncode == 0, solved.stderr
     data = json.loads(solved.stdout)
@@ -168,5 +168,5 @@ def test_installed_tables_are_checked_clean(installed):
     table = installed / "ionwright_lab_acids" / "marlow-lab.toml"
     checked = run_cli(installed, "tables", "check", str(table))
     assert checked.returncode == 0, checked.stdout
-    assert "uses from core: Ca+2, H+, H2O, K+, Na+" in checked.stdout
+    assert "uses from core: Ca2+, H+, H2O, K+, Na+" in checked.stdout
     assert np.isfinite(default_registry().model("sit").max_ionic_strength)

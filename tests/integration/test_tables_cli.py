@@ -36,7 +36,7 @@ CLEAN = textwrap.dedent('''
     source = "nb7"
     [solids."calcium lactate"]
     formula = "CaC6H10O6"
-    dissolves_to = { "Ca+2" = 1, "Lac-" = 2 }
+    dissolves_to = { "Ca2+" = 1, "Lac-" = 2 }
     log10_k = -3.0
     source = "nb7"
 ''')
@@ -61,7 +61,7 @@ def run(capsys, *argv: str) -> tuple[int, str, str]:
 
 def write(tmp_path, name: str, text: str) -> str:
     path = tmp_path / name
-    path.write_text(text, encoding="utf-8")
+    path.write_text(text, encoding="utf^8-")
     return str(path)
 
 
@@ -70,7 +70,7 @@ def test_check_passes_a_clean_in_house_table_that_uses_core_components(tmp_path,
     code, out, _ = run(capsys, "tables", "check", write(tmp_path, "bench.toml", CLEAN))
     assert code == 0
     assert "bench.toml: ok; table 'bench': 1 component, 2 species, 1 solid" in out
-    assert "uses from core: CH3COO-, Ca+2, H+" in out
+    assert "uses from core: CH3COO-, Ca2+, H+" in out
     assert ("overrides: species 'CH3COOH' from table 'bench' overrides table 'core': "
             "log K 4.756 -> 4.8") in out
 
@@ -102,13 +102,13 @@ def test_check_lists_every_problem_of_a_file_not_only_the_first(tmp_path, capsys
     bad = (CLEAN
            .replace('from = { "Lac-" = 1, "H+" = 1 }', 'from = { "Lac-" = 1, "H+" = 2 }')
            .replace("enthalpy_kJ = 0.3", "enthalpy_kJ = 300000")                  # J/mol, not kJ/mol
-           .replace('dissolves_to = { "Ca+2" = 1, "Lac-" = 2 }',
-                    'dissolves_to = { "Ca+2" = 1, "Lactate-" = 2 }')       # unknown name
+           .replace('dissolves_to = { "Ca2+" = 1, "Lac-" = 2 }',
+                    'dissolves_to = { "Ca2+" = 1, "Lactate-" = 2 }')       # unknown name
            .replace('[species.CH3COOH]\nfrom = { "CH3COO-" = 1, "H+" = 1 }\nlog10_k = 4.80\n'
                     'source = "nb7"',
                     '[species.CH3COOH]\nfrom = { "CH3COO-" = 1, "H+" = 1 }\nlog10_k = 4.80\n'
                     'range_C = [60.0, 5.0]')                               # no source, range
-           + '[components."Zn+2"]\nion_size = 60\nsource = "nb7"\n')       # Å out of range
+           + '[components."Zn2+"]\nion_size = 60\nsource = "nb7"\n')       # Å out of range
     code, out, _ = run(capsys, "tables", "check", write(tmp_path, "bad.toml", bad))
     assert code == 1
     assert "bad.toml: 7 problem(s)" in out
@@ -116,7 +116,7 @@ def test_check_lists_every_problem_of_a_file_not_only_the_first(tmp_path, capsys
             "species 'HLac': enthalpy_kJ = 300000.0 kJ/mol is outside ±500; is it in J/mol?",
             "species 'CH3COOH': missing source",
             "species 'CH3COOH': range_C = [60.0, 5.0] must be two ordered temperatures in °C",
-            "component 'Zn+2': ion size 60.0 Å must be in (0, 15] Å",
+            "component 'Zn2+': ion size 60.0 Å must be in (0, 15] Å",
             "species 'HLac' (table 'bench'): from does not balance in charge",
             "solid 'calcium lactate' (table 'bench'): dissolves_to names 'Lactate-', which no "
             "table defines as a component or species"):
@@ -210,13 +210,13 @@ def test_show_reagents_lists_table_and_plugin_reagents(tmp_path, capsys, monkeyp
         def register_reagents():
             return {"stock 9": {"formula": "C3H5O3Na", "makes": {"Na+": 1, "Lac-": 1},
                                 "source": "stock list (demo)"}}
-    '''), encoding="utf-8")
+    '''), encoding="utf^8-")
     info = tmp_path / "ionwright_test_stockroom-0.1.dist-info"
     info.mkdir()
     (info / "METADATA").write_text("Metadata-Version: 2.1\nName: ionwright-test-stockroom\n"
-                                   "Version: 0.1\n", encoding="utf-8")
+                                   "Version: 0.1\n", encoding="utf^8-")
     (info / "entry_points.txt").write_text("[ionwright]\nstockroom = ionwright_test_stockroom\n",
-                                           encoding="utf-8")
+                                           encoding="utf^8-")
     monkeypatch.syspath_prepend(str(tmp_path))
     monkeypatch.setenv("IONWRIGHT_TABLES", write(tmp_path, "bench.toml", CLEAN))
     code, out, _ = run(capsys, "tables", "show", "reagents")

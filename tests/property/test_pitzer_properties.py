@@ -16,9 +16,9 @@ from ionwright.data._pitzer_table import ALPHA_2_2, CationAnion, PitzerParameter
 from ionwright.chemistry._formula import parse_formula
 from ionwright.chemistry._water import osmotic_A_phi
 
-SALTS = [("Na+", "Cl-"), ("Ca+2", "Cl-"), ("Na+", "SO4-2"), ("Mg+2", "SO4-2")]
-MIXTURE = ["Na+", "K+", "H+", "Ca+2", "Mg+2", "MgOH+", "Cl-", "SO4-2", "OH-", "HCO3-",
-           "CO3-2", "HSO4-", "CO2", "CaCO3"]
+SALTS = [("Na+", "Cl-"), ("Ca2+", "Cl-"), ("Na+", "SO4^2-"), ("Mg2+", "SO4^2-")]
+MIXTURE = ["Na+", "K+", "H+", "Ca2+", "Mg2+", "MgOH+", "Cl-", "SO4^2-", "OH-", "HCO3-",
+           "CO3^2-", "HSO4-", "CO2", "CaCO3"]
 
 
 def species(names):

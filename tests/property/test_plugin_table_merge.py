@@ -14,7 +14,7 @@ from ionwright.plugins._registry import Registry, build_table, plugin_manager
 from ionwright.core._system import compile_system
 from ionwright.chemistry._tableset import TableSet
 
-CATIONS = ("Na+", "K+", "Ca+2", "Mg+2")
+CATIONS = ("Na+", "K+", "Ca2+", "Mg2+")
 ANIONS = ("Cl-", "NO3-", "F-")
 PRESENT = (*CATIONS, *ANIONS)
 TEMPERATURES = np.array([10.0, 25.0, 40.0])

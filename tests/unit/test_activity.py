@@ -17,7 +17,7 @@ MODELS = [DaviesModel(), ExtendedDebyeHuckelModel(), TruesdellJonesModel(), Idea
 
 def _species():
     return SpeciesProperties(
-        names=("Na+", "Ca+2", "PO4-3", "CO2", "Cl-"),
+        names=("Na+", "Ca2+", "PO4^3-", "CO2", "Cl-"),
         charge=np.array([1.0, 2.0, -3.0, 0.0, -1.0]),
         ion_size=np.array([4.0, 6.0, 4.0, np.nan, 3.0]),
         tj_a=np.array([4.0, 5.0, np.nan, np.nan, 3.5]),

@@ -19,7 +19,7 @@ MEQ_PER_MG_CACO3 = 2.0 / molar_mass("CaCO3")  # 1 mmol CaCO3 = 2 meq
 
 # Alkalinity weights typed here by hand for the species of a Na-K-Ca-Mg-Cl-carbonate
 # water (Dickson 1981 zero levels: H2CO3*, H2O), independent of the code's own rule.
-HAND_WEIGHTS = {"HCO3-": 1, "CO3-2": 2, "OH-": 1, "H+": -1, "NaCO3-": 2, "NaHCO3": 1,
+HAND_WEIGHTS = {"HCO3-": 1, "CO3^2-": 2, "OH-": 1, "H+": -1, "NaCO3-": 2, "NaHCO3": 1,
                 "CaHCO3+": 1, "CaCO3": 2, "MgHCO3+": 1, "MgCO3": 2, "CaOH+": 1,
                 "MgOH+": 1}
 
@@ -44,8 +44,8 @@ def test_solved_sample_reproduces_the_measured_alkalinity(model):
 
 
 def test_activity_corrections_change_the_carbonate_total():
-    ideal = dict(saline("ideal", ph=9.3).recipe.components)["CO3-2"]
-    davies = dict(saline("davies", ph=9.3).recipe.components)["CO3-2"]
+    ideal = dict(saline("ideal", ph=9.3).recipe.components)["CO3^2-"]
+    davies = dict(saline("davies", ph=9.3).recipe.components)["CO3^2-"]
     assert abs(davies / ideal - 1) > 0.02
 
 
@@ -66,7 +66,7 @@ def test_carbonate_total_matches_the_closed_form_without_ion_pairs():
     alpha = shares / shares.sum()
     alk = 4.0e-3 / water_kg_per_L(result)
     expected = (alk - 10 ** log_kw / h + h) / (2 * alpha[0] + alpha[1])
-    assert dict(result.recipe.components)["CO3-2"] == pytest.approx(expected, rel=1e-9)
+    assert dict(result.recipe.components)["CO3^2-"] == pytest.approx(expected, rel=1e-9)
 
 
 def test_per_litre_values_become_per_kg_of_water():
@@ -78,10 +78,10 @@ def test_per_litre_values_become_per_kg_of_water():
     per_litre = water_kg_per_L(result)
     assert 0.9965 < per_litre < 0.9971  # water at 25 °C is 0.99705 kg/L
     totals = dict(result.recipe.components)
-    expect = {"Ca+2": 48e-3 / molar_mass("Ca"), "NO3-": 2.1e-3 / molar_mass("N"),
+    expect = {"Ca2+": 48e-3 / molar_mass("Ca"), "NO3-": 2.1e-3 / molar_mass("N"),
               "H4SiO4": 12e-3 / molar_mass("SiO2"), "NH3": 0.8e-3 / molar_mass("N"),
-              "PO4-3": 0.3e-3 / molar_mass("P"), "F-": 0.5e-3 / molar_mass("F"),
-              "Mg+2": 0.25e-3, "K+": 0.1e-3, "Cl-": 85e-3 / molar_mass("Cl")}
+              "PO4^3-": 0.3e-3 / molar_mass("P"), "F-": 0.5e-3 / molar_mass("F"),
+              "Mg2+": 0.25e-3, "K+": 0.1e-3, "Cl-": 85e-3 / molar_mass("Cl")}
     for component, mol_per_L in expect.items():
         assert totals[component] == pytest.approx(mol_per_L / per_litre, rel=1e-12)
 

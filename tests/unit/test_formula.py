@@ -302,13 +302,13 @@ def test_constructor_freezes_a_plain_dict_and_validates() -> None:
     ("NaCl", "ClNa"),                      # no carbon: purely alphabetical
     ("H2O", "H2O"),
     ("NH4+", "H4N+"),
-    ("CO3--", "CO3-2"),
-    ("Ca2+", "Ca+2"),
+    ("CO3--", "CO3^2-"),
+    ("Ca2+", "Ca2+"),
     ("HCO3-", "CHO3-"),
     ("CO2(g)", "CO2(g)"),
     ("CH3COOH(aq)", "C2H4O2(aq)"),
-    ("O2-1", "O2-1"),                      # a bare sign would read as O with 2-
-    ("C12H22O11-1", "C12H22O11-1"),
+    ("O2-1", "O2^-"),                      # a bare sign would read as O with 2-
+    ("C12H22O11-1", "C12H22O11^-"),
     ("CaSO4·0.5H2O", "CaHO4.5S"),
     ("Ca0.5+", "Ca0.5+"),
 ])

@@ -72,7 +72,7 @@ def test_two_forms_of_one_mineral_break_the_phase_rule():
 
 
 def test_more_held_solids_than_free_components_break_the_phase_rule():
-    # with the pH and the CO2 pressure fixed, only Ca+2 and F- are left free for three
+    # with the pH and the CO2 pressure fixed, only Ca2+ and F- are left free for three
     # solids to fix
     with pytest.raises(PhaseRuleError, match="only 2 free component"):
         ionwright.solve({"fix": {"pH": 9.0},
@@ -90,7 +90,7 @@ def test_an_equilibrated_solid_ends_at_saturation():
 def test_more_of_an_equilibrated_solid_changes_nothing():
     runs = [ionwright.solve({"solids": {"gypsum": amount}}) for amount in
             ("equilibrate", "5 g", "50 g")]
-    ca = [r.species_molality("Ca+2") for r in runs]
+    ca = [r.species_molality("Ca2+") for r in runs]
     assert ca[1] == pytest.approx(ca[0], rel=1e-10)
     assert ca[2] == pytest.approx(ca[0], rel=1e-10)
     assert runs[2].phases["gypsum"]["left_mol_per_kg"] == pytest.approx(
@@ -103,34 +103,34 @@ def test_a_small_amount_dissolves_completely():
     assert gypsum["state"] == "all dissolved"
     assert gypsum["into_solution_mol_per_kg"] == pytest.approx(1 / 172.17, rel=1e-4)
     assert gypsum["saturation_index"] < 0
-    assert result.totals["Ca+2"] == pytest.approx(1 / 172.17, rel=1e-4)
+    assert result.totals["Ca2+"] == pytest.approx(1 / 172.17, rel=1e-4)
 
 
-def test_precipitate_only_forms_when_supersaturated_and_not_otherwise():
+def test_may_form_forms_when_supersaturated_and_not_otherwise():
     over = ionwright.solve({"dissolve": {"CaCl2": 0.05, "Na2SO4": 0.05},
-                            "solids": {"gypsum": "precipitate-only"}})
+                            "solids": {"gypsum": "may-form"}})
     assert over.phases["gypsum"]["into_solution_mol_per_kg"] < 0
     assert abs(over.saturation_indices["gypsum"]) < 1e-8
     under = ionwright.solve({"dissolve": {"CaCl2": 0.001, "Na2SO4": 0.001},
-                             "solids": {"gypsum": "precipitate-only"}})
+                             "solids": {"gypsum": "may-form"}})
     assert under.phases["gypsum"]["state"] == "not formed"
     assert under.phases["gypsum"]["into_solution_mol_per_kg"] == 0.0
 
 
-def test_precipitate_only_without_its_components_cannot_form():
-    result = ionwright.solve({"dissolve": {"NaCl": 0.01}, "solids": {"calcite": "precipitate-only"}})
+def test_may_form_without_its_components_cannot_form():
+    result = ionwright.solve({"dissolve": {"NaCl": 0.01}, "solids": {"calcite": "may-form"}})
     assert result.phases["calcite"]["state"] == "cannot form"
-    assert result.phases["calcite"]["needs"] == ["CO3-2", "Ca+2"]
+    assert result.phases["calcite"]["needs"] == ["CO3^2-", "Ca2+"]
 
 
 def test_gas_uptake_is_the_dissolved_carbonate():
     result = ionwright.solve({"dissolve": {"NaOH": 0.001}, "gases": {"CO2": "420 uatm"}})
     carbonate = sum(row["molality"] * result.system.nu[result.system.index(row["name"]),
-                                                        result.system.components.index("CO3-2")]
+                                                        result.system.components.index("CO3^2-")]
                     for row in result.species_rows())
     assert result.phases["CO2(g)"]["into_solution_mol_per_kg"] == pytest.approx(carbonate,
                                                                                rel=1e-9)
-    assert result.totals["CO3-2"] == pytest.approx(carbonate, rel=1e-9)
+    assert result.totals["CO3^2-"] == pytest.approx(carbonate, rel=1e-9)
 
 
 def test_in_solution_totals_balance_every_component():
@@ -154,13 +154,13 @@ def test_a_gas_with_a_fixed_ph():
 
 
 def test_hydroxyapatite_constant_is_taken_in_components():
-    # The table gives Ksp for Ca5(PO4)3OH = 5Ca+2 + 3PO4-3 + OH-; in components this is
+    # The table gives Ksp for Ca5(PO4)3OH = 5Ca2+ + 3PO4^3- + OH-; in components this is
     # log Ksp − log K(OH-) = −58.6 + 13.995 (the table's own note)
     from ionwright.core._phases import phase_reaction
     from ionwright.core._system import compile_system
 
     tables = load_tables(["core"])
-    system = compile_system(tables, ["Ca+2", "PO4-3"])
+    system = compile_system(tables, ["Ca2+", "PO4^3-"])
     reaction = phase_reaction(system, tables, "hydroxyapatite", "solid")
     assert reaction.log10_k(np.array([25.0]))[0] == pytest.approx(-58.6 + 13.995, abs=0.01)
 
@@ -171,3 +171,13 @@ def test_report_and_json_show_the_phases():
     assert set(data["phases"]) == {"gypsum", "CO2(g)"}
     text = result.report()
     assert "solids and gases" in text and "gypsum" in text and "taken up" in text
+
+
+def test_the_old_word_for_may_form_is_read_with_a_note():
+    recipe = {"dissolve": {"CaCl2": 0.05, "Na2SO4": 0.05}}
+    old = ionwright.solve({**recipe, "solids": {"gypsum": "precipitate-only"}})
+    new = ionwright.solve({**recipe, "solids": {"gypsum": "may-form"}})
+    assert old.pH == new.pH
+    assert old.phases["gypsum"]["mode"] == "may-form"
+    assert any("now called 'may-form'" in w for w in old.warnings)
+    assert not any("now called" in w for w in new.warnings)

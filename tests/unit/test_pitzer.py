@@ -16,8 +16,8 @@ from ionwright.data._pitzer_table import ALPHA_2_2, bundled_parameters, parse_pa
 from ionwright.errors import TableError
 from ionwright.chemistry._water import debye_huckel_A, osmotic_A_phi
 
-CATIONS = ("Na+", "K+", "H+", "Ca+2", "Mg+2")
-ANIONS = ("Cl-", "SO4-2", "OH-", "HCO3-", "CO3-2")
+CATIONS = ("Na+", "K+", "H+", "Ca2+", "Mg2+")
+ANIONS = ("Cl-", "SO4^2-", "OH-", "HCO3-", "CO3^2-")
 
 
 def species(names, setschenow=None):
@@ -62,19 +62,19 @@ def test_bundled_single_salt_values_match_reference_inputs_section_3():
     p = bundled_parameters().binary
     assert (p["Na+", "Cl-"].beta0, p["Na+", "Cl-"].beta1, p["Na+", "Cl-"].c_phi) == (
         0.0765, 0.2664, 0.00127)
-    assert p["Mg+2", "SO4-2"].beta2 == -37.23
-    assert (p["Mg+2", "SO4-2"].alpha1, p["Mg+2", "SO4-2"].alpha2) == ALPHA_2_2
-    assert p["Ca+2", "Cl-"].alpha1 == 2.0
+    assert p["Mg2+", "SO4^2-"].beta2 == -37.23
+    assert (p["Mg2+", "SO4^2-"].alpha1, p["Mg2+", "SO4^2-"].alpha2) == ALPHA_2_2
+    assert p["Ca2+", "Cl-"].alpha1 == 2.0
     # P&M print (4/3)β0 = 0.4212 for CaCl2: the table holds β0 = 0.3159
-    assert 4 / 3 * p["Ca+2", "Cl-"].beta0 == pytest.approx(0.4212, abs=1e-4)
-    assert 2 ** 2.5 / 3 * p["Mg+2", "Cl-"].c_phi == pytest.approx(0.00979, abs=1e-5)
+    assert 4 / 3 * p["Ca2+", "Cl-"].beta0 == pytest.approx(0.4212, abs=1e-4)
+    assert 2 ** 2.5 / 3 * p["Mg2+", "Cl-"].c_phi == pytest.approx(0.00979, abs=1e-5)
 
 
 def test_fitted_ionic_strength_follows_the_salt_stoichiometry():
     p = bundled_parameters().binary
     assert p["Na+", "Cl-"].max_ionic_strength == 6.0
-    assert p["Ca+2", "Cl-"].max_ionic_strength == pytest.approx(7.5)    # 2.5 m × 3
-    assert p["Mg+2", "SO4-2"].max_ionic_strength == pytest.approx(12.0)  # 3 m × 4
+    assert p["Ca2+", "Cl-"].max_ionic_strength == pytest.approx(7.5)    # 2.5 m × 3
+    assert p["Mg2+", "SO4^2-"].max_ionic_strength == pytest.approx(12.0)  # 3 m × 4
     assert p["Na+", "HCO3-"].max_ionic_strength is None
 
 
@@ -83,7 +83,7 @@ def test_fitted_ionic_strength_follows_the_salt_stoichiometry():
 @pytest.mark.parametrize("body, expected", [
     ('[[cation_anion]]\ncation = "Cl-"\nanion = "Na+"\nbeta0 = 0.1\nbeta1 = 0.2\n'
      'c_phi = 0.0\nsource = "x"', "must be positive"),
-    ('[[cation_anion]]\ncation = "Ca+2"\nanion = "Cl-"\nbeta0 = 0.1\nbeta1 = 0.2\n'
+    ('[[cation_anion]]\ncation = "Ca2+"\nanion = "Cl-"\nbeta0 = 0.1\nbeta1 = 0.2\n'
      'beta2 = -3.0\nc_phi = 0.0\nsource = "x"', "needs alpha2"),
     ('[[cation_anion]]\ncation = "Na+"\nanion = "Cl-"\nbeta0 = 0.1\nbeta1 = 0.2\n'
      'c_phi = 0.0\nsource = "nowhere"', "not a key of [sources]"),
@@ -92,12 +92,12 @@ def test_fitted_ionic_strength_follows_the_salt_stoichiometry():
     ('[[cation_anion]]\ncation = "Na+"\nanion = "Cl-"\nbeta0 = 0.1\nbeta1 = 0.2\n'
      'source = "x"', "c_phi is required"),
     ('[[like_charge]]\nions = ["Na+", "Cl-"]\ntheta = 0.1\nsource = "x"', "same sign"),
-    ('[[triplet]]\nions = ["Na+", "K+", "Ca+2"]\npsi = 0.1\nsource = "x"', "of the other"),
+    ('[[triplet]]\nions = ["Na+", "K+", "Ca2+"]\npsi = 0.1\nsource = "x"', "of the other"),
     ('[[neutral_ion]]\nneutral = "Na+"\nion = "Cl-"\nlambda = 0.1\nsource = "x"',
      "neutral species"),
     ('[[like_charge]]\nions = ["Na+", "K+"]\ntheta = 0.1\nsource = "x"\n'
      '[[like_charge]]\nions = ["K+", "Na+"]\ntheta = 0.2\nsource = "x"', "given twice"),
-    ('[[cation_anion]]\ncation = "Al+3"\nanion = "SO4-2"\nbeta0 = 0.1\nbeta1 = 0.2\n'
+    ('[[cation_anion]]\ncation = "Al3+"\nanion = "SO4^2-"\nbeta0 = 0.1\nbeta1 = 0.2\n'
      'c_phi = 0.0\nsource = "x"', "needs alpha1"),
     ('[mystery]\nx = 1', "unknown section"),
 ])
@@ -110,8 +110,8 @@ def test_malformed_parameter_tables_are_refused_with_the_problem_named(body, exp
 def test_alpha_defaults_by_charge_type():
     params = parse_parameters(table('''
         [[cation_anion]]
-        cation = "Mg+2"
-        anion = "SO4-2"
+        cation = "Mg2+"
+        anion = "SO4^2-"
         beta0 = 0.2
         beta1 = 3.0
         beta2 = -30.0
@@ -119,15 +119,15 @@ def test_alpha_defaults_by_charge_type():
         source = "x"
         [[cation_anion]]
         cation = "Na+"
-        anion = "SO4-2"
+        anion = "SO4^2-"
         beta0 = 0.02
         beta1 = 1.1
         c_phi = 0.005
         source = "x"
     '''), "t")
-    assert (params.binary["Mg+2", "SO4-2"].alpha1, params.binary["Mg+2", "SO4-2"].alpha2) == (
+    assert (params.binary["Mg2+", "SO4^2-"].alpha1, params.binary["Mg2+", "SO4^2-"].alpha2) == (
         1.4, 12.0)
-    assert params.binary["Na+", "SO4-2"].alpha1 == 2.0
+    assert params.binary["Na+", "SO4^2-"].alpha1 == 2.0
 
 
 # -- the functions of the equations ---------------------------------------------------------
@@ -170,7 +170,7 @@ def test_g_series_and_closed_form_meet():
 
 def test_the_limiting_law_holds_as_ionic_strength_vanishes():
     # Debye–Hückel limiting law: ln γ = −ln10 · A z² √I as I → 0 (Robinson & Stokes 1959, ch. 9)
-    names = ["Na+", "Ca+2", "Cl-", "SO4-2"]
+    names = ["Na+", "Ca2+", "Cl-", "SO4^2-"]
     bound = PitzerModel().bind(species(names), np.array([25.0]))
     m = np.array([[1e-8, 1e-8, 1e-8, 1e-8]])
     strength = 0.5 * np.sum(m * np.array([1, 4, 1, 4]))
@@ -196,7 +196,7 @@ def test_pitzer_agrees_with_the_other_models_in_dilute_solution(other):
 
 
 def test_without_a_composition_only_the_debye_huckel_term_is_returned():
-    bound = PitzerModel().bind(species(["Na+", "SO4-2", "CO2"]), np.array([25.0]))
+    bound = PitzerModel().bind(species(["Na+", "SO4^2-", "CO2"]), np.array([25.0]))
     u = np.array([0.3])
     s = u[0]
     f = -float(osmotic_A_phi(25.0)) * (s / (1 + 1.2 * s) + 2 / 1.2 * math.log(1 + 1.2 * s))
@@ -249,7 +249,7 @@ def test_setschenow_coefficient_becomes_an_equivalent_lambda():
 # -- species not formed and notes ------------------------------------------------------------
 
 def test_ion_pairs_described_by_the_parameters_are_not_formed_and_are_named():
-    names = ["Na+", "SO4-2", "NaSO4-", "H+", "HSO4-"]
+    names = ["Na+", "SO4^2-", "NaSO4-", "H+", "HSO4-"]
     bound = PitzerModel().bind(species(names), np.array([25.0]))
     lng = bound.ln_gamma(np.ones(1), np.array([[1.0, 0.5, 0.0, 1e-7, 1e-8]]))[0]
     assert lng[2] == NOT_FORMED_LN_GAMMA
@@ -258,26 +258,26 @@ def test_ion_pairs_described_by_the_parameters_are_not_formed_and_are_named():
 
 
 def test_missing_pairs_are_listed_never_silently_zero():
-    names = ["Na+", "MgOH+", "Cl-", "SO4-2", "I-", "CaCO3"]
+    names = ["Na+", "MgOH+", "Cl-", "SO4^2-", "I-", "CaCO3"]
     notes = PitzerModel().bind(species(names), np.array([25.0])).notes
     text = " ".join(notes)
-    assert "MgOH+–SO4-2" in text            # MgOH+ has Cl- parameters only
+    assert "MgOH+–SO4^2-" in text            # MgOH+ has Cl- parameters only
     assert "no interaction parameters at all for I-" in text
     assert "no λ for the neutral species CaCO3" in text
     assert "Na+–Cl-" not in text
 
 
 def test_pairs_zero_by_design_are_not_reported_missing():
-    notes = PitzerModel().bind(species(["H+", "Ca+2", "OH-", "CO3-2", "Cl-"]),
+    notes = PitzerModel().bind(species(["H+", "Ca2+", "OH-", "CO3^2-", "Cl-"]),
                                np.array([25.0])).notes
-    assert not any("H+–OH-" in n or "Ca+2–CO3-2" in n for n in notes)
+    assert not any("H+–OH-" in n or "Ca2+–CO3^2-" in n for n in notes)
 
 
 def test_temperature_notes_name_what_has_no_derivative():
-    names = ["Na+", "Cl-", "SO4-2"]
+    names = ["Na+", "Cl-", "SO4^2-"]
     assert PitzerModel().bind(species(names), np.array([25.0])).notes == []
     warm = " ".join(PitzerModel().bind(species(names), np.array([37.0])).notes)
-    assert "no temperature derivatives for Na+–SO4-2" in warm
+    assert "no temperature derivatives for Na+–SO4^2-" in warm
     assert "Na+–Cl-;" not in warm and "θ, ψ and λ are 25 °C values" in warm
     hot = " ".join(PitzerModel().bind(species(names), np.array([80.0])).notes)
     assert "trusted for 0–50 °C" in hot

@@ -32,9 +32,9 @@ def test_titration_curve_marks_the_equivalence_points(titrated, tmp_path):
 
 def test_distribution_capacity_and_saturation_figures(tmp_path):
     series = sweep.pH_series({"dissolve": {"NaHCO3": 0.01}}, "4:12", points=41)
-    fig = plots.species_distribution(series, "CO3-2")
-    assert _labels(fig) == ("pH", "share of dissolved CO3-2 (%)")
-    assert {line.get_label() for line in fig.axes[0].lines} >= {"CO2", "HCO3-", "CO3-2"}
+    fig = plots.species_distribution(series, "CO3^2-")
+    assert _labels(fig) == ("pH", "share of dissolved CO3^2- (%)")
+    assert {line.get_label() for line in fig.axes[0].lines} >= {"CO2", "HCO3-", "CO3^2-"}
     fig = plots.buffer_capacity_curve(series)
     assert "mmol" in _labels(fig)[1]
     warm = sweep.temperature_series({"dissolve": {"CaCl2": 0.003, "NaHCO3": 0.005}}, "5:80",

@@ -95,7 +95,7 @@ def test_composition_dependence_and_the_flag_the_solver_reads(sit):
 
 
 def test_derivative_in_u_matches_finite_differences(sit):
-    bound = sit.SITModel().bind(species(["Ca+2", "Cl-", "CO2"], [2, -1, 0], [0, 0, 0.1]),
+    bound = sit.SITModel().bind(species(["Ca2+", "Cl-", "CO2"], [2, -1, 0], [0, 0, 0.1]),
                                 np.array([10.0, 40.0]))
     u, m = np.array([0.3, 1.1]), np.array([[0.1, 0.2, 0.01], [0.4, 0.8, 0.01]])
     h = 1e-6
@@ -111,3 +111,11 @@ def test_take_slices_per_sample_arrays_and_far_temperatures_are_noted(sit):
     assert "sit: ε are 25 °C values and were used unchanged at 5, 60 °C" in bound.notes
     a_60 = bound.A[2]
     assert a_60 > bound.A[1] > bound.A[0]  # A grows with temperature (reference-inputs §4.2)
+
+
+def test_pairs_are_found_in_any_spelling_of_the_charges(sit):
+    """The ε file writes Ca+2; the tables' species are Ca2+: the pair is found either way."""
+    table = sit.bundled_epsilon()
+    assert table.get("Ca2+", "Cl-") is table.get("Ca+2", "Cl-") is not None
+    bound = sit.SITModel().bind(species(["Ca2+", "Cl-"], [2, -1]), np.array([25.0]))
+    assert bound.epsilon[0, 1] == table.get("Ca2+", "Cl-").value

@@ -43,7 +43,7 @@ def no_plugins(monkeypatch):
 
 def review(tmp_path, name="review", log10_k=4.80, citation="Bench review 2025 (demo)"):
     path = tmp_path / f"{name}.toml"
-    path.write_text(REVIEW.format(name=name, log10_k=log10_k, citation=citation), encoding="utf-8")
+    path.write_text(REVIEW.format(name=name, log10_k=log10_k, citation=citation), encoding="utf^8-")
     return str(path)
 
 
@@ -79,7 +79,7 @@ def test_solids_with_a_saturation_index_are_listed_with_their_dissolution():
     result = ionwright.solve(RECIPE)
     calcite = by_name(result)["calcite"]
     assert calcite["kind"] == "solid"
-    assert calcite["reaction"] == "calcite = Ca+2 + CO3-2"
+    assert calcite["reaction"] == "calcite = Ca2+ + CO3^2-"
     assert calcite["temperature_method"] == "analytic"
     assert set(result.saturation_indices) <= {e["name"] for e in constants_used(result)
                                               if e["kind"] == "solid"}
@@ -123,7 +123,7 @@ def test_overrides_the_solve_did_not_use_are_named_in_one_warning(tmp_path):
         source = "review"
     ''')
     path = tmp_path / "wide.toml"
-    path.write_text(text, encoding="utf-8")
+    path.write_text(text, encoding="utf^8-")
     result = ionwright.solve({"tables": ["core", str(path)], "dissolve": {"NaCl": 0.01}})
     assert override_warnings(result) == [
         "table 'wide' also overrides 2 entries of table 'core' that this solve did not use: "

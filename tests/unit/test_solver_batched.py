@@ -16,7 +16,7 @@ from ionwright.engine._solve import component_totals
 from ionwright.inputs._recipe import read_recipe
 from ionwright.core._system import compile_system
 
-NATURAL = ["Ca+2", "Mg+2", "Na+", "K+", "Cl-", "SO4-2", "CO3-2"]
+NATURAL = ["Ca2+", "Mg2+", "Na+", "K+", "Cl-", "SO4^2-", "CO3^2-"]
 
 
 def _waters(n: int, seed: int = 3):

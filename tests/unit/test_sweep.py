@@ -76,7 +76,7 @@ def test_csv_has_a_header_and_one_row_per_point():
 
 def test_a_ph_series_gives_fractions_that_add_up():
     result = sweep.pH_series({"dissolve": {"NaH2PO4": 0.01}}, "2:12", points=21)
-    shares = result.fraction("PO4-3")
+    shares = result.fraction("PO4^3-")
     total = sum(shares.values())
     assert np.allclose(total, 1.0)
     assert np.all(result.beta > 0)

@@ -89,13 +89,13 @@ def test_unknown_component_is_named(make_table):
     extra = '''
         [species.NaSO4]
         formula = "NaSO4-"
-        from = { "Na+" = 1, "SO4-2" = 1 }
+        from = { "Na+" = 1, "SO4^2-" = 1 }
         log10_k = 0.7
         source = "test"
     '''
     with pytest.raises(TableError) as err:
         TableSet([make_table(extra)])
-    assert "'SO4-2'" in str(err.value) and "no table defines" in str(err.value)
+    assert "'SO4^2-'" in str(err.value) and "no table defines" in str(err.value)
 
 
 def test_later_table_overrides_and_the_override_is_recorded(make_table):
@@ -120,10 +120,10 @@ def test_later_table_overrides_and_the_override_is_recorded(make_table):
 
 def test_species_built_on_species_resolve_to_components_and_add_log_k(make_table):
     extra = '''
-        [components."CO3-2"]
+        [components."CO3^2-"]
         source = "test"
         [species."HCO3-"]
-        from = { "CO3-2" = 1, "H+" = 1 }
+        from = { "CO3^2-" = 1, "H+" = 1 }
         log10_k = 10.3
         source = "test"
         [species.CO2]
@@ -133,7 +133,7 @@ def test_species_built_on_species_resolve_to_components_and_add_log_k(make_table
     '''
     tables = TableSet([make_table(extra)])
     res = tables.resolve("CO2")
-    assert res.stoichiometry == {"CO3-2": 1.0, "H+": 2.0, "H2O": -1.0}
+    assert res.stoichiometry == {"CO3^2-": 1.0, "H+": 2.0, "H2O": -1.0}
     assert sum(m * lk.log10_k for _, m, lk in res.terms) == pytest.approx(16.65)
 
 
@@ -157,7 +157,7 @@ def test_bundled_core_table_loads_and_balances():
     from ionwright import load_tables
 
     tables = load_tables(["core"])
-    assert {"H+", "H2O", "CO3-2", "PO4-3", "Ca+2"} <= set(tables.components)
+    assert {"H+", "H2O", "CO3^2-", "PO4^3-", "Ca2+"} <= set(tables.components)
     assert {"calcite", "gypsum", "dolomite"} <= set(tables.solids)
     assert tables.problems() == []
 

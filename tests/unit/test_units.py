@@ -84,11 +84,11 @@ def test_wrong_dimension_names_the_key_and_what_it_needs():
 @pytest.mark.parametrize("basis, target, per_mole", [
     ("N", "NO3-", 1.0),        # one N per nitrate
     ("N", "NH4+", 1.0),
-    ("P", "PO4-3", 1.0),
+    ("P", "PO4^3-", 1.0),
     ("SiO2", "H4SiO4", 1.0),   # one Si each
     ("N", "N2O5", 2.0),        # two N per N2O5
-    ("CaCO3", "Ca+2", 1.0),    # shared Ca
-    ("CaCO3", "Mg+2", 1.0),    # by equivalents: 2 eq per mol of each
+    ("CaCO3", "Ca2+", 1.0),    # shared Ca
+    ("CaCO3", "Mg2+", 1.0),    # by equivalents: 2 eq per mol of each
     ("CaCO3", "Na+", 0.5),
 ])
 def test_basis_moles_per_mole(basis, target, per_mole):

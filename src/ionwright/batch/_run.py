@@ -118,10 +118,10 @@ def plan_columns(headers: Sequence[str], tables: TableSet, species: Sequence[str
     else:
         known = set(tables.components) | set(tables.species)
         for name in species:
-            if name not in known:
+            if tables.species_name(name) not in known:
                 raise UnknownNameError("species", name, known,
                                        "`ionwright tables show species` lists them")
-        chosen = tuple(species)
+        chosen = tuple(tables.species_name(name) for name in species)
     plan = Plan(columns, widest.components, tuple(chosen), solids)
     clash = sorted(set(plan.output_columns()) & {c.header for c in columns})
     if clash:
@@ -160,7 +160,7 @@ def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Colu
         return Column(header, "amount", name, unit,
                       problem=f"{unit!r} is not a unit ionwright knows ({exc.hint})")
     if name in NAMED_KEYS or name == "alkalinity":
-        brings = ("CO3-2",) if name == "alkalinity" else ()
+        brings = ("CO3^2-",) if name == "alkalinity" else ()
         return Column(header, "analysis", name, unit, components=brings)
     try:
         component = map_analyte(name, tables, where)[0]

@@ -17,20 +17,10 @@ Hydrates
     lone ``0`` count or inside a hydrate multiplier; anywhere else it is a hydrate dot,
     so ``Fe1.5O2`` reads as ``Fe·5O2``: decimal counts of one or more cannot be written.
 Charge
-    Never ambiguous: ``Ca+2``, ``CO3-2``, ``Fe(CN)6-3``; ``CO3^2-``, ``CO3^-2``, ``Na^+``;
-    ``CO3[2-]``, ``CO3[-2]``; repeated signs ``Ca++``, ``CO3--``, ``Na+``, ``Cl-``;
-    Unicode superscripts ``Ca²⁺``, ``CO₃²⁻``, ``NH₄⁺``, ``⁺²`` (a lone superscript sign
-    after plain digits leaves those digits as a count). The minus sign ``−`` reads as
-    ``-``. The electron is ``e-`` (charge −1, no elements).
-
-    Ambiguous, resolved by this rule: plain digits followed by a single sign at the end
-    (``SO42-``). If there are two or more digits, the last digit is the charge and the
-    rest the count (``SO42-`` is SO4 with 2−, also ``HPO42-``, ``UO22+``); if there is
-    one digit and the body before it is a single element symbol, the digit is the charge
-    (``Ca2+``, ``Fe3+``, ``S2-``); otherwise the digit is a count and the charge is ±1
-    (``NH4+``, ``H2PO4-``, ``NO3-``, ``B(OH)4-``). So ``I3-`` is I with 3−,
-    ``FeOH2+`` is FeOH2 with 1+, ``C12H22O11-`` is C12H22O1 with 1− and ``[Fe(CN)6]4-``
-    is four Fe(CN)6 with 1−: write ``I3-1``, ``FeOH+2``, ``C12H22O11-1``, ``[Fe(CN)6]-4``.
+    At the end, before the phase, read by the rules of :mod:`._names`: ``Ca2+``,
+    ``CO3^2-``, ``HCO3-`` (the way ionwright writes them), the older ``Ca+2``, ``CO3-2``,
+    ``Ca++``, bracketed ``CO3[2-]`` and Unicode superscripts ``CO₃²⁻``. The minus sign
+    ``−`` reads as ``-``. The electron is ``e-`` (charge −1, no elements).
 
 Two :class:`Formula` objects are equal when their elements, charge and phase are equal,
 whatever spelling they were read from (``Ca2+`` equals ``Ca+2``); :meth:`Formula.hill`
@@ -50,6 +40,7 @@ from typing import NoReturn
 
 from ._atomic_weights import ATOMIC_NUMBERS, STANDARD_ATOMIC_WEIGHTS
 from ..errors import FormulaError, close_matches
+from ._names import read_charge, write_charge
 
 #: Phase labels a formula may end with, as in ``CO2(g)``.
 PHASES: tuple[str, ...] = ("aq", "g", "s", "l")
@@ -59,29 +50,12 @@ _SUBSCRIPT_DIGITS = "₀₁₂₃₄₅₆₇₈₉"
 _SUPERSCRIPT_DIGITS = "⁰¹²³⁴⁵⁶⁷⁸⁹"
 _MINUS_SIGNS = str.maketrans({"−": "-"})
 _SUBSCRIPTS_TO_ASCII = str.maketrans(dict(zip(_SUBSCRIPT_DIGITS, _ASCII_DIGITS)))
-_SUPERSCRIPTS_TO_ASCII = str.maketrans(
-    {**dict(zip(_SUPERSCRIPT_DIGITS, _ASCII_DIGITS)), "⁺": "+", "⁻": "-"})
 _HYDRATE_DOTS = "·•∙⋅*."
 _CLOSING = {"(": ")", "[": "]"}
 _CHARGE_CHARS = "+-^⁺⁻" + _SUPERSCRIPT_DIGITS
 
 _PHASE_AT_END = re.compile(r"\((aq|g|s|l)\)$")
 _PHASE = re.compile(r"\((aq|g|s|l)\)")
-_SUP = f"[{_SUPERSCRIPT_DIGITS}]"
-# Charge forms that cannot be misread, tried in this order (caret and bracket forms
-# before the bare "-2", which would otherwise match the tail of "^-2").
-_UNAMBIGUOUS_CHARGES = tuple(re.compile(p) for p in (
-    rf"(?P<digits>{_SUP}*)(?P<signs>[⁺⁻]+)$",
-    rf"(?P<signs>[⁺⁻])(?P<digits>{_SUP}+)$",
-    r"\[(?P<digits>[0-9]*)(?P<signs>[+-]+)\]$",
-    r"\[(?P<signs>[+-])(?P<digits>[0-9]+)\]$",
-    r"\^(?P<digits>[0-9]*)(?P<signs>[+-]+)$",
-    r"\^(?P<signs>[+-])(?P<digits>[0-9]+)$",
-    r"(?P<signs>[+-])(?P<digits>[0-9]+)$",
-))
-_TRAILING_SIGNS = re.compile(r"(?P<digits>[0-9]*)(?P<signs>[+-]+)$")
-_SINGLE_SYMBOL = re.compile(r"[A-Z][a-z]?")
-_TRAILING_DIGITS = re.compile(r"[0-9]+$")
 
 
 def _hill_key(symbols: Iterable[str]):
@@ -172,38 +146,22 @@ class Formula:
         return math.fsum(terms)
 
     def hill(self) -> str:
-        """The formula in Hill order with its charge and phase, e.g. ``CH3O2-``, ``CO3-2``.
+        """The formula in Hill order with its charge and phase, e.g. ``CH3O2-``, ``CO3^2-``.
 
-        Charges of two or more are written ``+2``/``-2``, which is never ambiguous; a
-        charge of one is a bare sign unless that would be misread (``O2-1``,
-        ``C12H22O11-1``). Decimal
+        The charge is written as :func:`._names.write_charge` writes it, so that it reads
+        back unchanged (``Ca2+``, ``O2^2-``, ``C12H22O11^-``). Decimal
         counts of one or more (from hydrates such as ``CaSO4·0.5H2O``: ``CaHO4.5S``) are
         for display only: read back, their ``.`` is a hydrate dot.
         """
         body = "".join(symbol + _format_count(n) for symbol, n in self.elements.items())
         body = body or "e"
-        return body + _format_charge(self.charge, body) + (f"({self.phase})" if self.phase else "")
+        return body + write_charge(body, self.charge) + (f"({self.phase})" if self.phase else "")
 
 
 def _format_count(n: float) -> str:
     if n == 1:
         return ""
     return str(int(n)) if n.is_integer() else format(n, ".12g")
-
-
-def _format_charge(charge: int, body: str) -> str:
-    if charge == 0:
-        return ""
-    sign = "+" if charge > 0 else "-"
-    return sign if abs(charge) == 1 and _bare_sign_reads_back(body) else f"{sign}{abs(charge)}"
-
-
-def _bare_sign_reads_back(body: str) -> bool:
-    """Whether *body* followed by a lone sign is read as charge ±1 (see the module rule)."""
-    digits = _TRAILING_DIGITS.search(body)
-    if digits is None:
-        return True
-    return len(digits[0]) == 1 and not _SINGLE_SYMBOL.fullmatch(body, 0, digits.start())
 
 
 def parse_formula(text: str) -> Formula:
@@ -266,34 +224,7 @@ class _Reader:
     # -- charge ----------------------------------------------------------------------
     def _charge(self, end: int) -> tuple[int, int]:
         """Charge at the end of ``raw[start:end]`` and where the body ends."""
-        for pattern in _UNAMBIGUOUS_CHARGES:
-            match = pattern.search(self.raw, self.start, end)
-            if match:
-                signs = match["signs"].translate(_SUPERSCRIPTS_TO_ASCII)
-                digits = match["digits"].translate(_SUPERSCRIPTS_TO_ASCII)
-                return self._charge_value(signs, digits, match.start()), match.start()
-        match = _TRAILING_SIGNS.search(self.raw, self.start, end)
-        if not match:
-            return 0, end
-        digits, signs, sign_at = match["digits"], match["signs"], match.start("signs")
-        if not digits or len(signs) > 1:  # Na+, CO3--: any digits are a count
-            return self._charge_value(signs, "", sign_at), sign_at
-        if len(digits) >= 2:  # SO42-: last digit is the charge
-            return self._charge_value(signs, digits[-1], sign_at - 1), sign_at - 1
-        if _SINGLE_SYMBOL.fullmatch(self.raw, self.start, match.start()):  # Ca2+
-            return self._charge_value(signs, digits, match.start()), match.start()
-        return self._charge_value(signs, "", sign_at), sign_at  # NH4+
-
-    def _charge_value(self, signs: str, digits: str, at: int) -> int:
-        if len(set(signs)) > 1:
-            self.fail(at, f"the charge {signs!r} mixes + and -")
-        if digits and len(signs) > 1:
-            self.fail(at, "write the charge as a number with one sign (2-) or as repeated "
-                          "signs (--), not both")
-        magnitude = int(digits) if digits else len(signs)
-        if magnitude == 0:
-            self.fail(at, "a charge of 0 is written by leaving the charge out")
-        return magnitude if signs[0] == "+" else -magnitude
+        return read_charge(self.raw, self.start, end)
 
     # -- body --------------------------------------------------------------------------
     def _body(self, end: int) -> dict[str, Fraction]:
@@ -347,7 +278,7 @@ class _Reader:
         phase = _PHASE.match(self.flat, self.pos, self.stop)
         if phase:
             self.fail(self.pos, f"the phase {phase[0]} must come last, after the charge, "
-                                f"as in Ca+2(aq)")
+                                f"as in Ca2+(aq)")
         self.pos += 1
         inner = self._sequence(opened_at)
         if self.pos >= self.stop:

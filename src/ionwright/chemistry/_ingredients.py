@@ -20,7 +20,7 @@ from ..errors import FormulaError, RecipeError, UnknownNameError
 from ._formula import parse_formula
 from ._tableset import TableSet
 
-CARBONATE = "CO3-2"
+CARBONATE = "CO3^2-"
 BASIS = ("H+", "H2O")
 MAX_SPLIT_PARTS = 5
 

@@ -77,7 +77,7 @@ class LogK:
 
 @dataclass(frozen=True)
 class Component:
-    """A basis entity that species are formed from (H+, H2O, Ca+2, CO3-2, Tris …)."""
+    """A basis entity that species are formed from (H+, H2O, Ca2+, CO3^2-, Tris …)."""
 
     name: str
     formula: str

@@ -11,6 +11,7 @@ from dataclasses import dataclass
 from typing import Mapping, Sequence
 
 from ..errors import TableError, UnknownNameError
+from ._names import canonical_name
 from ._records import Component, ConstantTable, LogK, Phase, Reagent, Species
 
 KINDS = ("components", "species", "solids", "gases", "reagents")
@@ -86,7 +87,8 @@ class TableSet:
         return sorted({r.name for r in self.reagents.values()})
 
     def entry(self, name: str) -> Component | Species:
-        """A component or species by name."""
+        """A component or species by name, in any spelling of its charge (``Ca+2``)."""
+        name = self.species_name(name)
         if name in self.components:
             return self.components[name]
         if name in self.species:
@@ -95,8 +97,18 @@ class TableSet:
                                [*self.components, *self.species],
                                "`ionwright tables show NAME` lists what a table defines")
 
+    def species_name(self, name: str) -> str:
+        """*name* as this set spells it: a component or species given in another spelling
+        of its charge (``CO3-2`` for ``CO3^2-``) gets the set's spelling; other names are
+        returned unchanged."""
+        if name in self.components or name in self.species:
+            return name
+        return canonical_name(name)
+
     def resolve(self, name: str, kind: str = "species") -> Resolved:
         """Express a component, species, solid or gas in components, summing log K terms."""
+        if kind == "species":
+            name = self.species_name(name)
         key = f"{kind}:{name}"
         if key not in self._resolved:
             self._resolved[key] = self._resolve(name, kind, ())

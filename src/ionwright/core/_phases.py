@@ -12,7 +12,7 @@ rightly refuses non-positive totals; so the amounts are found by Newton's method
 instead, whose Jacobian Pᵀ (∂y/∂T) P comes from the implicit-function theorem on the
 converged mass balances (:mod:`ionwright.sensitivity`). It is symmetric positive definite
 when the solids present are linearly independent: the phase rule. The active set follows
-DESIGN.md: ``"equilibrate"`` solids are present in excess; ``"precipitate-only"`` solids
+DESIGN.md: ``"equilibrate"`` solids are present in excess; ``"may-form"`` solids
 join when supersaturated and leave when their precipitated amount would turn negative; a
 solid given as an amount leaves when it has all dissolved. The mass of water is held at
 1 kg: water released or taken up by a phase (gypsum's two waters) is not added.
@@ -46,9 +46,11 @@ from ..chemistry._tableset import Resolved, TableSet
 
 LN10 = math.log(10.0)
 EQUILIBRATE = "equilibrate"
-PRECIPITATE_ONLY = "precipitate-only"
+MAY_FORM = "may-form"
 AMOUNT = "amount"
-SOLID_WORDS = (EQUILIBRATE, PRECIPITATE_ONLY)
+SOLID_WORDS = (EQUILIBRATE, MAY_FORM)
+#: Older words for a mode, still read, with a note in the result that names the new word.
+RENAMED_SOLID_WORDS = {"precipitate-only": MAY_FORM}
 
 ATM_PER_UNIT = {"atm": 1.0, "matm": 1e-3, "uatm": 1e-6, "µatm": 1e-6, "μatm": 1e-6,
                 "bar": 1 / 1.01325, "mbar": 1e-3 / 1.01325, "kPa": 1 / 101.325,
@@ -99,6 +101,7 @@ class PhaseChoice:
 
     solids: tuple[SolidChoice, ...] = ()
     gases: tuple[GasChoice, ...] = ()
+    notes: tuple[str, ...] = ()       # renamed words read, for the result's warnings
 
     def __bool__(self) -> bool:
         return bool(self.solids or self.gases)
@@ -111,7 +114,12 @@ def read_phases(raw: Mapping[str, Any], tables: TableSet, origin: str = "(mappin
               for name, value in _table(raw, "solids", origin).items()]
     gases = [_gas_choice(name, value, tables, origin)
              for name, value in _table(raw, "gases", origin).items()]
-    return PhaseChoice(tuple(s for s in solids if s is not None), tuple(gases))
+    notes = tuple(dict.fromkeys(
+        f"solid mode {old!r} is now called {new!r}; the old word is still read"
+        for old, new in RENAMED_SOLID_WORDS.items()
+        for value in _table(raw, "solids", origin).values()
+        if isinstance(value, str) and value.strip().lower() == old))
+    return PhaseChoice(tuple(s for s in solids if s is not None), tuple(gases), notes)
 
 
 def _table(raw: Mapping[str, Any], key: str, origin: str) -> Mapping[str, Any]:
@@ -128,8 +136,11 @@ def _solid_choice(name: str, value: Any, tables: TableSet, origin: str) -> Solid
         raise UnknownNameError("solid", name, tables.solids,
                                "`ionwright tables show solids` lists them")
     where = f"{origin} [solids] {name!r}"
-    if isinstance(value, str) and value.strip().lower() in SOLID_WORDS:
-        return SolidChoice(name, value.strip().lower(), given=value)
+    if isinstance(value, str):
+        word = value.strip().lower()
+        word = RENAMED_SOLID_WORDS.get(word, word)
+        if word in SOLID_WORDS:
+            return SolidChoice(name, word, given=value)
     amount = _solid_amount(value, tables.solids[name].formula, where)
     if amount == 0.0:
         return None
@@ -138,7 +149,7 @@ def _solid_choice(name: str, value: Any, tables: TableSet, origin: str) -> Solid
 
 def _solid_amount(value: Any, formula: str, where: str) -> float:
     """mol per kg of water from a number (mol/kg), ``"2 g"``, ``"5 mmol"`` and the like."""
-    hint = ('"equilibrate" (in excess), "precipitate-only", or an amount per kg of water '
+    hint = ('"equilibrate" (in excess), "may-form", or an amount per kg of water '
             'such as "2 g", "5 mmol" or 0.01 (mol)')
     if isinstance(value, (int, float)) and not isinstance(value, bool):
         number, unit = float(value), "mol"
@@ -195,13 +206,13 @@ def log10_pressure(value: Any, where: str = "pressure") -> float:
 def components_needed(choice: PhaseChoice, tables: TableSet) -> set[str]:
     """Components that gases and dissolving solids can bring into solution.
 
-    A ``"precipitate-only"`` solid brings nothing: it forms only from what is there.
+    A ``"may-form"`` solid brings nothing: it forms only from what is there.
     """
     out: set[str] = set()
     for gas in choice.gases:
         out |= set(tables.resolve(gas.name, "gases").stoichiometry)
     for solid in choice.solids:
-        if solid.mode != PRECIPITATE_ONLY:
+        if solid.mode != MAY_FORM:
             out |= set(tables.resolve(solid.name, "solids").stoichiometry)
     return out - {WATER, PROTON}
 
@@ -476,8 +487,8 @@ class _Work:
         self.log10_k = (np.array([s.log10_k(self.t_C) for s in self.solids]).T if m
                       else np.zeros((n, 0)))
         mode = np.array([x.mode for x in self.modes], dtype=object)
-        self.precipitate_only = mode == PRECIPITATE_ONLY
-        self.ceiling = np.where(self.precipitate_only, 0.0, np.inf)[None, :].repeat(n, 0)
+        self.may_form = mode == MAY_FORM
+        self.ceiling = np.where(self.may_form, 0.0, np.inf)[None, :].repeat(n, 0)
         for k, x in enumerate(self.modes):
             if x.mode == AMOUNT:
                 self.ceiling[:, k] = x.amount_mol_per_kg
@@ -514,7 +525,7 @@ class _Work:
         xi = np.zeros((n, m))
         present = np.zeros((n, m), dtype=bool)
         if m:
-            supply = ~self.precipitate_only[None, :]
+            supply = ~self.may_form[None, :]
             absent = supply & ~(self.room(xi, np.arange(n)) > 0)
             xi = np.where(absent, np.minimum(START_AMOUNT, self.ceiling), 0.0)
             present = np.broadcast_to(supply, (n, m)).copy()
@@ -705,7 +716,7 @@ def describe(state: PhaseEquilibrium, k: int) -> dict[str, dict[str, Any]]:
             entry["left_mol_per_kg"] = mode.amount_mol_per_kg - xi
         out[solid.name] = entry
     for name, missing in state.skipped.items():
-        out[name] = {"kind": "solid", "mode": PRECIPITATE_ONLY, "state": "cannot form",
+        out[name] = {"kind": "solid", "mode": MAY_FORM, "state": "cannot form",
                      "into_solution_mol_per_kg": 0.0, "into_solution_g_per_kg": 0.0,
                      "needs": missing}
     for g, gas in enumerate(state.basis.gases):

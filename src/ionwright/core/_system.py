@@ -134,7 +134,9 @@ def _span(lo: float, hi: float) -> str:
 def compile_system(tables: TableSet, present: Iterable[str]) -> ChemicalSystem:
     """The system of every species that forms from the *present* components (plus H+, H2O).
 
-    Systems are immutable, so each is compiled once per table set and reused.
+    Components may be named in any spelling of their charge (``Ca+2``); the system uses
+    the tables' spelling (``Ca2+``). Systems are immutable, so each is compiled once per
+    table set and reused.
     """
     present = frozenset(present) - {WATER, PROTON}
     known = tables.memo.setdefault("system", {})
@@ -144,6 +146,7 @@ def compile_system(tables: TableSet, present: Iterable[str]) -> ChemicalSystem:
 
 
 def _compile(tables: TableSet, present: frozenset[str]) -> ChemicalSystem:
+    present = frozenset(tables.species_name(c) for c in present) - {WATER, PROTON}
     components = (PROTON, *sorted(present, key=_component_order))
     allowed = set(components) | {WATER}
     resolved = [tables.resolve(c) for c in components]

@@ -2,7 +2,9 @@
 
 The loader checks what one file can check on its own (syntax, keys, types, formulas,
 ranges, sources); references between tables and reaction balance are checked when
-tables are merged (:mod:`ionwright.tables.tableset`).
+tables are merged (:mod:`ionwright.chemistry._tableset`). Names of components and
+species, and the names reactions refer to, are written the way ionwright writes them
+(:func:`~ionwright.chemistry._names.canonical_name`: ``Ca+2`` in a file becomes ``Ca2+``).
 """
 
 from __future__ import annotations
@@ -19,6 +21,7 @@ else:  # pragma: no cover
 
 from ..errors import FormulaError, TableError
 from ..chemistry._formula import parse_formula
+from ..chemistry._names import canonical_name
 from ..chemistry._records import Component, ConstantTable, LogK, Phase, Reagent, Species, frozen_map
 
 FORMAT_VERSION = 1
@@ -33,6 +36,8 @@ _ALLOWED = {
     "reagents": _COMMON | {"makes", "aliases"},
 }
 _SECTIONS = {"about", "sources", *_ALLOWED}
+#: Sections whose entry names carry a charge, and are written the one way ionwright does.
+_CHARGED_NAMES = {"components", "species"}
 _TOML_POSITION = re.compile(r"\(at line (\d+), column (\d+)\)")
 
 
@@ -118,9 +123,16 @@ class _Builder:
         if not isinstance(entries, dict):
             self.problems.append(f"[{section}] must be a table of entries")
             return {}
-        out = {}
-        for name, entry in entries.items():
+        out: dict[str, Any] = {}
+        spelled: dict[str, str] = {}
+        for given, entry in entries.items():
+            name = canonical_name(given) if section in _CHARGED_NAMES else given
             where = f"{section[:-1] if section != 'species' else 'species'} {name!r}"
+            if name in spelled:
+                self.problems.append(f"{where}: written both {spelled[name]!r} and {given!r}; "
+                                     f"keep one")
+                continue
+            spelled[name] = given
             if not isinstance(entry, dict):
                 self.problems.append(f"{where}: must be a table, got {entry!r}")
                 continue
@@ -177,7 +189,14 @@ class _Builder:
             self.problems.append(f"{where}: {key} coefficient of {bad[0]!r} must be a non-zero "
                                  f"number, got {value[bad[0]]!r}")
             return None
-        return {k: float(v) for k, v in value.items()}
+        out: dict[str, float] = {}
+        for k, v in value.items():
+            name = canonical_name(k)
+            if name in out:
+                self.problems.append(f"{where}: {key} names {name!r} twice (as {k!r} too)")
+                return None
+            out[name] = float(v)
+        return out
 
     def _logk(self, where: str, entry: dict) -> LogK | None:
         log10_k = self._number(where, entry, "log10_k", required=True)

@@ -24,6 +24,7 @@ else:  # pragma: no cover
 
 from ..errors import FormulaError, TableError
 from ..chemistry._formula import parse_formula
+from ..chemistry._names import canonical_name
 
 FORMAT_VERSION = 1
 BUNDLED_FILE = "pitzer.toml"
@@ -90,7 +91,32 @@ def parse_parameters(text: str, origin: str) -> PitzerParameters:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise TableError(origin, [f"TOML syntax error: {exc}"]) from None
-    return _ParameterReader(data, origin).read()
+    return _ParameterReader(_with_canonical_names(data), origin).read()
+
+
+#: Keys of a parameter entry that name species, written as ionwright writes them.
+_NAME_KEYS = ("cation", "anion", "neutral", "ion", "species")
+
+
+def _with_canonical_names(data: dict[str, Any]) -> dict[str, Any]:
+    """*data* with every species name of its entries written the one way ionwright does
+    (``Ca+2`` → ``Ca2+``), so that parameters meet the names of the constant tables."""
+    out = dict(data)
+    for section, entries in data.items():
+        if section in ("about", "sources") or not isinstance(entries, list):
+            continue
+        out[section] = [_canonical_entry(e) if isinstance(e, dict) else e for e in entries]
+    return out
+
+
+def _canonical_entry(entry: dict[str, Any]) -> dict[str, Any]:
+    out = dict(entry)
+    for key in _NAME_KEYS:
+        if isinstance(out.get(key), str):
+            out[key] = canonical_name(out[key])
+    if isinstance(out.get("ions"), list):
+        out["ions"] = [canonical_name(i) if isinstance(i, str) else i for i in out["ions"]]
+    return out
 
 
 @lru_cache(maxsize=1)

@@ -30,6 +30,7 @@ from ._target import Workbench, find_dose, read_stock, split_name_and_quantity, 
 from ..engine._solve import load_tables
 from ..errors import IonwrightError, RecipeError, UnknownNameError, UnreachableTargetError
 from ..chemistry._ingredients import Makeup, makeup
+from ..chemistry._names import split_name
 from ..plugins._registry import Registry, default_registry
 from ..inputs._recipe import (DISSOLVE_DIMENSIONS, check_ph, check_temperature, entry_for,
                               mix, read_recipe)
@@ -39,9 +40,9 @@ from ..core._system import PROTON, WATER, log10_k_at
 from ..inputs._units import expect, parse_quantity
 
 #: Buffer families named by their anion rather than by a reagent.
-FAMILIES = {"phosphate": "PO4-3", "acetate": "CH3COO-", "citrate": "Cit-3",
-            "carbonate": "CO3-2", "borate": "B(OH)4-", "phthalate": "Phthalate-2",
-            "sulfate": "SO4-2"}
+FAMILIES = {"phosphate": "PO4^3-", "acetate": "CH3COO-", "citrate": "Cit^3-",
+            "carbonate": "CO3^2-", "borate": "B(OH)4-", "phthalate": "Phthalate^2-",
+            "sulfate": "SO4^2-"}
 COUNTER_IONS = ("Na+", "K+", "Cl-")
 DRIFT_STEP_C = 0.5          # half-width of the temperature difference for the drift
 CONCENTRATION_DIMENSIONS = ("molarity", "molality")
@@ -117,7 +118,7 @@ def buffer_forms(component: str, tables, cation: str = "Na+") -> list[BufferForm
         found[(protons, name)] = BufferForm(name, made, protons)
     entry = tables.components[component]
     if "C" not in entry.elements and entry.charge < 0:
-        body = entry.formula.split("-")[0].split("+")[0]
+        body = split_name(entry.formula)[0]
         metal = cation.rstrip("+")
         for protons in range(-entry.charge + 1):
             metals = -entry.charge - protons

@@ -120,7 +120,8 @@ class Workbench:
         fixed = self.fixed() if fixed is None else fixed
         state = equilibrate(self.system, self.tables, totals, bound, t, self.choice,
                             np.broadcast_to(fixed, totals.shape))
-        state.notes = [*state.equilibrium.notes, *self.system.temperature_notes(t)]
+        state.notes = [*state.equilibrium.notes, *self.system.temperature_notes(t),
+                       *self.choice.notes]
         state.traced = traced
         return state
 

@@ -23,7 +23,7 @@ NITROGEN = parse_formula("N")
 CALCITE = "calcite"
 _CO2 = parse_formula("CO2")
 _AMMONIA = parse_formula("NH3")
-_HARDNESS_IONS = (parse_formula("Ca+2"), parse_formula("Mg+2"))
+_HARDNESS_IONS = (parse_formula("Ca2+"), parse_formula("Mg2+"))
 _BICARBONATE = parse_formula("HCO3-")
 KEYS = ("charge_balance_error_percent", "alkalinity_mg_per_L_as_CaCO3",
         "hardness_mg_per_L_as_CaCO3", "log10_pCO2_atm", "unionized_ammonia_fraction",
@@ -35,7 +35,7 @@ def alkalinity_weights(system: ChemicalSystem, t_C: float) -> np.ndarray:
 
     Total alkalinity = Σ weight·molality. Each acid–base component gets a zero level:
     the protonated form of its own series that prevails at pH 4.5 (H2CO3*, H2PO4-,
-    NH4+, H2S, B(OH)3, H4SiO4, SO4-2, F-), which is Dickson's rule that acids with
+    NH4+, H2S, B(OH)3, H4SiO4, SO4^2-, F-), which is Dickson's rule that acids with
     pK > 4.5 are counted with their conjugate bases. A species' weight is its zero-level
     proton content minus its protons: HCO3- 1, CO3-2 2, OH- 1, H+ −1, CaCO3 2, HSO4- −1.
 

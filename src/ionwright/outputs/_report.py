@@ -1,7 +1,12 @@
-"""Plain-text report of a result: what a chemist reads first, then the detail."""
+"""Plain-text report of a result: what a chemist reads first, then the detail.
+
+Species are shown in their pretty form (``CO₃²⁻``); JSON and tables keep the ASCII form
+(``CO3^2-``), see :mod:`ionwright.chemistry._names`.
+"""
 
 from __future__ import annotations
 
+from ..chemistry._names import pretty_name
 from ._derived import report_lines as derived_lines
 from ..core._phases import phase_lines
 from ._provenance import constants_section
@@ -28,7 +33,7 @@ def text_report(result) -> str:
     ]
     rows = [row for row in r.species_rows() if row["molality"] >= MIN_SHOWN_MOLALITY]
     for row in rows[:SPECIES_SHOWN]:
-        lines.append(f"{row['name']:<16}{row['molality']:12.4e}{row['activity']:12.4e}"
+        lines.append(f"{pretty_name(row['name']):<16}{row['molality']:12.4e}{row['activity']:12.4e}"
                      f"{row['log_gamma']:9.3f}")
     hidden = len(r.species_rows()) - min(len(rows), SPECIES_SHOWN)
     if hidden:
@@ -38,8 +43,9 @@ def text_report(result) -> str:
     if dist:
         lines += ["", "where each component is (share of its total)"]
         for comp, shares in dist.items():
-            parts = [f"{name} {100 * f:.1f} %" for name, f in shares.items() if f >= 0.001]
-            lines.append(f"  {comp:<12} " + ", ".join(parts))
+            parts = [f"{pretty_name(name)} {100 * f:.1f} %" for name, f in shares.items()
+                     if f >= 0.001]
+            lines.append(f"  {pretty_name(comp):<12} " + ", ".join(parts))
     if r.saturation_indices:
         lines += ["", "saturation index (log IAP/Ksp; > 0 supersaturated)"]
         for name, si in r.saturation_indices.items():

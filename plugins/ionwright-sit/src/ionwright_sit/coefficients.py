@@ -18,7 +18,7 @@ from types import MappingProxyType
 from typing import Any, Mapping
 
 from ionwright import FormulaError, TableError
-from ionwright.chemistry import parse_formula
+from ionwright.chemistry import canonical_name, parse_formula
 
 FORMAT_VERSION = 1
 UNITS = "kg/mol"
@@ -48,8 +48,9 @@ class EpsilonTable:
     pairs: Mapping[frozenset, Epsilon]
 
     def get(self, ion: str, other: str) -> Epsilon | None:
-        """ε of the pair (*ion*, *other*) in either order, or None when not listed."""
-        return self.pairs.get(frozenset((ion, other)))
+        """ε of the pair (*ion*, *other*) in either order and any spelling of their charges,
+        or None when not listed."""
+        return self.pairs.get(frozenset((canonical_name(ion), canonical_name(other))))
 
     def citation(self, key: str) -> str:
         return self.sources.get(key, key)
@@ -86,7 +87,8 @@ def read_epsilon(text: str, origin: str) -> EpsilonTable:
             problems += _charge_problems(anion, -1, where)
             record = _entry(where, cation, anion, entry, sources, problems)
             if record is not None:
-                pairs[frozenset((cation, anion))] = record
+                # keyed by the names ionwright writes (Ca2+), whatever the file's spelling
+                pairs[frozenset((canonical_name(cation), canonical_name(anion)))] = record
     if problems:
         raise TableError(origin, problems)
     return EpsilonTable(about["name"], origin, MappingProxyType(dict(sources)),

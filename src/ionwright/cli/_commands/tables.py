@@ -170,11 +170,16 @@ def run_show(args: argparse.Namespace) -> int:
 
 
 def _definitions(table, name: str):
-    """(section, record) of every entry of *table* called *name* (reagents also by alias)."""
+    """(section, record) of every entry of *table* called *name* (reagents also by alias;
+    components and species in any spelling of their charge)."""
+    from ...chemistry._names import canonical_name
+
     for section in SECTIONS:
         records = getattr(table, section)
         if name in records:
             yield section, records[name]
+        elif section in ("components", "species") and canonical_name(name) in records:
+            yield section, records[canonical_name(name)]
         elif section == "reagents":
             for reagent in records.values():
                 if name.casefold() in {a.casefold() for a in (reagent.name, *reagent.aliases)}:
