@@ -39,18 +39,18 @@ def enthalpy_kJ(tables, name: str) -> float:
 
 # (entry, log K at 25 °C, tolerance, source)  — all re-read
 REREAD = [
-    ("FeOH+2", -2.19, 0.005, "Stefánsson 2007, abstract"),
+    ("FeOH^2+", -2.19, 0.005, "Stefánsson 2007, abstract"),
     ("Fe(OH)2+", -5.76, 0.005, "Stefánsson 2007, abstract"),
     ("Fe(OH)3", -14.30, 0.005, "Stefánsson 2007, abstract"),
     ("Fe(OH)4-", -21.71, 0.005, "Stefánsson 2007, abstract"),
-    ("Fe2(OH)2+4", -2.92, 0.005, "Stefánsson 2007, abstract"),
+    ("Fe2(OH)2^4+", -2.92, 0.005, "Stefánsson 2007, abstract"),
     ("ferrihydrite", 3.50, 0.005, "Stefánsson 2007, abstract"),
     ("FeCO3", 5.5, 0.005, "Bruno, Wersin & Stumm 1992, abstract (I = 0)"),
-    ("Fe(CO3)2-2", 7.1, 0.005, "Bruno, Wersin & Stumm 1992, abstract (I = 0)"),
+    ("Fe(CO3)2^2-", 7.1, 0.005, "Bruno, Wersin & Stumm 1992, abstract (I = 0)"),
     ("siderite", -10.8, 0.005, "Bruno, Wersin & Stumm 1992, abstract (I = 0)"),
     ("MnCO3", 4.8, 0.005, "Luo & Millero 2003, abstract"),
     ("rhodochrosite", -10.3, 0.005, "Luo & Millero 2003, abstract"),
-    ("AlOH+2", -4.98, 0.005, "Brown & Ekberg 2016 via Wikipedia 'Hydrolysis constant'"),
+    ("AlOH^2+", -4.98, 0.005, "Brown & Ekberg 2016 via Wikipedia 'Hydrolysis constant'"),
     ("Al(OH)2+", -10.63, 0.005, "Brown & Ekberg 2016 via Wikipedia 'Hydrolysis constant'"),
     ("Al(OH)3", -15.66, 0.005, "Brown & Ekberg 2016 via Wikipedia 'Hydrolysis constant'"),
     ("Al(OH)4-", -22.91, 0.005, "Brown & Ekberg 2016 via Wikipedia 'Hydrolysis constant'"),
@@ -64,7 +64,7 @@ REREAD = [
     ("witherite", -8.562, 0.002, "Busenberg & Plummer 1986, abstract"),
     ("celestite", -6.637, 0.002, "Reardon & Armstrong 1987, abstract (their expression)"),
     ("CuHCO3+", 1.8, 0.005, "Byrne & Miller 1985, abstract (I = 0)"),
-    ("HAsO4-2", 11.58, 0.005, "Raposo et al. 2002, abstract"),
+    ("HAsO4^2-", 11.58, 0.005, "Raposo et al. 2002, abstract"),
     ("H2AsO4-", 7.06, 0.005, "Raposo et al. 2002, abstract"),
     ("H3AsO4", 2.25, 0.005, "Raposo et al. 2002, abstract"),
 ]
@@ -75,7 +75,7 @@ def test_reread_log_k_at_25C(tables, name, published, tol, source):
     assert k25(tables, name) == pytest.approx(published, abs=tol), source
 
 
-@pytest.mark.parametrize("name, byrne_miller", [("CuCO3", 6.82), ("Cu(CO3)2-2", 10.6)])
+@pytest.mark.parametrize("name, byrne_miller", [("CuCO3", 6.82), ("Cu(CO3)2^2-", 10.6)])
 def test_recalled_copper_carbonate_constants_agree_with_byrne_and_miller(tables, name,
                                                                          byrne_miller):
     # Byrne & Miller (1985) Geochim. Cosmochim. Acta 49, abstract (re-read), I = 0: an
@@ -99,7 +99,7 @@ STATED_ENTHALPIES = [
     ("witherite", 2.94, 0.3, "Busenberg & Plummer 1986"),
     ("BaHCO3+", 23.26, 0.3, "Busenberg & Plummer 1986"),
     ("BaCO3", 14.84, 0.3, "Busenberg & Plummer 1986"),
-    ("FeOH+2", 42.68, 0.05, "Byrne, Luo & Young 2000 (10.2 kcal/mol)"),
+    ("FeOH^2+", 42.68, 0.05, "Byrne, Luo & Young 2000 (10.2 kcal/mol)"),
 ]
 
 
@@ -160,7 +160,7 @@ def test_lead_carbonates_from_bilinski_and_schindler_at_i_0_3(tables):
         3 * (6.80 + to_zero) + 2 * co2, abs=0.02)
     # Pb2+ + CO3 2- = PbCO3(aq) and Pb2+ + 2 CO3 2- = Pb(CO3)2 2-: both gain -2 log γ2
     assert k25(tables, "PbCO3") == pytest.approx(5.40 - 2 * g2, abs=0.01)
-    assert k25(tables, "Pb(CO3)2-2") == pytest.approx(8.86 - 2 * g2, abs=0.01)
+    assert k25(tables, "Pb(CO3)2^2-") == pytest.approx(8.86 - 2 * g2, abs=0.01)
 
 
 def test_cerussite_agrees_with_taylor_and_lopata_free_energy(tables):

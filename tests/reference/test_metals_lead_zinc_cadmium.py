@@ -36,8 +36,8 @@ SCHOCK_LIMIT_MG_L = 0.05  # the level Schock (1980) discusses
 
 def test_lead_in_weakly_acidic_fresh_water_is_the_free_ion_with_sulfate_minor():
     found = shares(solve({**FRESH_WATER, "Pb(NO3)2": TRACE}, pH=5.8), "Pb")
-    assert max(found, key=found.get) == "Pb+2"
-    assert found["Pb+2"] > 0.85
+    assert max(found, key=found.get) == "Pb2+"
+    assert found["Pb2+"] > 0.85
     assert 0.001 < found["PbSO4"] < 0.1
 
 
@@ -45,33 +45,33 @@ def test_lead_in_weakly_acidic_fresh_water_is_the_free_ion_with_sulfate_minor():
 def test_lead_in_weakly_alkaline_fresh_water_is_mostly_carbonato_species(pH):
     found = shares(solve({**FRESH_WATER, "Pb(NO3)2": TRACE}, pH=pH), "Pb")
     assert max(found, key=found.get) == "PbCO3"
-    assert found["PbCO3"] + found["Pb(CO3)2-2"] > 0.5
+    assert found["PbCO3"] + found["Pb(CO3)2^2-"] > 0.5
 
 
 def test_zinc_in_fresh_water_below_ph_8_is_the_free_ion():
     for pH in (6.0, 7.0, 7.8):
         found = shares(solve({**FRESH_WATER, "ZnSO4": TRACE}, pH=pH), "Zn")
-        assert max(found, key=found.get) == "Zn+2", pH
-        assert found["Zn+2"] > 0.5, pH
+        assert max(found, key=found.get) == "Zn2+", pH
+        assert found["Zn2+"] > 0.5, pH
 
 
 def test_zinc_carbonate_dominates_only_above_ph_8_4():
-    assert dominant(solve({**FRESH_WATER, "ZnSO4": TRACE}, pH=8.2), "Zn") == "Zn+2"
+    assert dominant(solve({**FRESH_WATER, "ZnSO4": TRACE}, pH=8.2), "Zn") == "Zn2+"
     assert dominant(solve({**FRESH_WATER, "ZnSO4": TRACE}, pH=9.0), "Zn") == "ZnCO3"
 
 
 def test_zinc_in_seawater_at_ph_8_2_is_mostly_the_free_ion():
     found = shares(solve({**SEAWATER, "ZnCl2": TRACE}, pH=8.2), "Zn")
-    assert max(found, key=found.get) == "Zn+2"
+    assert max(found, key=found.get) == "Zn2+"
     for minor in ("ZnCl+", "ZnCl2", "ZnCO3", "ZnSO4"):
-        assert found[minor] < found["Zn+2"], minor
+        assert found[minor] < found["Zn2+"], minor
 
 
 @pytest.mark.parametrize("pH", [7.6, 8.0, 8.5])
 def test_cadmium_stays_free_where_copper_and_lead_are_carbonate_complexes(pH):
     water = {**FRESH_WATER, "CdSO4": TRACE, "CuSO4": TRACE, "Pb(NO3)2": TRACE}
     result = solve(water, pH=pH)
-    assert dominant(result, "Cd") == "Cd+2"
+    assert dominant(result, "Cd") == "Cd2+"
     if pH >= 8.0:  # the carbonato species take over from pH about 7.5–8 in this water
         assert dominant(result, "Cu") == "CuCO3"
         assert dominant(result, "Pb") == "PbCO3"

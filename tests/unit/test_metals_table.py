@@ -31,19 +31,19 @@ def test_metals_overrides_nothing_in_core(tables):
 
 
 @pytest.mark.parametrize("ingredient, expected", [
-    ("FeCl3", {"Fe+3": 1, "Cl-": 3}),
-    ("FeCl3·6H2O", {"Fe+3": 1, "Cl-": 3, "H2O": 6}),
-    ("FeSO4·7H2O", {"Fe+2": 1, "SO4-2": 1, "H2O": 7}),
-    ("Al2(SO4)3·18H2O", {"Al+3": 2, "SO4-2": 3, "H2O": 18}),
-    ("alum", {"Al+3": 2, "SO4-2": 3, "H2O": 18}),
-    ("CuSO4·5H2O", {"Cu+2": 1, "SO4-2": 1, "H2O": 5}),
-    ("ZnSO4·7H2O", {"Zn+2": 1, "SO4-2": 1, "H2O": 7}),
-    ("Pb(NO3)2", {"Pb+2": 1, "NO3-": 2}),
-    ("SrCl2", {"Sr+2": 1, "Cl-": 2}),
-    ("BaCl2", {"Ba+2": 1, "Cl-": 2}),
+    ("FeCl3", {"Fe3+": 1, "Cl-": 3}),
+    ("FeCl3·6H2O", {"Fe3+": 1, "Cl-": 3, "H2O": 6}),
+    ("FeSO4·7H2O", {"Fe2+": 1, "SO4^2-": 1, "H2O": 7}),
+    ("Al2(SO4)3·18H2O", {"Al3+": 2, "SO4^2-": 3, "H2O": 18}),
+    ("alum", {"Al3+": 2, "SO4^2-": 3, "H2O": 18}),
+    ("CuSO4·5H2O", {"Cu2+": 1, "SO4^2-": 1, "H2O": 5}),
+    ("ZnSO4·7H2O", {"Zn2+": 1, "SO4^2-": 1, "H2O": 7}),
+    ("Pb(NO3)2", {"Pb2+": 1, "NO3-": 2}),
+    ("SrCl2", {"Sr2+": 1, "Cl-": 2}),
+    ("BaCl2", {"Ba2+": 1, "Cl-": 2}),
     ("NaBr", {"Na+": 1, "Br-": 1}),
     ("LiCl", {"Li+": 1, "Cl-": 1}),
-    ("Na2HAsO4·7H2O", {"Na+": 2, "AsO4-3": 1, "H+": 1, "H2O": 7}),
+    ("Na2HAsO4·7H2O", {"Na+": 2, "AsO4^3-": 1, "H+": 1, "H2O": 7}),
     ("As2O3", {"H3AsO3": 2, "H2O": -3}),
 ])
 def test_ingredients_split_into_metals_components(tables, ingredient, expected):
