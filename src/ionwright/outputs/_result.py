@@ -121,6 +121,8 @@ class Result:
     @cached_property
     def warnings(self) -> list[str]:
         out = list(self.notes)
+        if self.recipe.solution is not None:  # stocks dosed from an extrapolated density
+            out.extend(self.recipe.solution.warnings)
         limit = self.model.max_ionic_strength
         if self.ionic_strength > limit:
             out.append(f"ionic strength {self.ionic_strength:.3g} mol/kg is beyond the range "
