@@ -321,6 +321,11 @@ def mix(entries: Iterable[Entry], t_C: float, *, water_kg: float | None = None,
         if done:
             break
     else:
+        per_litre = [e.key or e.solute.name for e in entries if e.per_litre]
+        if per_litre:  # the volume grows without end: the salt alone fills the litre
+            raise RecipeError(where, f"{', '.join(per_litre)}: that much per litre leaves no "
+                              "room for water (as much as the pure salt, or more)",
+                              "check the amount and its unit (mol/L or mmol/L, g/L or mg/L)")
         raise RecipeError(where, "the amounts of water and solution did not settle "
                           f"after {MAX_ROUNDS} rounds", "the solutes may take up nearly "
                           "the whole volume; check the amounts")
