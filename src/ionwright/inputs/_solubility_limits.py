@@ -41,12 +41,12 @@ def refuse_past_any_solubility(totals: Mapping[str, float], tables: TableSet, t_
         ions = {c: nu for c, nu in resolved.stoichiometry.items() if c != WATER}
         if not ions or PROTON in ions or any(totals.get(c, 0.0) <= 0 for c in ions):
             continue
-        log_k = sum(m * float(log10_k_at(lk, t)[0]) for _, m, lk in resolved.terms)
-        if log_k < SOLUBLE_LOG_K:
+        log10_ksp = sum(m * float(log10_k_at(lk, t)[0]) for _, m, lk in resolved.terms)
+        if log10_ksp < SOLUBLE_LOG_K:
             continue
         log_iap = sum(nu * math.log10(totals[c]) for c, nu in ions.items())
-        if log_iap - log_k >= ABSURD_SI:
-            raise RecipeError(where, _problem(name, ions, totals, log_iap - log_k, log_k, t_C,
+        if log_iap - log10_ksp >= ABSURD_SI:
+            raise RecipeError(where, _problem(name, ions, totals, log_iap - log10_ksp, log10_ksp, t_C,
                                               ingredients),
                               "check each amount and its unit (mol/kg or mmol/kg, g or mg, "
                               f"mol/L or mmol/L); to model a slurry with undissolved salt, "
@@ -54,12 +54,12 @@ def refuse_past_any_solubility(totals: Mapping[str, float], tables: TableSet, t_
 
 
 def _problem(name: str, ions: Mapping[str, float], totals: Mapping[str, float], si: float,
-             log_k: float, t_C: float,
+             log10_ksp: float, t_C: float,
              ingredients: Sequence[tuple[str, Mapping[str, float]]]) -> str:
     sources = [n for n, makes in ingredients if any(makes.get(c) for c in ions)]
     amounts = ", ".join(f"{c} {totals[c]:.3g} mol/kg" for c in ions)
     nu = sum(ions.values())
-    saturation = (10.0 ** log_k / math.prod(v ** v for v in ions.values())) ** (1.0 / nu)
+    saturation = (10.0 ** log10_ksp / math.prod(v ** v for v in ions.values())) ** (1.0 / nu)
     who = " and ".join(sources) or "the ingredients"
     verb = "gives" if len(sources) == 1 else "give"
     return (f"{who} {verb} {amounts}: {name} would stand "
