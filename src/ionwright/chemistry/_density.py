@@ -19,6 +19,8 @@ Redlich, O. & Meyer, D.M. (1964) Chem. Rev. 64, 221–227 (limiting law for volu
 
 from __future__ import annotations
 
+import math
+
 from dataclasses import dataclass
 from functools import lru_cache
 from typing import Iterable, Mapping
@@ -33,6 +35,9 @@ DENSITY_METHOD = ("water (Kell 1975) + ionic partial molar volumes at 25 °C (Mi
 #: Debye–Hückel limiting slope for apparent molar volumes at 25 °C, cm³ kg^½ mol^-3/2
 #: (Millero 1972; Redlich & Meyer 1964)  # from memory
 VOLUME_SLOPE = 1.868
+
+#: Ionic strength (mol/kg) past which a volume is not computed: the water has run out.
+ABSURD_IONIC_STRENGTH = 1e6
 
 #: Intrinsic density (g/cm³) for solutes without a listed volume: a rough estimate.
 ROUGH_SOLUTE_DENSITY = 1.6
@@ -159,5 +164,8 @@ def solution_volume_L(water_kg: float, amounts: Iterable[tuple[Solute, float]],
         volume_mL += moles * solute.molar_volume
         strength += moles * solute.ionic_strength
     if water_kg > 0 and strength > 0:
-        volume_mL += VOLUME_SLOPE * water_kg * (strength / water_kg) ** 1.5
+        ratio = strength / water_kg
+        if ratio > ABSURD_IONIC_STRENGTH:  # no water left: the caller reports it
+            return math.inf
+        volume_mL += VOLUME_SLOPE * water_kg * ratio ** 1.5
     return volume_mL / 1000.0

@@ -13,6 +13,7 @@ from ..errors import ConvergenceError, RecipeError
 from ..chemistry._ingredients import Makeup, makeup
 from ..plugins._registry import Registry, default_registry
 from ..inputs._recipe import Recipe, read_recipe
+from ..inputs._solubility_limits import refuse_past_any_solubility
 from ..outputs._result import Result
 from ..core._system import PROTON, WATER, compile_system
 from ..chemistry._tableset import TableSet
@@ -101,6 +102,9 @@ def solve(recipe: str | Path | Mapping[str, Any] | Recipe,
     if negative:
         raise RecipeError(f"{recipe.origin} [dissolve]", f"the ingredients give a negative "
                           f"total of {', '.join(negative)}", "check the amounts")
+    refuse_past_any_solubility(totals, tables, recipe.temperature_C,
+                               [(m.name, m.per_mole) for m in makeups],
+                               f"{recipe.origin} [dissolve]")
     present = [c for c, v in totals.items() if v > 0 and c != PROTON]
     system = compile_system(tables, present)
     t = np.array([recipe.temperature_C])

@@ -30,7 +30,9 @@ else:  # pragma: no cover
 
 from ..chemistry._density import (DENSITY_METHOD, WATER_MOLAR_MASS, Solute, component_solute,
                       ingredient_solute, solution_volume_L, water_density)
+from ..data._stock_densities import StockDensity
 from ..errors import IonwrightError, RecipeError, close_matches
+from ._stock_density import estimate_warning, tabulated_density
 from ._units import Quantity, basis_moles_per_mole, expect, parse_quantity
 from ..chemistry._water import VALID_RANGE_C
 
@@ -76,6 +78,7 @@ class Solution:
     density_how: str                  # "given" or "estimated"
     conversions: tuple[Conversion, ...] = ()
     rough_volumes: tuple[str, ...] = ()
+    warnings: tuple[str, ...] = ()    # e.g. a stock density extrapolated past its table
 
     @property
     def density_g_per_mL(self) -> float:
@@ -203,6 +206,7 @@ class Entry:
     per_kg_water: float = 0.0
     per_litre: float = 0.0
     per_gram_solution: float = 0.0
+    note: str = ""                # shown beside the conversion (e.g. a stock's density)
 
     def moles(self, water_kg: float, volume_L: float, mass_g: float) -> float:
         return (self.absolute + self.per_kg_water * water_kg + self.per_litre * volume_L
@@ -317,6 +321,11 @@ def mix(entries: Iterable[Entry], t_C: float, *, water_kg: float | None = None,
         if done:
             break
     else:
+        per_litre = [e.key or e.solute.name for e in entries if e.per_litre]
+        if per_litre:  # the volume grows without end: the salt alone fills the litre
+            raise RecipeError(where, f"{', '.join(per_litre)}: that much per litre leaves no "
+                              "room for water (as much as the pure salt, or more)",
+                              "check the amount and its unit (mol/L or mmol/L, g/L or mg/L)")
         raise RecipeError(where, "the amounts of water and solution did not settle "
                           f"after {MAX_ROUNDS} rounds", "the solutes may take up nearly "
                           "the whole volume; check the amounts")
@@ -325,8 +334,8 @@ def mix(entries: Iterable[Entry], t_C: float, *, water_kg: float | None = None,
     mass = fixed_mass / (1.0 - fraction)
     moles = tuple(e.moles(water, volume, mass) for e in entries)
     rough = tuple(sorted({r for e in entries for r in e.solute.rough}))
-    conversions = tuple(Conversion(e.key, e.given, n / water) for e, n in zip(entries, moles)
-                        if e.given)
+    conversions = tuple(Conversion(e.key, e.given, n / water, note=e.note)
+                        for e, n in zip(entries, moles) if e.given)
     solution = Solution(water, volume, mass, "given" if density is not None else "estimated",
                         conversions, () if density is not None else rough)
     return Mixture(entries, moles, solution)
@@ -375,7 +384,8 @@ def _composed(data: dict[str, Any], recipe: Recipe, registry: Registry | None,
     solution = mixture.solution
     poured = tuple(Conversion(p.key, p.given, p.water_kg / solution.water_kg,
                               "kg water per kg water", p.note) for p in portions if p.key)
-    solution = replace(solution, conversions=solution.conversions + poured)
+    solution = replace(solution, conversions=solution.conversions + poured,
+                       warnings=tuple(w for p in portions for w in p.warnings))
     return replace(recipe, dissolve=mixture.molalities("ingredient"),
                     components=mixture.molalities("component"), solution=solution)
 
@@ -392,6 +402,7 @@ class Portion:
     key: str = ""
     given: str = ""
     note: str = ""
+    warnings: tuple[str, ...] = ()
 
 
 def portion_of(solution: Solution, parts: Iterable[tuple[Solute, str, float]], volume_L: float,
@@ -425,12 +436,39 @@ def _stocks(data: dict[str, Any], recipe: Recipe, tables: TableSet) -> list[Port
         volume = expect(parse_quantity(item["volume"], f"{where} volume"), ("volume",),
                         f"{where} volume")
         density = given_density(item, where)
+        tabulated = None if density is not None else tabulated_density(solute, strength, where)
+        if tabulated is not None and tabulated.mass_fraction == 1.0:  # glacial acetic acid
+            moles = 1000.0 * volume.value * tabulated.value / solute.formula.molar_mass
+            entry = Entry(solute, "ingredient", f"[[add]] {name}",
+                          f"{strength.text} × {volume.text}", absolute=moles,
+                          note=tabulated.note())
+            out.append(Portion((entry,), 0.0))
+            continue
         stock = mix([entry_for(solute, "ingredient", strength, where, "")],
-                    recipe.temperature_C, volume_L=volume.value, density=density, where=where)
+                    recipe.temperature_C, volume_L=volume.value,
+                    density=tabulated.value if tabulated else density, where=where)
+        note, warnings = _stock_density_note(name, solute, stock, density, tabulated)
         entry = Entry(solute, "ingredient", f"[[add]] {name}",
-                      f"{strength.text} × {volume.text}", absolute=stock.moles[0])
-        out.append(Portion((entry,), stock.solution.water_kg))
+                      f"{strength.text} × {volume.text}", absolute=stock.moles[0], note=note)
+        out.append(Portion((entry,), stock.solution.water_kg, warnings=warnings))
     return out
+
+
+def _stock_density_note(name: str, solute: Solute, stock: Mixture, given: float | None,
+                        tabulated: StockDensity | None) -> tuple[str, tuple[str, ...]]:
+    """How a stock's density was found (for its conversion line) and any warning."""
+    rho = stock.solution.density_g_per_mL
+    if given is not None:
+        return f"stock density {rho:.4f} g/mL as given", ()
+    if tabulated is not None:
+        warnings = () if tabulated.inside else (
+            f"stock {name!r}: {tabulated.note()}; the density may be off, give the label's "
+            f"density in [[add]] to dose it exactly",)
+        return tabulated.note(), warnings
+    fraction = stock.moles[0] * solute.molar_mass / stock.solution.mass_g
+    warning = estimate_warning(name, fraction, rho)
+    return (f"stock density {rho:.4f} g/mL estimated ({DENSITY_METHOD})",
+            (warning,) if warning else ())
 
 
 def _pours(data: dict[str, Any], recipe: Recipe, registry: Registry | None, tables: TableSet,

@@ -13,6 +13,7 @@ from ._derived import derived_quantities, solution_summary
 from ..design._compare import model_validity_notes, osmotic_coefficient, water_activity
 from ..chemistry._ingredients import Makeup
 from ..core._phases import phase_summary
+from ._supersaturation import supersaturation_warnings
 from ._provenance import constants_used, override_warnings
 from ..inputs._recipe import Recipe
 from ..core._solver import Equilibrium
@@ -121,12 +122,15 @@ class Result:
     @cached_property
     def warnings(self) -> list[str]:
         out = list(self.notes)
+        if self.recipe.solution is not None:  # stocks dosed from an extrapolated density
+            out.extend(self.recipe.solution.warnings)
         limit = self.model.max_ionic_strength
         if self.ionic_strength > limit:
             out.append(f"ionic strength {self.ionic_strength:.3g} mol/kg is beyond the range "
                        f"of the {self.model.name} model (up to about {limit:g}); results are "
                        f"less certain; compare models or use one valid at this strength")
         out.extend(model_validity_notes(self))
+        out.extend(supersaturation_warnings(self))
         if "pH" in self.recipe.fix:
             imbalance, scale = self.charge_balance
             if scale > 0 and abs(imbalance) / scale > IMBALANCE_WARNING:

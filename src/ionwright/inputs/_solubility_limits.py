@@ -1,0 +1,68 @@
+"""Refusing recipes that dissolve far more of a soluble salt than any water holds.
+
+Dissolving 30 mol/kg of NaCl is a typing slip (mmol for mol, g for mg), not a solution:
+it is refused before the solve, naming the ingredients, the solid and the way out. The
+test is deliberately an upper bound: every ion of the recipe is taken as free and ideal
+(activity = total molality, water activity 1), and a recipe is refused only when a
+*soluble* salt of the tables (log10 K ≥ :data:`SOLUBLE_LOG_K`, dissolving into plain
+ions) would stand at :data:`ABSURD_SI` or more, ten times its solubility product. Near
+the saturation of such salts activity coefficients are of order one, so the bound is
+close to the truth; a recipe merely past saturation (7 mol/kg NaCl) is solved and its
+saturation index reported with a warning (:mod:`ionwright.outputs._supersaturation`).
+A solid listed under ``[solids]`` is a slurry on purpose and is never refused.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Mapping, Sequence
+
+import numpy as np
+
+from ..chemistry._tableset import TableSet
+from ..core._system import PROTON, WATER, log10_k_at
+from ..errors import RecipeError
+
+SOLUBLE_LOG_K = -1.0     # log10 Ksp of the salts the check covers (halite 1.57, sylvite 0.90)
+ABSURD_SI = 1.0          # ideal SI at which a recipe is refused: 10 × the solubility product
+
+
+def refuse_past_any_solubility(totals: Mapping[str, float], tables: TableSet, t_C: float,
+                               ingredients: Sequence[tuple[str, Mapping[str, float]]],
+                               where: str) -> None:
+    """Raise :class:`RecipeError` when *totals* (mol/kg) put a soluble salt past reason.
+
+    *ingredients* pairs each ingredient's name with what one mole of it makes, so that
+    the message names the ingredients that bring the salt's ions.
+    """
+    t = np.array([t_C])
+    for name in sorted(tables.solids):
+        resolved = tables.resolve(name, "solids")
+        ions = {c: nu for c, nu in resolved.stoichiometry.items() if c != WATER}
+        if not ions or PROTON in ions or any(totals.get(c, 0.0) <= 0 for c in ions):
+            continue
+        log10_ksp = sum(m * float(log10_k_at(lk, t)[0]) for _, m, lk in resolved.terms)
+        if log10_ksp < SOLUBLE_LOG_K:
+            continue
+        log_iap = sum(nu * math.log10(totals[c]) for c, nu in ions.items())
+        if log_iap - log10_ksp >= ABSURD_SI:
+            raise RecipeError(where, _problem(name, ions, totals, log_iap - log10_ksp, log10_ksp, t_C,
+                                              ingredients),
+                              "check each amount and its unit (mol/kg or mmol/kg, g or mg, "
+                              f"mol/L or mmol/L); to model a slurry with undissolved salt, "
+                              f"list it under [solids] ({name} = \"equilibrate\")")
+
+
+def _problem(name: str, ions: Mapping[str, float], totals: Mapping[str, float], si: float,
+             log10_ksp: float, t_C: float,
+             ingredients: Sequence[tuple[str, Mapping[str, float]]]) -> str:
+    sources = [n for n, makes in ingredients if any(makes.get(c) for c in ions)]
+    amounts = ", ".join(f"{c} {totals[c]:.3g} mol/kg" for c in ions)
+    nu = sum(ions.values())
+    saturation = (10.0 ** log10_ksp / math.prod(v ** v for v in ions.values())) ** (1.0 / nu)
+    who = " and ".join(sources) or "the ingredients"
+    verb = "gives" if len(sources) == 1 else "give"
+    return (f"{who} {verb} {amounts}: {name} would stand "
+            f"at {10.0 ** si:.3g} × its solubility product even with every ion free and "
+            f"ideal (it saturates near {saturation:.2g} mol/kg at {t_C:g} °C); no aqueous "
+            f"solution holds that much")
