@@ -75,6 +75,16 @@ class RecipeError(IonwrightError, ValueError):
         self.where, self.problem = where, problem
 
 
+class IonPairSetError(IonwrightError, ValueError):
+    """An activity model's ion-pair rule that cannot work: no species named, no reason
+    given, or ``ion_pairs`` of the wrong type (:mod:`ionwright.activity._pairs`)."""
+
+    def __init__(self, problem: str,
+                 hint: str = "give species=(...) or made_of=(...), and a reason") -> None:
+        super().__init__(f"ion-pair rule: {problem}", hint)
+        self.problem = problem
+
+
 class UnknownNameError(IonwrightError, KeyError):
     """A name (ingredient, species, model, table, solid, gas) is not known."""
 

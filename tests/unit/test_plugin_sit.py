@@ -119,3 +119,21 @@ def test_pairs_are_found_in_any_spelling_of_the_charges(sit):
     assert table.get("Ca2+", "Cl-") is table.get("Ca+2", "Cl-") is not None
     bound = sit.SITModel().bind(species(["Ca2+", "Cl-"], [2, -1]), np.array([25.0]))
     assert bound.epsilon[0, 1] == table.get("Ca2+", "Cl-").value
+
+
+def test_sit_does_not_form_the_complexes_its_epsilons_describe(sit):
+    """ε(Na+, CO3-2) and ε(Na+, SO4-2) describe the Na–carbonate and Na–sulfate
+    interactions, so NaCO3-, NaHCO3 and NaSO4- are left out; CaCO3 has no ε and stays."""
+    import ionwright
+    from ionwright.core._system import compile_system
+
+    model = sit.SITModel()
+    tables = ionwright.load_tables(["core"])
+    system = compile_system(tables, ["Na+", "Ca+2", "CO3-2", "SO4-2"], model.ion_pairs)
+    left = {name for name, _ in system.left_out}
+    assert {"NaCO3-", "NaHCO3", "NaSO4-"} <= left
+    assert "CaCO3" in system.species and "CaSO4" in system.species
+    reasons = dict(system.left_out)
+    assert "ε(Na+, CO3-2)" in reasons["NaCO3-"]
+    only_chloride = sit.SITModel(sit.read_epsilon(GOOD, "<good>"))
+    assert compile_system(tables, ["Na+", "CO3-2"], only_chloride.ion_pairs).left_out == ()

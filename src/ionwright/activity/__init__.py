@@ -4,6 +4,7 @@ from ._base import ActivityModel, BoundModel, IonicStrengthModel, SpeciesPropert
 from ._davies import DaviesModel
 from ._debye_huckel import ExtendedDebyeHuckelModel, TruesdellJonesModel
 from ._ideal import IdealModel
+from ._pairs import FORMS_EVERY_SPECIES, IonPairSet, LeftOut
 from ._pitzer import PitzerModel
 
 BUILTIN_MODELS = (IdealModel, DaviesModel, ExtendedDebyeHuckelModel, TruesdellJonesModel,
@@ -11,4 +12,4 @@ BUILTIN_MODELS = (IdealModel, DaviesModel, ExtendedDebyeHuckelModel, TruesdellJo
 
 __all__ = ["ActivityModel", "BoundModel", "IonicStrengthModel", "SpeciesProperties",
            "BUILTIN_MODELS", "IdealModel", "DaviesModel", "ExtendedDebyeHuckelModel", "TruesdellJonesModel",
-           "PitzerModel"]
+           "PitzerModel", "IonPairSet", "LeftOut", "FORMS_EVERY_SPECIES"]

@@ -49,7 +49,11 @@ class BoundModel(Protocol):
 
 
 class ActivityModel(Protocol):
-    """A named activity model with a stated range of validity."""
+    """A named activity model with a stated range of validity.
+
+    It may also carry ``ion_pairs``, the :class:`~ionwright.activity._pairs.IonPairSet`
+    of the tables' complexes it forms (every species when absent).
+    """
 
     name: str
     title: str

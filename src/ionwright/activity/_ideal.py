@@ -1,4 +1,9 @@
-"""Ideal solution: every activity coefficient is 1 (the limit I → 0 of every model)."""
+"""Ideal solution: every activity coefficient is 1 (the limit I → 0 of every model).
+
+It forms the complexes the other ion-association models form
+(:data:`~ionwright.activity._ion_association.ION_ASSOCIATION_PAIRS`), so that moving from
+it to Davies changes the activity coefficients and nothing else.
+"""
 
 from __future__ import annotations
 
@@ -7,6 +12,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ._base import IonicStrengthModel, SpeciesProperties
+from ._ion_association import ION_ASSOCIATION_PAIRS
 
 
 @dataclass
@@ -22,6 +28,7 @@ class IdealModel:
     title = "ideal solution (γ = 1)"
     max_ionic_strength = 1e-3
     reference = "limit of infinite dilution"
+    ion_pairs = ION_ASSOCIATION_PAIRS
 
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> _BoundIdeal:
         return _BoundIdeal(species, t_C, weights=np.zeros((len(species.names), 0)))

@@ -9,8 +9,9 @@ temperature. Parameters are read from ``constants/pitzer.toml`` (schema in its h
 
 Which species exist is part of the model. Ion pairs whose association the binary
 parameters already describe (NaSO4-, MgSO4, ... listed in the parameter table) are not
-formed: the model gives them ln γ = :data:`NOT_FORMED_LN_GAMMA`, so the solver leaves
-them at a negligible molality, and a note says so. The complexes HSO4-, CaCO3, MgCO3,
+formed: :attr:`PitzerModel.ion_pairs` leaves them out of the compiled system (the result's
+``ion_pairs`` says so); a species list bound directly that still holds one gives it
+ln γ = :data:`NOT_FORMED_LN_GAMMA`, so it stays at a negligible molality. The complexes HSO4-, CaCO3, MgCO3,
 MgOH+ (Harvie, Møller & Weare's explicit ones), CaOH+ and every complex the parameters
 do not cover are kept with the formation constants of the constant table. Cation–anion
 pairs and neutral species without parameters are named in a note, never silently zero.
@@ -29,11 +30,13 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field, replace
+from functools import cached_property
 
 import numpy as np
 
 from ..chemistry._water import WATER_MOLAR_MASS_G, osmotic_A_phi
 from ._base import LN10, SpeciesProperties
+from ._pairs import IonPairSet, LeftOut
 from ..data._pitzer_table import DERIVATIVE_KEYS, PitzerParameters, bundled_parameters
 
 PITZER_B = 1.2                      # kg^½ mol^-½, Pitzer (1973)
@@ -461,6 +464,16 @@ class PitzerModel:
 
     def __init__(self, parameters: PitzerParameters | None = None) -> None:
         self._parameters = parameters
+
+    @cached_property
+    def ion_pairs(self) -> IonPairSet:
+        """The complexes this model forms: all but the parameter table's ``not_formed``."""
+        params = self.parameters
+        return IonPairSet(
+            summary="every complex of the tables except those the Pitzer parameters "
+                    "describe (the parameter table's not_formed list)",
+            left_out=tuple(LeftOut(reason=reason, species=(name,), evidence=params.origin)
+                           for name, reason in params.not_formed.items()))
 
     @property
     def parameters(self) -> PitzerParameters:

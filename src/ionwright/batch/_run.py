@@ -37,6 +37,7 @@ import numpy as np
 from ..core import _solver as solver
 from ..outputs._cautions import CORROSIVE_HIGH_PH, CORROSIVE_LOW_PH, DEFER
 from ..errors import IonwrightError, RecipeError, UnknownNameError
+from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
 from ..core._system import PROTON, WATER, ChemicalSystem, compile_system, log10_k_at
 
 if TYPE_CHECKING:
@@ -99,8 +100,10 @@ class Plan:
 
 
 def plan_columns(headers: Sequence[str], tables: TableSet, species: Sequence[str] | None = None,
-                 labels: Iterable[str] = (), text_columns: Iterable[str] = ()) -> Plan:
-    """Read every header; *species* None means every species the columns can form.
+                 labels: Iterable[str] = (), text_columns: Iterable[str] = (),
+                 ion_pairs: IonPairSet = FORMS_EVERY_SPECIES) -> Plan:
+    """Read every header; *species* None means every species the columns can form (those
+    the activity model's *ion_pairs* set forms).
 
     *labels* are carried through unread; *text_columns* (columns holding text) that name
     no ingredient are carried through too, so a sample id never invalidates a row.
@@ -109,7 +112,7 @@ def plan_columns(headers: Sequence[str], tables: TableSet, species: Sequence[str
     columns = [_read_header(str(h), tables, str(h) in labels, str(h) in text)
                for h in headers]
     present = sorted({c for col in columns for c in col.components} - {PROTON, WATER})
-    widest = compile_system(tables, present)
+    widest = compile_system(tables, present, ion_pairs)
     allowed = set(widest.components) | {WATER}
     solids = tuple(name for name in sorted(tables.solids)
                    if set(tables.resolve(name, "solids").stoichiometry) <= allowed)
@@ -351,7 +354,7 @@ def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: st
     bounds = np.flatnonzero(np.diff(group[order])) + 1
     for rows in np.split(candidates[order], bounds):
         comps = [plan.components[j] for j in np.flatnonzero(present[rows[0]])]
-        system = compile_system(tables, comps)
+        system = compile_system(tables, comps, ion_pairs_of(model))
         _solve_group(system, rows, samples, plan, tables, model, bool(fixed[rows[0]]), out,
                      threads)
     return out
@@ -512,13 +515,13 @@ def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: s
     from ..plugins._registry import default_registry
 
     registry = registry or default_registry()
-    registry.model(model)  # an unknown model is an error of the call, not of a row
+    chosen = registry.model(model)  # an unknown model is an error of the call, not of a row
     table_set = load_tables(list(tables), registry)
     text = [h for h in frame.columns if not pd.api.types.is_numeric_dtype(frame[h])
             and pd.to_numeric(frame[h], errors="coerce").isna().all()
             and frame[h].notna().any()]
     plan = plan_columns([str(h) for h in frame.columns], table_set, species, labels,
-                        [str(h) for h in text])
+                        [str(h) for h in text], ion_pairs_of(chosen))
     plan.table_names = tuple(tables)
     samples = read_samples(frame, plan, table_set, model, registry)
     solved = solve_samples(samples, plan, table_set, model, registry, threads)

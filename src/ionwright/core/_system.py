@@ -8,13 +8,14 @@ is a component whose activity is fixed by the activity model, so it has no mass 
 from __future__ import annotations
 
 from dataclasses import dataclass
-from functools import cached_property
+from functools import cached_property, partial
 from typing import Iterable
 
 import numpy as np
 
 from ..chemistry import _temperature as temperature
 from ..activity._base import SpeciesProperties
+from ..activity._pairs import FORMS_EVERY_SPECIES, IGNORED_COMPONENTS, IonPairSet
 from ._sparse import SparseRows
 from ..chemistry._records import LogK
 from ..chemistry._tableset import Resolved, TableSet
@@ -52,6 +53,8 @@ class ChemicalSystem:
     charge: np.ndarray               # (s,)
     properties: SpeciesProperties
     resolved: tuple[Resolved, ...]   # one per species
+    ion_pairs: IonPairSet = FORMS_EVERY_SPECIES   # the activity model's choice of complexes
+    left_out: tuple[tuple[str, str], ...] = ()    # (species, reason): could form, not formed
 
     @property
     def n_components(self) -> int:
@@ -131,29 +134,37 @@ def _span(lo: float, hi: float) -> str:
     return f"{lo:g}" if lo == hi else f"{lo:g}–{hi:g}"
 
 
-def compile_system(tables: TableSet, present: Iterable[str]) -> ChemicalSystem:
-    """The system of every species that forms from the *present* components (plus H+, H2O).
+def compile_system(tables: TableSet, present: Iterable[str],
+                   ion_pairs: IonPairSet = FORMS_EVERY_SPECIES) -> ChemicalSystem:
+    """The system of every species that forms from the *present* components (plus H+, H2O)
+    and that the activity model's *ion_pairs* set forms (:mod:`ionwright.activity._pairs`).
 
     Components may be named in any spelling of their charge (``Ca+2``); the system uses
     the tables' spelling (``Ca2+``). Systems are immutable, so each is compiled once per
-    table set and reused.
+    table set and pair set and reused.
     """
     present = frozenset(present) - {WATER, PROTON}
     known = tables.memo.setdefault("system", {})
-    if present not in known:
-        known[present] = _compile(tables, present)
-    return known[present]
+    key = (present, ion_pairs)
+    if key not in known:
+        known[key] = _compile(tables, present, ion_pairs)
+    return known[key]
 
 
-def _compile(tables: TableSet, present: frozenset[str]) -> ChemicalSystem:
+def _compile(tables: TableSet, present: frozenset[str], ion_pairs: IonPairSet) -> ChemicalSystem:
     present = frozenset(tables.species_name(c) for c in present) - {WATER, PROTON}
     components = (PROTON, *sorted(present, key=_component_order))
     allowed = set(components) | {WATER}
     resolved = [tables.resolve(c) for c in components]
+    left_out = []
     for name in tables.species:
         res = tables.resolve(name)
         if set(res.stoichiometry) <= allowed and name not in components:
-            resolved.append(res)
+            reason = ion_pairs.reason_left_out(name, _made_of(res), partial(_parts, tables))
+            if reason is None:
+                resolved.append(res)
+            else:
+                left_out.append((name, reason))
     col = {c: j for j, c in enumerate(components)}
     nu = np.zeros((len(resolved), len(components)))
     nu_water = np.zeros(len(resolved))
@@ -175,7 +186,21 @@ def _compile(tables: TableSet, present: frozenset[str]) -> ChemicalSystem:
         ion_size=field("ion_size", np.nan), tj_a=field("tj_a", np.nan),
         tj_b=field("tj_b", np.nan), setschenow=field("setschenow", 0.0))
     return ChemicalSystem(tables, components, props.names, nu, nu_water, charge, props,
-                          tuple(resolved))
+                          tuple(resolved), ion_pairs, tuple(left_out))
+
+
+def _made_of(res: Resolved) -> frozenset[str]:
+    """The components a species is made of, H+ and H2O aside (what ion-pair rules match)."""
+    return frozenset(c for c in res.stoichiometry if c not in IGNORED_COMPONENTS)
+
+
+def _parts(tables: TableSet, ion: str) -> frozenset[str] | None:
+    """:func:`_made_of` of the component or species *ion* (in any spelling of its charge);
+    None when no table knows it."""
+    ion = tables.species_name(ion)
+    if ion not in tables.components and ion not in tables.species:
+        return None
+    return _made_of(tables.resolve(ion))
 
 
 def _component_order(name: str) -> str:

@@ -38,6 +38,7 @@ from ..core._phases import (
 from ..plugins._registry import Registry, default_registry
 from ..inputs._recipe import Recipe, check_ph, entry_for, mix, read_recipe
 from ..outputs._result import Result
+from ..activity._pairs import ion_pairs_of
 from ..core._system import PROTON, WATER, ChemicalSystem, compile_system
 from ..inputs._units import expect, parse_quantity
 
@@ -83,7 +84,7 @@ class Workbench:
         present = {c for c, v in totals.items() if v > 0} | components_needed(choice, tables)
         for name in also:
             present |= set(makeup(name, tables).per_mole)
-        system = compile_system(tables, present - {WATER, PROTON})
+        system = compile_system(tables, present - {WATER, PROTON}, ion_pairs_of(model))
         base = np.array([totals.get(c, 0.0) for c in system.components])
         return cls(recipe, tables, model, system, choice, base, makeups, registry)
 

@@ -14,6 +14,7 @@ from ..chemistry._ingredients import Makeup, makeup
 from ..plugins._registry import Registry, default_registry
 from ..inputs._recipe import Recipe, read_recipe
 from ..inputs._solubility_limits import refuse_past_any_solubility
+from ..activity._pairs import ion_pairs_of
 from ..outputs._result import Result
 from ..core._system import PROTON, WATER, compile_system
 from ..chemistry._tableset import TableSet
@@ -106,7 +107,7 @@ def solve(recipe: str | Path | Mapping[str, Any] | Recipe,
                                [(m.name, m.per_mole) for m in makeups],
                                f"{recipe.origin} [dissolve]")
     present = [c for c, v in totals.items() if v > 0 and c != PROTON]
-    system = compile_system(tables, present)
+    system = compile_system(tables, present, ion_pairs_of(model))
     t = np.array([recipe.temperature_C])
     vector = np.array([[totals.get(c, 0.0) for c in system.components]])
     fixed = np.full_like(vector, np.nan)

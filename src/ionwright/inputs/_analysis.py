@@ -261,12 +261,14 @@ def fit_carbonate_and_balance(tables: TableSet, registry: Registry | None, model
     """
     from ..core import _solver as solver
     from ..plugins._registry import default_registry
+    from ..activity._pairs import ion_pairs_of
     from ..core._system import compile_system
 
     unknowns = ([CARBONATE] if alkalinity is not None else []) + ([balance] if balance else [])
     start = dict(totals)
-    system = compile_system(tables, [c for c, v in start.items() if v > 0] + unknowns)
     model = (registry or default_registry()).model(model_name)
+    system = compile_system(tables, [c for c, v in start.items() if v > 0] + unknowns,
+                            ion_pairs_of(model))
     weights = alkalinity_weights(system, t_C)
     base = np.array([start.get(c, 0.0) for c in system.components])
     cols = [system.components.index(c) for c in unknowns]

@@ -63,6 +63,32 @@ def constants_used(result) -> list[dict[str, Any]]:
     return out
 
 
+def ion_pairs(result) -> dict[str, Any]:
+    """The ``"ion_pairs"`` object of the JSON result: the activity model's rule, the
+    complexes its solve formed and those it left out, each with the reason."""
+    system = result.system
+    components = set(system.components)
+    return {
+        "model": result.model.name,
+        "rule": system.ion_pairs.summary,
+        "formed": [name for name in system.species if name not in components],
+        "left_out": [{"species": name, "reason": reason} for name, reason in system.left_out],
+    }
+
+
+def ion_pair_lines(result) -> list[str]:
+    """Text form of :func:`ion_pairs`: what the model formed and what it left out, and why."""
+    pairs = ion_pairs(result)
+    lines = [f"complexes of activity model {pairs['model']}: {pairs['rule']}",
+             f"  formed: {', '.join(pairs['formed']) or 'none'}"]
+    by_reason: dict[str, list[str]] = {}
+    for entry in pairs["left_out"]:
+        by_reason.setdefault(entry["reason"], []).append(entry["species"])
+    for reason, names in by_reason.items():
+        lines.append(f"  left out: {', '.join(names)} ({reason})")
+    return lines
+
+
 def override_warnings(result) -> list[str]:
     """A warning for every entry of the table set that replaces an earlier table's entry.
 
@@ -115,6 +141,10 @@ def constants_section(result) -> list[str]:
         parts = ", ".join(f"{n} {kind if n == 1 else PLURAL[kind]}" for kind, n in counts.items())
         recalled = f" ({memory[table]} from memory)" if memory[table] else ""
         lines.append(f"  {table:<16}{parts}{recalled}")
+    left_out = [name for name, _ in result.system.left_out]
+    if left_out:
+        lines.append(f"  not formed      {', '.join(left_out)} (the {result.model.name} "
+                     f"model describes them in its activity coefficients)")
     for e in entries:
         for old in e["overrides"]:
             lines.append(f"  override        {e['name']}: log K {old['log10_k_25C']:g} "
@@ -129,7 +159,7 @@ def explain(result) -> str:
              f"{getattr(result.model, 'reference', '')}",
              f"tables (later override earlier): "
              f"{', '.join(f'{tb.name} ({tb.origin})' for tb in result.tables.tables)}",
-             "",
+             "", *ion_pair_lines(result), "",
              f"constants used (log10 K: formation for species, dissolution for solids "
              f"and gases; at 25 °C and at {t:g} °C)"]
     for e in constants_used(result):

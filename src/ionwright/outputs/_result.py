@@ -14,7 +14,7 @@ from ..design._compare import model_validity_notes, osmotic_coefficient, water_a
 from ..chemistry._ingredients import Makeup
 from ..core._phases import phase_summary
 from ._supersaturation import supersaturation_warnings
-from ._provenance import constants_used, override_warnings
+from ._provenance import constants_used, ion_pairs, override_warnings
 from ..inputs._recipe import Recipe
 from ..core._solver import Equilibrium
 from ..core._system import PROTON, WATER, ChemicalSystem, log10_k_at
@@ -167,6 +167,7 @@ class Result:
             "iterations": int(self.equilibrium.iterations[0]),
             "residual": float(self.equilibrium.residual[0]),
             "constants_used": constants_used(self),
+            "ion_pairs": ion_pairs(self),
             "derived": derived_quantities(self),
             "solution": solution_summary(self),
             "phases": phase_summary(self),

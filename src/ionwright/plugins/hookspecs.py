@@ -59,7 +59,10 @@ def register_activity_models() -> Mapping[str, ActivityModel] | None:
     Called once per plugin when the registry is built. Return a mapping of model name
     (as recipes write it, e.g. ``"davies"``) to an object with ``name``, ``title``,
     ``max_ionic_strength`` (mol/kg), ``reference`` and ``bind(species, t_C)`` returning a
-    bound model (see :mod:`ionwright.activity.base`). Return None to offer nothing.
+    bound model (see :mod:`ionwright.activity.base`), and optionally ``ion_pairs``, the
+    :class:`~ionwright.activity.IonPairSet` of complexes it leaves out because its
+    coefficients describe them (:mod:`ionwright.activity._pairs`; without it the model
+    forms every species of the tables). Return None to offer nothing.
     """
 
 

@@ -28,7 +28,7 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
-from ionwright.activity import SpeciesProperties
+from ionwright.activity import IonPairSet, LeftOut, SpeciesProperties
 from ionwright.chemistry import debye_huckel_A
 
 from .coefficients import EpsilonTable, bundled_epsilon
@@ -85,6 +85,7 @@ class SITModel:
 
     def __init__(self, table: EpsilonTable | None = None) -> None:
         self.table = table if table is not None else bundled_epsilon()
+        self.ion_pairs = described_pairs(self.table)
 
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> BoundSIT:
         t_C = np.atleast_1d(np.asarray(t_C, dtype=float))
@@ -127,3 +128,19 @@ class SITModel:
             notes.append(f"sit: ε are 25 °C values and were used unchanged at "
                          f"{', '.join(f'{t:g}' for t in np.unique(t_C[far]))} °C")
         return notes
+
+
+def described_pairs(table: EpsilonTable) -> IonPairSet:
+    """The complexes SIT forms: none made of a cation and an anion that have an ε.
+
+    An ε describes the whole short-range interaction of its two ions, weak association
+    included, so a complex of just those two ions (NaCO3-, NaSO4-, NaHPO4-, ...) would
+    count it twice (NEA-TDB practice, Grenthe, Plyasunov & Spahiu 1997).
+    """
+    rules = tuple(LeftOut(reason=f"described by ε({e.cation}, {e.anion}) of table {table.name!r}",
+                          made_of=(e.cation, e.anion),
+                          evidence="Grenthe, Plyasunov & Spahiu (1997), ch. IX")
+                  for e in sorted(table.pairs.values(), key=lambda e: (e.cation, e.anion)))
+    return IonPairSet(summary="every complex of the tables except those made of a "
+                              "cation–anion pair that has an ε (the ε describe them)",
+                      left_out=rules)
