@@ -1,8 +1,8 @@
 """Davies equation: log10 γ = −A z² (√I/(1+√I) − 0.3 I), with A from water at T.
 
-Complexes: every complex of the tables except the weak Na+ and K+ complexes of carbonate
-and phosphate, which the equation's coefficients already describe
-(:data:`~ionwright.activity._ion_association.ION_ASSOCIATION_PAIRS`).
+Complexes: every complex of the tables except the weak Na+ and K+ complexes of carbonate,
+which the equation's coefficients already describe
+(:data:`~ionwright.activity._ion_association.DAVIES_PAIRS`; the pH standards decide it).
 
 References
 ----------
@@ -17,7 +17,7 @@ import numpy as np
 
 from ..chemistry._water import debye_huckel_A
 from ._base import LN10, IonicStrengthModel, SpeciesProperties, neutral_weights
-from ._ion_association import ION_ASSOCIATION_PAIRS
+from ._ion_association import DAVIES_PAIRS
 
 DAVIES_LINEAR_TERM = 0.3
 
@@ -54,7 +54,7 @@ class DaviesModel:
     title = "Davies (0.3 I term)"
     max_ionic_strength = 0.5
     reference = "Davies (1962) Ion Association, Butterworths"
-    ion_pairs = ION_ASSOCIATION_PAIRS
+    ion_pairs = DAVIES_PAIRS
 
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> _BoundDavies:
         weights = np.stack([-LN10 * species.charge ** 2, neutral_weights(species)], axis=1)

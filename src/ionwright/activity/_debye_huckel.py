@@ -4,7 +4,7 @@ log10 γ = −A z² √I / (1 + B å √I) + b I, with A, B from water at T. Ext
 Debye–Hückel uses Kielland's å and b = 0; Truesdell–Jones its own a and b per ion.
 Ions without a size parameter get :data:`DEFAULT_ION_SIZE` and are named in a note.
 Both form every complex of the tables except the weak Na+ and K+ complexes of carbonate
-and phosphate (:data:`~ionwright.activity._ion_association.ION_ASSOCIATION_PAIRS`).
+and phosphate (:data:`~ionwright.activity._ion_association.ION_SIZE_PAIRS`).
 
 References
 ----------
@@ -20,7 +20,7 @@ import numpy as np
 
 from ..chemistry._water import debye_huckel_A, debye_huckel_B
 from ._base import LN10, IonicStrengthModel, SpeciesProperties, neutral_weights
-from ._ion_association import ION_ASSOCIATION_PAIRS
+from ._ion_association import ION_SIZE_PAIRS
 
 DEFAULT_ION_SIZE = 4.0  # Å, a middling Kielland value; used only with a note
 
@@ -72,7 +72,7 @@ class ExtendedDebyeHuckelModel:
     title = "extended Debye–Hückel (Kielland ion sizes)"
     max_ionic_strength = 0.1
     reference = "Kielland (1937) J. Am. Chem. Soc. 59, 1675"
-    ion_pairs = ION_ASSOCIATION_PAIRS
+    ion_pairs = ION_SIZE_PAIRS
 
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> _BoundSized:
         notes: list[str] = []
@@ -85,7 +85,7 @@ class TruesdellJonesModel:
     title = "Truesdell–Jones (ion size a and linear b per ion)"
     max_ionic_strength = 2.0
     reference = "Truesdell & Jones (1974) J. Res. U.S. Geol. Surv. 2, 233"
-    ion_pairs = ION_ASSOCIATION_PAIRS
+    ion_pairs = ION_SIZE_PAIRS
 
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> _BoundSized:
         notes: list[str] = []

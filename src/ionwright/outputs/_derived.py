@@ -1,6 +1,7 @@
 """Quantities derived from a speciated solution, as water chemists report them.
 
-Charge-balance error, alkalinity and hardness as CaCO3, CO2 partial pressure, the
+The pH on the scale of the standard buffers (:mod:`._conventional_ph`), charge-balance
+error, alkalinity and hardness as CaCO3, CO2 partial pressure, the
 un-ionised ammonia fraction, total dissolved solids and the Langelier index, each from
 the species of the result and the constants of its own tables. Per-litre values use the
 recipe's solution (water per litre from its given or estimated density). A quantity
@@ -13,6 +14,7 @@ from typing import Any
 
 import numpy as np
 
+from ._conventional_ph import conventional_pH
 from ..chemistry._formula import Formula, parse_formula
 from ..core._system import WATER, ChemicalSystem, log10_k_at
 
@@ -25,7 +27,7 @@ _CO2 = parse_formula("CO2")
 _AMMONIA = parse_formula("NH3")
 _HARDNESS_IONS = (parse_formula("Ca2+"), parse_formula("Mg2+"))
 _BICARBONATE = parse_formula("HCO3-")
-KEYS = ("charge_balance_error_percent", "alkalinity_mg_per_L_as_CaCO3",
+KEYS = ("pH_standards_scale", "charge_balance_error_percent", "alkalinity_mg_per_L_as_CaCO3",
         "hardness_mg_per_L_as_CaCO3", "log10_pCO2_atm", "unionized_ammonia_fraction",
         "unionized_ammonia_mg_per_L_as_N", "tds_mg_per_L", "langelier_index")
 
@@ -74,6 +76,7 @@ def derived_quantities(result) -> dict[str, float | None]:
     alk = alkalinity(result)
     ammonia = _ammonia(result)
     values = {
+        "pH_standards_scale": conventional_pH(result),
         "charge_balance_error_percent": charge_balance_error_percent(result),
         "alkalinity_mg_per_L_as_CaCO3": alk * per_litre * _caco3_mg_per_eq(),
         "hardness_mg_per_L_as_CaCO3": _hardness(result) * per_litre
@@ -215,6 +218,8 @@ def report_lines(result) -> list[str]:
                          + (f"  ({c.note})" if c.note else ""))
     d = derived_quantities(result)
     lines += ["", "derived",
+              f"  pH, standards' scale       {d['pH_standards_scale']:8.3f} (what a meter "
+              "calibrated with IUPAC/NIST buffers reads; Bates–Guggenheim convention)",
               f"  charge-balance error       {d['charge_balance_error_percent']:+8.2f} %",
               f"  alkalinity                 {d['alkalinity_mg_per_L_as_CaCO3']:8.4g} mg/L as CaCO3",
               f"  hardness                   {d['hardness_mg_per_L_as_CaCO3']:8.4g} mg/L as CaCO3",
