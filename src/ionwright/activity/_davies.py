@@ -18,6 +18,8 @@ import numpy as np
 from ..chemistry._water import debye_huckel_A
 from ._base import LN10, IonicStrengthModel, SpeciesProperties, neutral_weights
 from ._ion_association import DAVIES_PAIRS
+from ._measured_ranges import DAVIES_LIMITS, DAVIES_MAX_IONIC_STRENGTH
+from ._validity import StatedValidity
 
 DAVIES_LINEAR_TERM = 0.3
 
@@ -49,10 +51,14 @@ def _davies_terms(u, A) -> tuple[tuple, tuple]:
             (A * (1.0 / (one_u * one_u) - 2.0 * DAVIES_LINEAR_TERM * u), 2.0 * u))
 
 
-class DaviesModel:
+class DaviesModel(StatedValidity):
+    """Davies, with the range the measured mean activity coefficients allow
+    (:mod:`._measured_ranges`; Davies himself used it to about I = 0.5)."""
+
     name = "davies"
     title = "Davies (0.3 I term)"
-    max_ionic_strength = 0.5
+    max_ionic_strength = DAVIES_MAX_IONIC_STRENGTH
+    validity = DAVIES_LIMITS
     reference = "Davies (1962) Ion Association, Butterworths"
     ion_pairs = DAVIES_PAIRS
 

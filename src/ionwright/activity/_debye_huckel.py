@@ -21,6 +21,10 @@ import numpy as np
 from ..chemistry._water import debye_huckel_A, debye_huckel_B
 from ._base import LN10, IonicStrengthModel, SpeciesProperties, neutral_weights
 from ._ion_association import ION_SIZE_PAIRS
+from ._measured_ranges import (EXTENDED_DEBYE_HUCKEL_LIMITS,
+                               EXTENDED_DEBYE_HUCKEL_MAX_IONIC_STRENGTH,
+                               TRUESDELL_JONES_LIMITS, TRUESDELL_JONES_MAX_IONIC_STRENGTH)
+from ._validity import StatedValidity
 
 DEFAULT_ION_SIZE = 4.0  # Å, a middling Kielland value; used only with a note
 
@@ -67,10 +71,11 @@ def _sizes(species: SpeciesProperties, first: np.ndarray, second: np.ndarray, la
     return np.where(np.isnan(size), DEFAULT_ION_SIZE, size)
 
 
-class ExtendedDebyeHuckelModel:
+class ExtendedDebyeHuckelModel(StatedValidity):
     name = "extended-debye-huckel"
     title = "extended Debye–Hückel (Kielland ion sizes)"
-    max_ionic_strength = 0.1
+    max_ionic_strength = EXTENDED_DEBYE_HUCKEL_MAX_IONIC_STRENGTH
+    validity = EXTENDED_DEBYE_HUCKEL_LIMITS
     reference = "Kielland (1937) J. Am. Chem. Soc. 59, 1675"
     ion_pairs = ION_SIZE_PAIRS
 
@@ -80,10 +85,11 @@ class ExtendedDebyeHuckelModel:
         return _bind_sized(species, t_C, size, np.zeros(len(species.names)), notes)
 
 
-class TruesdellJonesModel:
+class TruesdellJonesModel(StatedValidity):
     name = "truesdell-jones"
     title = "Truesdell–Jones (ion size a and linear b per ion)"
-    max_ionic_strength = 2.0
+    max_ionic_strength = TRUESDELL_JONES_MAX_IONIC_STRENGTH
+    validity = TRUESDELL_JONES_LIMITS
     reference = "Truesdell & Jones (1974) J. Res. U.S. Geol. Surv. 2, 233"
     ion_pairs = ION_SIZE_PAIRS
 

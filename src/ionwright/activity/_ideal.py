@@ -13,6 +13,7 @@ import numpy as np
 
 from ._base import IonicStrengthModel, SpeciesProperties
 from ._ion_association import DAVIES_PAIRS
+from ._measured_ranges import IDEAL_MAX_IONIC_STRENGTH
 
 
 @dataclass
@@ -26,7 +27,7 @@ class _BoundIdeal(IonicStrengthModel):
 class IdealModel:
     name = "ideal"
     title = "ideal solution (γ = 1)"
-    max_ionic_strength = 1e-3
+    max_ionic_strength = IDEAL_MAX_IONIC_STRENGTH
     reference = "limit of infinite dilution"
     ion_pairs = DAVIES_PAIRS
 

@@ -38,6 +38,7 @@ from ..core import _solver as solver
 from ..outputs._cautions import CORROSIVE_HIGH_PH, CORROSIVE_LOW_PH, DEFER
 from ..errors import IonwrightError, RecipeError, UnknownNameError
 from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
+from ..activity._validity import RANGE_TOLERANCE, TOLERANCE_PERCENT, exceeded_rows
 from ..core._system import PROTON, WATER, ChemicalSystem, compile_system, log10_k_at
 
 if TYPE_CHECKING:
@@ -388,7 +389,8 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, pla
         out.molality[good, j] = eq.molality[ok, index[name]] if name in index else 0.0
     _saturation(system, tables, eq, ok, t, plan, out.saturation, good)
     out.status[rows] = np.where(ok, CONVERGED, FAILED)
-    out.message[rows] = _notes(system, model, out.ph[rows], out.ionic_strength[rows], t, ok)
+    out.message[rows] = _notes(system, model, out.ph[rows], out.ionic_strength[rows], t, ok,
+                               eq.molality)
     for k in np.flatnonzero(~ok):
         out.message[rows[k]] = (f"the solver stopped with status {status[k]!r} after "
                                 f"{int(eq.iterations[k])} iterations (worst relative "
@@ -417,8 +419,10 @@ def _saturation(system: ChemicalSystem, tables: TableSet, eq: solver.Equilibrium
 
 
 def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: np.ndarray,
-           ok: np.ndarray) -> np.ndarray:
-    """Per-row warnings: model range, corrosive pH, constants used outside their range.
+           ok: np.ndarray, molality: np.ndarray) -> np.ndarray:
+    """Per-row warnings: model range (in general and for the kinds of solution the model
+    states, :mod:`ionwright.activity._validity`), corrosive pH, constants used outside
+    their range.
 
     Each kind of note is a column of a flag matrix; rows sharing a pattern of flags
     share one joined message, so the text is built once per pattern, not per row.
@@ -428,7 +432,15 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
     limit = model.max_ionic_strength
     texts.append(f"ionic strength beyond the range of the {model.name} model (up to about "
                  f"{limit:g} mol/kg)")
-    flags.append(ok & (ionic > limit))
+    flags.append(ok & (ionic > limit * (1.0 + RANGE_TOLERANCE)))
+    limits = getattr(model, "validity", ())
+    if limits:
+        hits = exceeded_rows(limits, system.species, system.charge, molality)
+        for r, rule in enumerate(limits):
+            texts.append(f"{model.name}: within {TOLERANCE_PERCENT} % only to I ≈ "
+                         f"{rule.max_ionic_strength:g} mol/kg where {rule.label} are main "
+                         f"ions ({rule.evidence})")
+            flags.append(ok & hits[:, r])
     texts.append(f"CAUTION: corrosive pH (≤ {CORROSIVE_LOW_PH:g} or ≥ {CORROSIVE_HIGH_PH:g}, "
                  f"US EPA 40 CFR 261.22); wear eye and skin protection and {DEFER}")
     flags.append(ok & ((ph <= CORROSIVE_LOW_PH) | (ph >= CORROSIVE_HIGH_PH)))

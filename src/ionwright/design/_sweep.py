@@ -27,6 +27,7 @@ from typing import Any
 
 import numpy as np
 
+from ..activity._validity import RANGE_TOLERANCE
 from ..chemistry._density import component_solute, ingredient_solute
 from ._target import Workbench, read_stock, split_name_and_quantity
 from ..errors import RecipeError
@@ -245,7 +246,7 @@ def _finish(bench: Workbench, kind: str, variable: str, values: np.ndarray,
     """
     limit = bench.model.max_ionic_strength
     bad = state.status != "converged"
-    outside = state.equilibrium.ionic_strength > limit
+    outside = state.equilibrium.ionic_strength > limit * (1.0 + RANGE_TOLERANCE)
     beyond = outside & ~beyond_range
     stop = np.flatnonzero(bad | beyond)
     stopped = ""

@@ -15,6 +15,7 @@ from ..chemistry._ingredients import Makeup
 from ..core._phases import phase_summary
 from ._supersaturation import supersaturation_warnings
 from ._provenance import constants_used, ion_pairs, override_warnings
+from ..activity._validity import within
 from ..inputs._recipe import Recipe
 from ..core._solver import Equilibrium
 from ..core._system import PROTON, WATER, ChemicalSystem, log10_k_at
@@ -125,7 +126,7 @@ class Result:
         if self.recipe.solution is not None:  # stocks dosed from an extrapolated density
             out.extend(self.recipe.solution.warnings)
         limit = self.model.max_ionic_strength
-        if self.ionic_strength > limit:
+        if not within(self.ionic_strength, limit):
             out.append(f"ionic strength {self.ionic_strength:.3g} mol/kg is beyond the range "
                        f"of the {self.model.name} model (up to about {limit:g}); results are "
                        f"less certain; compare models or use one valid at this strength")

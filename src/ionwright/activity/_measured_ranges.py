@@ -1,0 +1,52 @@
+"""The ranges of the ion-association models, as the measured mean activity coefficients
+of single salts at 25 °C set them (within 3 %; tests/reference/test_mean_activity.py).
+
+Each model states a general ``max_ionic_strength`` and narrows it for the kinds of
+solution where it fails earlier (:class:`~ionwright.activity._validity.ValidityLimit`).
+A limit is the highest ionic strength, as the model solves it (ion pairs included), at
+which every tabulated point of that salt up to it agrees within 3 %; the evidence names
+the first point that does not. References: Hamer & Wu (1972) J. Phys. Chem. Ref. Data
+1, 1047 (as tabulated in the CRC Handbook); Robinson & Stokes (1959) Electrolyte
+Solutions, App. 8.10.
+"""
+
+from __future__ import annotations
+
+from ._validity import ValidityLimit
+
+_HW = "Hamer & Wu 1972"
+_RS = "Robinson & Stokes 1959"
+
+IDEAL_MAX_IONIC_STRENGTH = 5e-4
+"""γ = 1 is within 3 % of the Debye–Hückel limiting law for a 1:1 salt to I ≈ 6e-4
+(A√I ≤ 0.0128); at I = 0.001 NaCl's γ± is already 0.965 (Hamer & Wu 1972). Salts of
+divalent ions depart sooner (2:2 by 3 % at I ≈ 4e-5)."""
+
+DAVIES_MAX_IONIC_STRENGTH = 0.2
+"""NaCl, HCl, NaOH within 3 % to 0.2 mol/kg; NaCl is 7.6 % high at 0.5 (Hamer & Wu)."""
+
+DAVIES_LIMITS = (
+    ValidityLimit("K+", "Cl-", 0.1, f"KCl: +4.1 % at 0.2 mol/kg, {_HW}"),
+    ValidityLimit("Ca+2", "Cl-", 0.15, f"CaCl2: +4.0 % at 0.1 mol/kg (I = 0.3), {_HW}"),
+    ValidityLimit("K+", "NO3-", 0.01, f"KNO3: +5.7 % at 0.1 mol/kg, {_RS}"),
+)
+
+EXTENDED_DEBYE_HUCKEL_MAX_IONIC_STRENGTH = 0.1
+"""NaCl, KCl, HCl, KNO3 within 3 % to 0.1 mol/kg; NaCl is 3.8 % low at 0.2 (Hamer & Wu)."""
+
+EXTENDED_DEBYE_HUCKEL_LIMITS = (
+    ValidityLimit("K+", "OH-", 0.01, f"KOH: −5.1 % at 0.1 mol/kg, {_RS}"),
+)
+
+TRUESDELL_JONES_MAX_IONIC_STRENGTH = 2.0
+"""NaCl, KCl, HCl within 1 % to 2 mol/kg; CaCl2, MgCl2 within 3 % to 1 mol/kg (I = 3)."""
+
+TRUESDELL_JONES_LIMITS = (
+    ValidityLimit("Na+", "OH-", 0.2, f"NaOH: −3.0 % at 0.5 mol/kg, {_RS}"),
+    ValidityLimit("K+", "OH-", 0.01, f"KOH: −4.4 % at 0.1 mol/kg, {_RS}"),
+    ValidityLimit("Na+", "SO4-2", 0.45, f"Na2SO4: +12.7 % at 0.5 mol/kg (I = 1.1), {_HW}"),
+    ValidityLimit("K+", "SO4-2", 0.1, f"K2SO4: −3.4 % at 0.1 mol/kg (I = 0.25), "
+                                      f"{_RS}; no lower point was tested"),
+    ValidityLimit("Mg+2", "SO4-2", 0.18, f"MgSO4: +4.9 % at 0.2 mol/kg (I = 0.33), {_RS}"),
+    ValidityLimit("K+", "NO3-", 0.1, f"KNO3: +6.0 % at 0.2 mol/kg, {_RS}"),
+)

@@ -1,0 +1,114 @@
+"""Where an activity model holds, by kind of solution, and the warnings when it does not.
+
+A model states one ionic strength it holds to in general (``max_ionic_strength``) and
+may narrow it for particular kinds of solution: a :class:`ValidityLimit` names a cation
+and an anion (the salt whose measured mean activity coefficients showed the limit) and
+the ionic strength up to which the model stays within 3 % of them. The limit applies to
+a solution in which both ions carry at least :data:`SIGNIFICANT_SHARE` of the ionic
+strength; past it, the result warns, naming the model, the kind of solution and the
+range. Ions are matched by formula, so "Ca+2" and "Ca2+" are the same ion.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import lru_cache
+
+import numpy as np
+
+from ..chemistry._formula import parse_formula
+from ..errors import FormulaError
+
+SIGNIFICANT_SHARE = 0.1    # an ion is a main ion of the solution at ≥ 10 % of I
+RANGE_TOLERANCE = 1e-3     # relative: "up to about": 0.1000009 is within 0.1
+TOLERANCE_PERCENT = 3      # the agreement with measured γ± that a range promises
+
+
+@dataclass(frozen=True)
+class ValidityLimit:
+    """The model holds to *max_ionic_strength* (mol/kg) where *cation* and *anion* are
+    main ions of the solution; *evidence* names the measurements that set it."""
+
+    cation: str
+    anion: str
+    max_ionic_strength: float
+    evidence: str
+
+    @property
+    def label(self) -> str:
+        return f"{self.cation} with {self.anion}"
+
+
+def within(ionic_strength: float, limit: float) -> bool:
+    """Whether *ionic_strength* is within *limit* (with :data:`RANGE_TOLERANCE`)."""
+    return ionic_strength <= limit * (1.0 + RANGE_TOLERANCE)
+
+
+def exceeded_rows(limits, names, charges, molality: np.ndarray) -> np.ndarray:
+    """(n, r) booleans: sample n has both ions of limit r as main ions and an ionic
+    strength past it. *molality* is (n, s) over the species *names* with *charges*."""
+    molality = np.atleast_2d(np.asarray(molality, dtype=float))
+    charges = np.asarray(charges, dtype=float)
+    share = 0.5 * molality * charges ** 2
+    strength = share.sum(axis=1)
+    out = np.zeros((molality.shape[0], len(limits)), dtype=bool)
+    for r, limit in enumerate(limits):
+        cation = _position(tuple(names), limit.cation)
+        anion = _position(tuple(names), limit.anion)
+        if cation is None or anion is None:
+            continue
+        main = np.minimum(share[:, cation], share[:, anion]) >= SIGNIFICANT_SHARE * strength
+        out[:, r] = main & (strength > limit.max_ionic_strength * (1.0 + RANGE_TOLERANCE))
+    return out
+
+
+@lru_cache(maxsize=256)
+def _position(names: tuple[str, ...], ion: str) -> int | None:
+    """Index of *ion* among *names*, compared as formulas (None when absent)."""
+    wanted = _formula(ion)
+    for i, name in enumerate(names):
+        if name == ion or (wanted is not None and _formula(name) == wanted):
+            return i
+    return None
+
+
+@lru_cache(maxsize=1024)
+def _formula(name: str):
+    try:
+        return parse_formula(name)
+    except FormulaError:
+        return None
+
+
+class StatedValidity:
+    """Mixin for models with a ``validity`` tuple of :class:`ValidityLimit`: the
+    ``validity_notes`` and ``beyond_fitted_range`` checks results and comparisons call."""
+
+    name: str
+    validity: tuple[ValidityLimit, ...] = ()
+
+    def _exceeded(self, species, molality) -> tuple[list[ValidityLimit], float]:
+        molality = np.asarray(molality, dtype=float)
+        flags = exceeded_rows(self.validity, species.names, species.charge, molality)[0]
+        strength = float(0.5 * np.sum(molality * species.charge ** 2))
+        return [limit for limit, hit in zip(self.validity, flags) if hit], strength
+
+    def beyond_fitted_range(self, species, molality) -> list[str]:
+        """Kinds of solution this composition is, past the range the model holds to."""
+        hits, _ = self._exceeded(species, molality)
+        return [f"{h.label} (within {TOLERANCE_PERCENT} % only to I ≈ "
+                f"{h.max_ionic_strength:g})" for h in hits]
+
+    def validity_notes(self, species, molality) -> list[str]:
+        """A warning for each kind of solution this composition is past the range of."""
+        hits, strength = self._exceeded(species, molality)
+        return [validity_message(self.name, h, strength) for h in hits]
+
+
+def validity_message(model: str, limit: ValidityLimit, strength: float) -> str:
+    """The warning for a solution at ionic strength *strength* past *limit*."""
+    return (f"{model}: where {limit.label} are main ions, the model is within "
+            f"{TOLERANCE_PERCENT} % of measured mean activity coefficients only up to "
+            f"I ≈ {limit.max_ionic_strength:g} mol/kg ({limit.evidence}); this solution "
+            f"is at I = {strength:.3g} mol/kg: treat activity coefficients and pH as "
+            f"estimates, or use a model that holds here")
