@@ -37,12 +37,12 @@ _PHTHALATE_SIZES = ("HPhthalate- has no published ion size known to the table (t
 _PHOSPHATE_50 = ("at 50 °C the phosphate pK2(T) (Goldberg et al. 2002 ΔH°, ΔCp°, recalled) "
                  "leaves the 1:3.5 standard 0.021 high while the 1:1 standard stays within "
                  "0.011")
+_PITZER = ("Pitzer's share of issue 12 belongs to the brines helper (issue 13): the bundled "
+           "parameters lack the K+ interactions with hydrogen tartrate, dihydrogen citrate and "
+           "hydrogen phthalate, and the phosphate and borate ones carry no temperature "
+           "derivatives; update these marks when the model changes")
 _BORAX_0 = ("at 0 °C the boric-acid pK of Manov et al. (1944) (re-read) is 9.500, which "
             "leaves the borax standard 0.021–0.022 low")
-_PITZER = ("Pitzer's share of issue 12 belongs to the brines helper (issue 13): the bundled "
-           "parameters lack the Na/K interactions with the buffer anions (phosphate, "
-           "citrate, phthalate, tartrate, borate); update this mark when the model changes")
-
 KNOWN_GAPS: dict[tuple[str, str], tuple[frozenset | None, str]] = {
     # (model, standard) -> (temperatures, None for all; reason)
     ("davies", "borax 0.01 m"): (frozenset({0.0}), _BORAX_0),
@@ -55,9 +55,8 @@ KNOWN_GAPS: dict[tuple[str, str], tuple[frozenset | None, str]] = {
     ("pitzer", "dihydrogen citrate 0.05 m"): (None, _PITZER),
     ("pitzer", "hydrogen phthalate 0.05 m"): (frozenset({5.0, 10.0, 15.0, 20.0, 25.0, 30.0,
                                                          35.0, 37.0, 40.0, 50.0}), _PITZER),
-    ("pitzer", "phosphate 1:1 (0.025 + 0.025 m)"): (None, _PITZER),
-    ("pitzer", "phosphate 1:3.5 (0.008695 + 0.03043 m)"): (None, _PITZER),
-    ("pitzer", "borax 0.01 m"): (frozenset({0.0, 5.0}), _PITZER),
+    ("pitzer", "phosphate 1:3.5 (0.008695 + 0.03043 m)"): (frozenset({40.0, 50.0}), _PITZER),
+    ("pitzer", "borax 0.01 m"): (frozenset({0.0}), _PITZER),
 }
 
 
