@@ -12,6 +12,7 @@ import math
 import numpy as np
 import pytest
 
+import ionwright
 from ionwright.chemistry import _water as water
 from ionwright.errors import UnknownNameError
 
@@ -219,3 +220,38 @@ def test_kw_uses_the_given_density():
 
 def test_valid_range_is_0_to_100_C():
     assert water.VALID_RANGE_C == (0.0, 100.0)
+
+
+# -- one Kw: the solver's OH- constant is the water model's own ------------------------
+
+MARSHALL_FRANCK_1981 = {0.0: 14.938, 25.0: 13.995, 50.0: 13.275, 75.0: 12.712, 100.0: 12.265}
+"""pKw at saturation pressure, Marshall, W.L. & Franck, E.U., table "Ion product of water
+substance" (values and authors re-read in a CRC Handbook copy; the journal reference,
+J. Phys. Chem. Ref. Data 10, 295 (1981), is recalled)."""
+
+
+def test_the_solver_uses_the_water_models_kw_from_0_to_100_C():
+    """One Kw: log10 K of OH- in the compiled system is water.log10_kw at every T."""
+    from ionwright.core._system import compile_system
+
+    system = compile_system(ionwright.load_tables(["core"]), [])
+    t = np.array([0.0, 10.0, 25.0, 37.0, 60.0, 80.0, 100.0])
+    oh = system.index("OH-")
+    np.testing.assert_allclose(system.log10_k(t)[:, oh], water.log10_kw(t), atol=1e-12)
+
+
+@pytest.mark.parametrize("t_C, pkw", MARSHALL_FRANCK_1981.items())
+def test_pkw_agrees_with_the_1981_iapws_table(t_C, pkw):
+    # Marshall & Franck (1981), CRC Handbook table "Ion product of water substance" (re-read);
+    # the 2007 IAPWS formulation (Bandura & Lvov) replaced it and differs by up to 0.016
+    assert -float(water.log10_kw(t_C)) == pytest.approx(pkw, abs=0.02)
+    pure = ionwright.solve({"activity_model": "davies", "temperature_C": t_C})
+    assert 2 * pure.pH == pytest.approx(pkw, abs=0.02)
+
+
+def test_pure_water_at_80_C_carries_no_warning_about_kw():
+    """The table's Kw used to stop at 60 °C; the water model holds to 100 °C."""
+    pure = ionwright.solve({"activity_model": "davies", "temperature_C": 80.0})
+    assert not any("OH-" in w for w in pure.warnings)
+    [oh] = [e for e in pure.to_dict()["constants_used"] if e["name"] == "OH-"]
+    assert oh["temperature_method"] == "water ionization"

@@ -11,12 +11,14 @@ from types import MappingProxyType
 from typing import Mapping
 
 from ..errors import TableError
+from ._temperature import FUNCTIONS, T_REF
 
 #: Plausible ranges for the physical fields; values outside are almost always unit slips.
 DELTA_H_LIMIT_KJ = 500.0
 DELTA_CP_LIMIT_J = 2000.0
 ION_SIZE_LIMIT_A = 15.0
 RANGE_LIMIT_C = (-10.0, 400.0)
+FUNCTION_MISMATCH = 0.002  # log10 K: a named function must reproduce the table at 25 °C
 
 
 def frozen_map(mapping: Mapping[str, float] | None) -> Mapping[str, float]:
@@ -29,7 +31,9 @@ class LogK:
     """log10 K of one reaction at 25 °C and how it changes with temperature.
 
     ``analytic`` (a, b, c, d, e) means log10 K = a + bT + c/T + d log10 T + e/T²
-    and takes precedence over ``enthalpy_kJ`` (kJ/mol) and ``heat_capacity_J`` (J/(mol K)).
+    and takes precedence over ``enthalpy_kJ`` (kJ/mol) and ``heat_capacity_J`` (J/(mol K));
+    ``function`` names a temperature function of ionwright (``"water ionization"``: log10
+    Kw of :func:`ionwright.chemistry.log10_kw`) and takes precedence over both.
     """
 
     log10_k: float
@@ -38,10 +42,19 @@ class LogK:
     analytic: tuple[float, ...] | None = None
     range_C: tuple[float, float] | None = None
     uncertainty: float | None = None
+    function: str | None = None
 
     def problems(self, where: str) -> list[str]:
         """Every out-of-range or inconsistent field, as messages naming *where*."""
         out = []
+        if self.function is not None:
+            if self.function not in FUNCTIONS:
+                out.append(f"{where}: function = {self.function!r} is not a temperature "
+                           f"function of ionwright; known: {', '.join(map(repr, FUNCTIONS))}")
+            elif abs(float(FUNCTIONS[self.function][0](T_REF)) - self.log10_k) > FUNCTION_MISMATCH:
+                value = float(FUNCTIONS[self.function][0](T_REF))
+                out.append(f"{where}: log10_k = {self.log10_k} but function "
+                           f"{self.function!r} gives {value:.4f} at 25 °C; make them agree")
         if self.enthalpy_kJ is not None and abs(self.enthalpy_kJ) > DELTA_H_LIMIT_KJ:
             out.append(f"{where}: enthalpy_kJ = {self.enthalpy_kJ} kJ/mol is outside "
                        f"±{DELTA_H_LIMIT_KJ:g}; is it in J/mol? enthalpy_kJ is in kJ/mol")
@@ -66,6 +79,8 @@ class LogK:
     @property
     def method(self) -> str:
         """Name of the temperature description this record carries."""
+        if self.function is not None:
+            return self.function
         if self.analytic is not None:
             return "analytic"
         if self.heat_capacity_J is not None:

@@ -1,9 +1,11 @@
 """Temperature dependence of equilibrium constants: log10 K(T) from 25 °C data.
 
-Three published forms, whichever a constant table provides: van 't Hoff with a constant
-ΔH°, van 't Hoff with a constant ΔCp°, and an analytic expression in T. All functions
-take T in kelvin as a float or numpy array and broadcast over the other arguments, so a
-batch of samples at different temperatures is one call.
+Four published forms, whichever a constant table provides: van 't Hoff with a constant
+ΔH°, van 't Hoff with a constant ΔCp°, an analytic expression in T, and a named function
+of this package (:data:`FUNCTIONS`: the ionization of water, so that the solver and the
+water properties share one Kw). All functions take T in kelvin as a float or numpy array
+and broadcast over the other arguments, so a batch of samples at different temperatures
+is one call.
 """
 
 from __future__ import annotations
@@ -14,6 +16,7 @@ import numpy as np
 import numpy.typing as npt
 
 from ..errors import TableError
+from ._water import KELVIN_OFFSET, log10_kw
 
 ArrayOrFloat = float | npt.NDArray[np.float64]
 
@@ -25,6 +28,18 @@ R = 8.314462618
 
 _LN10 = np.log(10.0)
 _ANALYTIC_TERMS = 5  # a, b, c, d, e
+BASIS_SIZE = 6       # the analytic terms and log10 Kw of water
+
+
+def _water_ionization(T: ArrayOrFloat) -> ArrayOrFloat:
+    """log10 Kw at *T* (K) and 1 atm: the formation constant of OH- from H2O − H+."""
+    return log10_kw(np.asarray(T, dtype=float) - KELVIN_OFFSET)
+
+
+FUNCTIONS = {"water ionization": (
+    _water_ionization, "log10 Kw of Bandura & Lvov (2006) at 1 atm, ionwright.chemistry.log10_kw")}
+"""Named temperature functions a table may give as ``function``: name → (f(T) in K,
+description). Each is one row of :func:`basis`."""
 
 
 def van_t_hoff(log_k25: ArrayOrFloat, enthalpy_kJ: ArrayOrFloat, T: ArrayOrFloat) -> ArrayOrFloat:
@@ -120,32 +135,40 @@ def delta_h_from_analytic(coeffs: Sequence[float], T: ArrayOrFloat) -> ArrayOrFl
 
 
 def basis(T: ArrayOrFloat) -> npt.NDArray[np.float64]:
-    """The functions (1, T, 1/T, log10 T, 1/T²) of *T* (K), shape (5, n).
+    """The functions (1, T, 1/T, log10 T, 1/T², log10 Kw(T)) of *T* (K), shape (6, n).
 
     Every form above is a fixed combination of them (:func:`basis_coefficients`), so a
     table of reactions at a batch of temperatures is one small weighted sum.
     """
     T = np.atleast_1d(np.asarray(T, dtype=float))
-    out = np.empty((5, T.size))
+    out = np.empty((BASIS_SIZE, T.size))
     out[0] = 1.0
     out[1] = T
     np.divide(1.0, T, out=out[2])
     np.log10(T, out=out[3])
     np.multiply(out[2], out[2], out=out[4])
+    out[5] = _water_ionization(T)
     return out
 
 
 def basis_coefficients(log_k25: float, enthalpy_kJ: float | None = None,
                        heat_capacity_J: float | None = None,
-                       analytic_terms: Sequence[float] | None = None) -> npt.NDArray[np.float64]:
-    """Weights (5,) of :func:`basis` giving the same log10 K(T) as the form these data take.
+                       analytic_terms: Sequence[float] | None = None,
+                       function: str | None = None) -> npt.NDArray[np.float64]:
+    """Weights (6,) of :func:`basis` giving the same log10 K(T) as the form these data take.
 
-    An analytic expression is its own coefficients; van 't Hoff puts ΔH°/(R ln 10) on
-    1/T; a constant ΔCp° adds ΔCp°/(R ln 10)·(T_r/T − 1 + ln 10·log10 T − ln T_r).
+    A named function is its own row; an analytic expression is its own coefficients; van
+    't Hoff puts ΔH°/(R ln 10) on 1/T; a constant ΔCp° adds ΔCp°/(R ln 10)·(T_r/T − 1 +
+    ln 10·log10 T − ln T_r).
     """
+    out = np.zeros(BASIS_SIZE)
+    if function is not None:
+        out[list(FUNCTIONS).index(function) + _ANALYTIC_TERMS] = 1.0
+        return out
     if analytic_terms is not None:
-        return _analytic_coefficients(analytic_terms)
-    out = np.array([log_k25, 0.0, 0.0, 0.0, 0.0])
+        out[:_ANALYTIC_TERMS] = _analytic_coefficients(analytic_terms)
+        return out
+    out[0] = log_k25
     if enthalpy_kJ is not None:
         h = enthalpy_kJ * 1000.0 / (R * _LN10)
         out[0] += h / T_REF

@@ -38,7 +38,7 @@ def log10_k_at(logk: LogK, t_C: np.ndarray) -> np.ndarray:
 def basis_coefficients(logk: LogK) -> np.ndarray:
     """Weights (5,) of :func:`temperature.basis` that give this reaction's log10 K(T)."""
     return temperature.basis_coefficients(logk.log10_k, logk.enthalpy_kJ,
-                                          logk.heat_capacity_J, logk.analytic)
+                                          logk.heat_capacity_J, logk.analytic, logk.function)
 
 
 @dataclass(frozen=True)
@@ -98,8 +98,8 @@ class ChemicalSystem:
 
     @cached_property
     def _log10_k_weights(self) -> np.ndarray:
-        """(s, 5): each species' formation log10 K as weights of the temperature basis."""
-        out = np.zeros((len(self.species), 5))
+        """(s, 6): each species' formation log10 K as weights of the temperature basis."""
+        out = np.zeros((len(self.species), temperature.BASIS_SIZE))
         for i, res in enumerate(self.resolved):
             for _, mult, logk in res.terms:
                 out[i] += mult * basis_coefficients(logk)

@@ -26,7 +26,8 @@ from ..chemistry._records import Component, ConstantTable, LogK, Phase, Reagent,
 
 FORMAT_VERSION = 1
 
-_LOGK_KEYS = {"log10_k", "enthalpy_kJ", "heat_capacity_J", "analytic", "range_C", "uncertainty"}
+_LOGK_KEYS = {"log10_k", "enthalpy_kJ", "heat_capacity_J", "analytic", "range_C", "uncertainty",
+              "function"}
 _COMMON = {"source", "from_memory", "note", "formula"}
 _ALLOWED = {
     "components": _COMMON | {"ion_size", "tj_a", "tj_b"},
@@ -212,7 +213,11 @@ class _Builder:
             range_c = None
         if log10_k is None:
             return None
-        record = LogK(log10_k, dh, dcp, analytic, range_c, unc)
+        function = entry.get("function")
+        if function is not None and not isinstance(function, str):
+            self.problems.append(f"{where}: function must be a name such as \"water ionization\"")
+            function = None
+        record = LogK(log10_k, dh, dcp, analytic, range_c, unc, function)
         problems = record.problems(where)
         self.problems.extend(problems)
         return None if problems else record
