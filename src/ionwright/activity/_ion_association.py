@@ -31,7 +31,7 @@ _TWICE = "is already in the activity coefficients these models are fitted to; fo
 
 SODIUM_CARBONATE = LeftOut(
     reason=f"weak Na+–carbonate association {_TWICE}",
-    made_of=("Na+", "CO3-2"),
+    made_of=("Na+", "CO3^2-"),
     evidence=("0.025 m NaHCO3 + 0.025 m Na2CO3 (" + _STANDARDS + ": 10.012 at 25 °C, "
               "9.828 at 50 °C): Davies gives 9.860 and 9.492 with NaCO3- (log K 1.27), "
               "10.002 and 9.822 without it; extended Debye–Hückel and Truesdell–Jones move "
@@ -39,7 +39,7 @@ SODIUM_CARBONATE = LeftOut(
 )
 POTASSIUM_CARBONATE = LeftOut(
     reason=f"weak K+–carbonate association {_TWICE}",
-    made_of=("K+", "CO3-2"),
+    made_of=("K+", "CO3^2-"),
     evidence="no K–carbonate complex is in the core table; the rule keeps user tables "
              "consistent with the Na+ decision",
 )
@@ -48,9 +48,9 @@ _PHOSPHATE_EVIDENCE = (
     "standards' scale: with NaHPO4- and KHPO4- (log K 0.29) Truesdell–Jones is 0.013–0.028 "
     "low, without them within 0.015; extended Debye–Hückel is within 0.022 either way")
 SODIUM_PHOSPHATE = LeftOut(reason=f"weak Na+–phosphate association {_TWICE}",
-                           made_of=("Na+", "PO4-3"), evidence=_PHOSPHATE_EVIDENCE)
+                           made_of=("Na+", "PO4^3-"), evidence=_PHOSPHATE_EVIDENCE)
 POTASSIUM_PHOSPHATE = LeftOut(reason=f"weak K+–phosphate association {_TWICE}",
-                              made_of=("K+", "PO4-3"), evidence=_PHOSPHATE_EVIDENCE)
+                              made_of=("K+", "PO4^3-"), evidence=_PHOSPHATE_EVIDENCE)
 
 DAVIES_PAIRS = IonPairSet(
     summary="every complex of the tables except the weak Na+ and K+ complexes of carbonate "

@@ -27,7 +27,7 @@ DAVIES_MAX_IONIC_STRENGTH = 0.2
 
 DAVIES_LIMITS = (
     ValidityLimit("K+", "Cl-", 0.1, f"KCl: +4.1 % at 0.2 mol/kg, {_HW}"),
-    ValidityLimit("Ca+2", "Cl-", 0.15, f"CaCl2: +4.0 % at 0.1 mol/kg (I = 0.3), {_HW}"),
+    ValidityLimit("Ca2+", "Cl-", 0.15, f"CaCl2: +4.0 % at 0.1 mol/kg (I = 0.3), {_HW}"),
     ValidityLimit("K+", "NO3-", 0.01, f"KNO3: +5.7 % at 0.1 mol/kg, {_RS}"),
 )
 
@@ -44,9 +44,9 @@ TRUESDELL_JONES_MAX_IONIC_STRENGTH = 2.0
 TRUESDELL_JONES_LIMITS = (
     ValidityLimit("Na+", "OH-", 0.2, f"NaOH: −3.0 % at 0.5 mol/kg, {_RS}"),
     ValidityLimit("K+", "OH-", 0.01, f"KOH: −4.4 % at 0.1 mol/kg, {_RS}"),
-    ValidityLimit("Na+", "SO4-2", 0.45, f"Na2SO4: +12.7 % at 0.5 mol/kg (I = 1.1), {_HW}"),
-    ValidityLimit("K+", "SO4-2", 0.1, f"K2SO4: −3.4 % at 0.1 mol/kg (I = 0.25), "
+    ValidityLimit("Na+", "SO4^2-", 0.45, f"Na2SO4: +12.7 % at 0.5 mol/kg (I = 1.1), {_HW}"),
+    ValidityLimit("K+", "SO4^2-", 0.1, f"K2SO4: −3.4 % at 0.1 mol/kg (I = 0.25), "
                                       f"{_RS}; no lower point was tested"),
-    ValidityLimit("Mg+2", "SO4-2", 0.18, f"MgSO4: +4.9 % at 0.2 mol/kg (I = 0.33), {_RS}"),
+    ValidityLimit("Mg2+", "SO4^2-", 0.18, f"MgSO4: +4.9 % at 0.2 mol/kg (I = 0.33), {_RS}"),
     ValidityLimit("K+", "NO3-", 0.1, f"KNO3: +6.0 % at 0.2 mol/kg, {_RS}"),
 )

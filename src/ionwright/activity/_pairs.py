@@ -10,7 +10,7 @@ what was left out (``ion_pairs`` in the JSON, ``--explain`` in text).
 
 A rule names species directly (``species``) or by what they are made of (``made_of``:
 every species whose components, H+ and H2O aside, are exactly those of these ions).
-``made_of = ("Na+", "CO3-2")`` (or ``("Na+", "HCO3-")``: HCO3- is CO3-2 and H+) covers
+``made_of = ("Na+", "CO3^2-")`` (or ``("Na+", "HCO3-")``: HCO3- is CO3^2- and H+) covers
 NaCO3- and NaHCO3 and any such complex a user table adds. Components themselves are
 always formed. Models without an ``ion_pairs`` attribute (a
 plugin's, say) form every species of the tables.
@@ -52,7 +52,7 @@ class LeftOut:
 
     @property
     def label(self) -> str:
-        """What the rule covers, as a reader would name it ('Na+ with CO3-2', 'NaSO4-')."""
+        """What the rule covers, as a reader would name it ('Na+ with CO3^2-', 'NaSO4-')."""
         parts = list(self.species)
         if self.made_of:
             parts.append("complexes of " + " with ".join(self.made_of))
