@@ -10,6 +10,9 @@ the standards on their own scale (``tests/reference/test_ph_standards.py``):
 
 * Na+/K+ with carbonate (NaCO3-, NaHCO3): left out by every model. With NaCO3-
   (log K 1.27) the carbonate standard comes out 0.15 low at 25 °C and 0.34 at 50 °C.
+* Na+/K+ with borate (NaB(OH)4): left out by every model. With it the borax standard reads
+  0.005 lower at every temperature (0.02–0.03 low at 0 °C); seawater's apparent borate pK
+  stays within 0.05 of Dickson (1990) without it, the Mg and Ca borate pairs doing the work.
 * Na+/K+ with phosphate (NaHPO4-, KHPO4-, log K 0.29): formed by Davies (and ideal, its
   limit), left out by the size-based models. With them, Davies is within 0.018 of both
   phosphate standards at 0–50 °C (0.025 without); Truesdell–Jones is 0.028 low with them
@@ -43,6 +46,16 @@ POTASSIUM_CARBONATE = LeftOut(
     evidence="no K–carbonate complex is in the core table; the rule keeps user tables "
              "consistent with the Na+ decision",
 )
+SODIUM_BORATE = LeftOut(
+    reason=f"weak Na+–borate association {_TWICE}",
+    made_of=("Na+", "B(OH)4-"),
+    evidence=("0.01 m borax (" + _STANDARDS + "), 0–50 °C, on the standards' scale: with "
+              "NaB(OH)4 (log K -0.11) every model reads 0.005 lower (0.024–0.027 low at "
+              "0 °C); seawater at S = 35 keeps the apparent borate pK within 0.05 of Dickson "
+              "(1990) without it (Davies 8.621, Truesdell–Jones 8.643)"),
+)
+POTASSIUM_BORATE = LeftOut(reason=f"weak K+–borate association {_TWICE}",
+                           made_of=("K+", "B(OH)4-"), evidence=SODIUM_BORATE.evidence)
 _PHOSPHATE_EVIDENCE = (
     "KH2PO4 + Na2HPO4 1:1 and 1:3.5 standards (" + _STANDARDS + "), 0–50 °C, on the "
     "standards' scale: with NaHPO4- and KHPO4- (log K 0.29) Truesdell–Jones is 0.013–0.028 "
@@ -54,16 +67,18 @@ POTASSIUM_PHOSPHATE = LeftOut(reason=f"weak K+–phosphate association {_TWICE}"
 
 DAVIES_PAIRS = IonPairSet(
     summary="every complex of the tables except the weak Na+ and K+ complexes of carbonate "
-            "(NaCO3-, NaHCO3), which the activity coefficients already describe",
-    left_out=(SODIUM_CARBONATE, POTASSIUM_CARBONATE),
+            "and borate (NaCO3-, NaHCO3, NaB(OH)4), which the activity coefficients already "
+            "describe",
+    left_out=(SODIUM_CARBONATE, POTASSIUM_CARBONATE, SODIUM_BORATE, POTASSIUM_BORATE),
 )
-"""Davies and ideal: everything but the weak Na+/K+ carbonate complexes."""
+"""Davies and ideal: everything but the weak Na+/K+ carbonate and borate complexes."""
 
 ION_SIZE_PAIRS = IonPairSet(
-    summary="every complex of the tables except the weak Na+ and K+ complexes of carbonate "
-            "and phosphate (NaCO3-, NaHCO3, NaHPO4-, KHPO4-), which the activity "
-            "coefficients already describe",
-    left_out=(SODIUM_CARBONATE, POTASSIUM_CARBONATE, SODIUM_PHOSPHATE, POTASSIUM_PHOSPHATE),
+    summary="every complex of the tables except the weak Na+ and K+ complexes of carbonate, "
+            "borate and phosphate (NaCO3-, NaHCO3, NaB(OH)4, NaHPO4-, KHPO4-), which the "
+            "activity coefficients already describe",
+    left_out=(SODIUM_CARBONATE, POTASSIUM_CARBONATE, SODIUM_BORATE, POTASSIUM_BORATE,
+              SODIUM_PHOSPHATE, POTASSIUM_PHOSPHATE),
 )
 """Extended Debye–Hückel and Truesdell–Jones: everything but the weak Na+/K+ complexes of
-carbonate and phosphate."""
+carbonate, borate and phosphate."""

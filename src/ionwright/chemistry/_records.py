@@ -103,11 +103,13 @@ class Component:
     ion_size: float | None = None
     tj_a: float | None = None
     tj_b: float | None = None
+    setschenow: float | None = None
     from_memory: bool = False
     note: str = ""
 
     def __post_init__(self) -> None:
         _check_sizes(self.table, f"component {self.name!r}", self.ion_size, self.tj_a)
+        _check_setschenow(self.table, f"component {self.name!r}", self.setschenow, self.charge)
 
 
 @dataclass(frozen=True)
@@ -131,9 +133,7 @@ class Species:
 
     def __post_init__(self) -> None:
         _check_sizes(self.table, f"species {self.name!r}", self.ion_size, self.tj_a)
-        if self.setschenow is not None and self.charge != 0:
-            raise TableError(self.table, [f"species {self.name!r}: setschenow applies to "
-                                          f"neutral species only (charge {self.charge:+d})"])
+        _check_setschenow(self.table, f"species {self.name!r}", self.setschenow, self.charge)
 
 
 @dataclass(frozen=True)
@@ -191,3 +191,9 @@ def _check_sizes(table: str, where: str, *sizes: float | None) -> None:
     if bad:
         raise TableError(table, [f"{where}: ion size {bad[0]} Å must be in (0, "
                                  f"{ION_SIZE_LIMIT_A:g}] Å"])
+
+
+def _check_setschenow(table: str, where: str, setschenow: float | None, charge: int) -> None:
+    if setschenow is not None and charge != 0:
+        raise TableError(table, [f"{where}: setschenow applies to neutral species only "
+                                 f"(charge {charge:+d})"])

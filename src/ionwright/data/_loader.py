@@ -30,7 +30,7 @@ _LOGK_KEYS = {"log10_k", "enthalpy_kJ", "heat_capacity_J", "analytic", "range_C"
               "function"}
 _COMMON = {"source", "from_memory", "note", "formula"}
 _ALLOWED = {
-    "components": _COMMON | {"ion_size", "tj_a", "tj_b"},
+    "components": _COMMON | {"ion_size", "tj_a", "tj_b", "setschenow"},
     "species": _COMMON | _LOGK_KEYS | {"from", "ion_size", "tj_a", "tj_b", "setschenow"},
     "solids": _COMMON | _LOGK_KEYS | {"dissolves_to"},
     "gases": _COMMON | _LOGK_KEYS | {"dissolves_to"},
@@ -232,6 +232,7 @@ class _Builder:
             elements=frozen_map(formula.elements), table=self.name,
             source=entry.get("source", ""), ion_size=self._number(where, entry, "ion_size"),
             tj_a=self._number(where, entry, "tj_a"), tj_b=self._number(where, entry, "tj_b"),
+            setschenow=self._number(where, entry, "setschenow"),
             from_memory=bool(entry.get("from_memory", False)), note=entry.get("note", ""))
 
     def _species(self, name: str, entry: dict) -> Species | None:
