@@ -23,6 +23,8 @@ Where each number comes from (re-reading status in brackets):
 * 25 °C values re-read in abstracts: carbonate 10.012 and citrate 3.776 (Staples, B.R. &
   Bates, R.G. (1969) J. Res. Natl. Bur. Stand. 73A, 37–41, "Two new standards for the pH
   scale"; borax 9.180 is quoted there as the former upper limit of the scale).
+* Phosphate standards at 25 °C: 6.865 (1:1) and 7.413 (1:3.5), re-read in Partanen, J.I. &
+  Minkkinen, P.O. (1996) Acta Chem. Scand. 50, 1081 (abstract).
 * Phosphate 1:3.5 (0.008695 + 0.03043 mol/kg): 7.415 at 25 °C and 7.395 at 37 °C as quoted
   for the NBS physiological phosphate standard by Roy, L.N., Roy, R.N. et al. (2012) Open
   Electrochem. J. 4, 20 [re-read, secondary]; IUPAC (2002) as recalled gives 7.413 and
@@ -84,12 +86,12 @@ STANDARDS = (
     Standard("phosphate 1:1 (0.025 + 0.025 m)", {"KH2PO4": 0.025, "Na2HPO4": 0.025},
              _row([6.984, 6.951, 6.923, 6.900, 6.881, 6.865, 6.853, 6.844, 6.841, 6.838,
                    6.833]),
-             IUPAC_2002),
+             IUPAC_2002 + "; 25 °C re-read in Partanen & Minkkinen (1996)", frozenset({25.0})),
     Standard("phosphate 1:3.5 (0.008695 + 0.03043 m)",
              {"KH2PO4": 0.008695, "Na2HPO4": 0.03043},
              _row([7.534, 7.500, 7.472, 7.448, 7.429, 7.413, 7.400, 7.389, 7.386, 7.380,
                    7.367]),
-             IUPAC_2002),
+             IUPAC_2002 + "; 25 °C re-read in Partanen & Minkkinen (1996)", frozenset({25.0})),
     Standard("borax 0.01 m", {"borax": 0.01},
              _row([9.464, 9.395, 9.332, 9.276, 9.225, 9.180, 9.139, 9.102, 9.088, 9.068,
                    9.011]),

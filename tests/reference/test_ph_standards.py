@@ -34,9 +34,6 @@ _PHTHALATE_SIZES = ("HPhthalate- has no published ion size known to the table (t
                     "uses its 4 Å default) and the phthalic-acid pK2(T) is recalled: the "
                     "size-based models read 0.022–0.032 high, Davies (no sizes) is within "
                     "0.009")
-_PHOSPHATE_50 = ("at 50 °C the phosphate pK2(T) (Goldberg et al. 2002 ΔH°, ΔCp°, recalled) "
-                 "leaves the 1:3.5 standard 0.021 high while the 1:1 standard stays within "
-                 "0.011")
 _PITZER = ("Pitzer's share of issue 12 belongs to the brines helper (issue 13): the bundled "
            "parameters lack the K+ interactions with hydrogen tartrate, dihydrogen citrate and "
            "hydrogen phthalate, and the phosphate and borate ones carry no temperature "
@@ -47,15 +44,13 @@ KNOWN_GAPS: dict[tuple[str, str], tuple[frozenset | None, str]] = {
     # (model, standard) -> (temperatures, None for all; reason)
     ("davies", "borax 0.01 m"): (frozenset({0.0}), _BORAX_0),
     ("extended-debye-huckel", "hydrogen phthalate 0.05 m"): (None, _PHTHALATE_SIZES),
-    ("extended-debye-huckel", "phosphate 1:3.5 (0.008695 + 0.03043 m)"):
-        (frozenset({50.0}), _PHOSPHATE_50),
     ("truesdell-jones", "hydrogen phthalate 0.05 m"): (None, _PHTHALATE_SIZES),
     ("truesdell-jones", "borax 0.01 m"): (frozenset({0.0}), _BORAX_0),
     ("pitzer", "tartrate (saturated at 25 °C)"): (frozenset({25.0, 30.0, 35.0, 37.0}), _PITZER),
     ("pitzer", "dihydrogen citrate 0.05 m"): (None, _PITZER),
     ("pitzer", "hydrogen phthalate 0.05 m"): (frozenset({5.0, 10.0, 15.0, 20.0, 25.0, 30.0,
                                                          35.0, 37.0, 40.0, 50.0}), _PITZER),
-    ("pitzer", "phosphate 1:3.5 (0.008695 + 0.03043 m)"): (frozenset({40.0, 50.0}), _PITZER),
+    ("pitzer", "phosphate 1:3.5 (0.008695 + 0.03043 m)"): (frozenset({50.0}), _PITZER),
     ("pitzer", "borax 0.01 m"): (frozenset({0.0}), _PITZER),
 }
 
