@@ -269,9 +269,9 @@ def strength_text(outcomes) -> str | None:
 
 
 def ph_spread(outcomes: list[ModelOutcome] | tuple[ModelOutcome, ...]) -> PhSpread:
-    """The pH range of the converged models whose stated range covers the solution."""
-    within = [o for o in outcomes if o.converged
-              and o.result.ionic_strength <= o.max_ionic_strength]
+    """The pH range of the converged models valid for the solution (their stated range,
+    narrowed by kind of solution, covers it)."""
+    within = [o for o in outcomes if o.converged and o.valid]
     if not within:
         return PhSpread((), None, None)
     values = [o.result.pH for o in within]
