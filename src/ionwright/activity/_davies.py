@@ -1,8 +1,9 @@
 """Davies equation: log10 γ = −A z² (√I/(1+√I) − 0.3 I), with A from water at T.
 
 Complexes: every complex of the tables except the weak Na+ and K+ complexes of carbonate,
-which the equation's coefficients already describe
-(:data:`~ionwright.activity._ion_association.DAVIES_PAIRS`; the pH standards decide it).
+borate and phosphate, which the equation's coefficients already describe
+(:data:`~ionwright.activity._ion_association.ION_ASSOCIATION_PAIRS`; the pH standards
+decide it).
 
 References
 ----------
@@ -17,7 +18,7 @@ import numpy as np
 
 from ..chemistry._water import debye_huckel_A
 from ._base import LN10, IonicStrengthModel, SpeciesProperties, neutral_weights
-from ._ion_association import DAVIES_PAIRS
+from ._ion_association import ION_ASSOCIATION_PAIRS
 from ._measured_ranges import DAVIES_LIMITS, DAVIES_MAX_IONIC_STRENGTH
 from ._validity import StatedValidity
 
@@ -60,7 +61,7 @@ class DaviesModel(StatedValidity):
     max_ionic_strength = DAVIES_MAX_IONIC_STRENGTH
     validity = DAVIES_LIMITS
     reference = "Davies (1962) Ion Association, Butterworths"
-    ion_pairs = DAVIES_PAIRS
+    ion_pairs = ION_ASSOCIATION_PAIRS
 
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> _BoundDavies:
         weights = np.stack([-LN10 * species.charge ** 2, neutral_weights(species)], axis=1)

@@ -3,8 +3,8 @@
 log10 γ = −A z² √I / (1 + B å √I) + b I, with A, B from water at T. Extended
 Debye–Hückel uses Kielland's å and b = 0; Truesdell–Jones its own a and b per ion.
 Ions without a size parameter get :data:`DEFAULT_ION_SIZE` and are named in a note.
-Both form every complex of the tables except the weak Na+ and K+ complexes of carbonate
-and phosphate (:data:`~ionwright.activity._ion_association.ION_SIZE_PAIRS`).
+Both form every complex of the tables except the weak Na+ and K+ complexes of carbonate,
+borate and phosphate (:data:`~ionwright.activity._ion_association.ION_ASSOCIATION_PAIRS`).
 
 References
 ----------
@@ -20,7 +20,7 @@ import numpy as np
 
 from ..chemistry._water import debye_huckel_A, debye_huckel_B
 from ._base import LN10, IonicStrengthModel, SpeciesProperties, neutral_weights
-from ._ion_association import ION_SIZE_PAIRS
+from ._ion_association import ION_ASSOCIATION_PAIRS
 from ._measured_ranges import (EXTENDED_DEBYE_HUCKEL_LIMITS,
                                EXTENDED_DEBYE_HUCKEL_MAX_IONIC_STRENGTH,
                                TRUESDELL_JONES_LIMITS, TRUESDELL_JONES_MAX_IONIC_STRENGTH)
@@ -77,7 +77,7 @@ class ExtendedDebyeHuckelModel(StatedValidity):
     max_ionic_strength = EXTENDED_DEBYE_HUCKEL_MAX_IONIC_STRENGTH
     validity = EXTENDED_DEBYE_HUCKEL_LIMITS
     reference = "Kielland (1937) J. Am. Chem. Soc. 59, 1675"
-    ion_pairs = ION_SIZE_PAIRS
+    ion_pairs = ION_ASSOCIATION_PAIRS
 
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> _BoundSized:
         notes: list[str] = []
@@ -91,7 +91,7 @@ class TruesdellJonesModel(StatedValidity):
     max_ionic_strength = TRUESDELL_JONES_MAX_IONIC_STRENGTH
     validity = TRUESDELL_JONES_LIMITS
     reference = "Truesdell & Jones (1974) J. Res. U.S. Geol. Surv. 2, 233"
-    ion_pairs = ION_SIZE_PAIRS
+    ion_pairs = ION_ASSOCIATION_PAIRS
 
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> _BoundSized:
         notes: list[str] = []

@@ -1,8 +1,8 @@
 """Ideal solution: every activity coefficient is 1 (the limit I → 0 of every model).
 
-It forms the complexes Davies forms
-(:data:`~ionwright.activity._ion_association.DAVIES_PAIRS`), so that moving from it to the
-default model changes the activity coefficients and nothing else.
+It forms the complexes the other ion-association models form
+(:data:`~ionwright.activity._ion_association.ION_ASSOCIATION_PAIRS`), so that moving from
+it to them changes the activity coefficients and nothing else.
 """
 
 from __future__ import annotations
@@ -12,7 +12,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ._base import IonicStrengthModel, SpeciesProperties
-from ._ion_association import DAVIES_PAIRS
+from ._ion_association import ION_ASSOCIATION_PAIRS
 from ._measured_ranges import IDEAL_MAX_IONIC_STRENGTH
 
 
@@ -29,7 +29,7 @@ class IdealModel:
     title = "ideal solution (γ = 1)"
     max_ionic_strength = IDEAL_MAX_IONIC_STRENGTH
     reference = "limit of infinite dilution"
-    ion_pairs = DAVIES_PAIRS
+    ion_pairs = ION_ASSOCIATION_PAIRS
 
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> _BoundIdeal:
         return _BoundIdeal(species, t_C, weights=np.zeros((len(species.names), 0)))
