@@ -58,11 +58,11 @@ class FormulaError(IonwrightError, ValueError):
 class TableError(IonwrightError, ValueError):
     """A constant table is malformed; lists every problem found, not only the first."""
 
-    def __init__(self, origin: str, problems: list[str]) -> None:
+    def __init__(self, origin: str, problems: list[str], hint: str = "") -> None:
         lines = "\n".join(f"  - {p}" for p in problems)
         super().__init__(
             f"constant table {origin} has {len(problems)} problem(s):\n{lines}",
-            "fix the entries above; `ionwright tables check FILE` re-checks a file",
+            hint or "fix the entries above; `ionwright tables check FILE` re-checks a file",
         )
         self.origin, self.problems = origin, problems
 

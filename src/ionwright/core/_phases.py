@@ -62,6 +62,9 @@ _PRESSURE = re.compile(r"^\s*(?:10\s*\^\s*(?P<exp>[-+]?\d+(?:\.\d*)?)|(?P<num>[-
 _AMOUNT = re.compile(r"^\s*(?P<num>[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*"
                      r"(?P<unit>[A-Za-zµμ]+)\s*$")
 
+#: log10 of the partial pressures (atm) a gas may be held at: below, a gas has no effect on
+#: any result; above, real-gas behaviour (not modelled) dominates
+LOG10_PRESSURE_RANGE = (-20.0, 3.0)
 SI_TOLERANCE = 1e-10        # |SI| of a present solid that counts as saturated
 ACTIVATION_SI = 1e-9        # SI above which an absent solid joins the active set
 MAX_PHASE_ITERATIONS = 60
@@ -196,11 +199,19 @@ def log10_pressure(value: Any, where: str = "pressure") -> float:
                           f"did you mean {near[0]!r}?" if near else
                           f"units: {', '.join(ATM_PER_UNIT)}")
     if exponent is not None:
-        return float(exponent) + math.log10(ATM_PER_UNIT[unit])
-    if not math.isfinite(number) or number <= 0:
-        raise RecipeError(where, f"partial pressure {value!r} must be > 0",
-                          "remove the gas to leave it out; " + hint)
-    return math.log10(number * ATM_PER_UNIT[unit])
+        log10_p = float(exponent) + math.log10(ATM_PER_UNIT[unit])
+    else:
+        if not math.isfinite(number) or number <= 0:
+            raise RecipeError(where, f"partial pressure {value!r} must be > 0",
+                              "remove the gas to leave it out; " + hint)
+        log10_p = math.log10(number) + math.log10(ATM_PER_UNIT[unit])
+    low, high = LOG10_PRESSURE_RANGE
+    if not low <= log10_p <= high:
+        raise RecipeError(where, f"partial pressure {value!r} is outside 1e{low:g} to "
+                          f"1e{high:g} atm, where the ideal-gas law behind Henry's law holds "
+                          "and a gas can matter", "remove the gas to leave it out, or check "
+                          "the unit; " + hint)
+    return log10_p
 
 
 def components_needed(choice: PhaseChoice, tables: TableSet) -> set[str]:
