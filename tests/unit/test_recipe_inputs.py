@@ -134,7 +134,8 @@ def test_stocks_go_into_the_solution_as_made(tmp_path):
     added = read_recipe({"volume": "1 L", "dissolve": {"NaCl": "0.1 mol/L"},
                          "add": [{"stock": "KCl", "concentration": "1 mol/L",
                                   "volume": "50 mL"}]})
-    stock = read_recipe({"volume": "50 mL", "dissolve": {"KCl": "1 mol/L"}}).solution
+    stock = read_recipe({"add": [{"stock": "KCl", "concentration": "1 mol/L",
+                                  "volume": "50 mL"}]}).solution   # the stock alone
     water = made.solution.water_kg + stock.water_kg
     assert added.solution.water_kg == pytest.approx(water, rel=1e-12)
     assert molality(added, "NaCl") * water == pytest.approx(0.1, rel=1e-12)

@@ -36,8 +36,8 @@ from ..core._phases import (
     read_phases,
 )
 from ..plugins._registry import Registry, default_registry
-from ..inputs._recipe import (Recipe, as_number, check_ph, entry_for, mix, positive,
-                              read_recipe)
+from ..inputs._recipe import (Recipe, as_number, check_ph, positive, read_recipe,
+                              stock_portion)
 from ..outputs._result import Result
 from ..activity._pairs import ion_pairs_of
 from ..core._system import PROTON, WATER, ChemicalSystem, compile_system
@@ -178,9 +178,9 @@ def read_stock(ingredient: str, concentration: str, tables, t_C: float,
     quantity = positive(expect(parse_quantity(concentration, where), STOCK_DIMENSIONS, where),
                         where)
     solute = ingredient_solute(made.name, made.formula, made.per_mole, tables)
-    one_litre = mix([entry_for(solute, "ingredient", quantity, where, "")], t_C,
-                    volume_L=1.0, where=where)
-    return Stock(made, quantity.text, one_litre.moles[0], one_litre.solution.water_kg)
+    litre = parse_quantity("1 L", where)
+    one_litre = stock_portion(made.name, solute, quantity, litre, t_C, None, where)
+    return Stock(made, quantity.text, one_litre.entries[0].absolute, one_litre.water_kg)
 
 
 def split_name_and_quantity(text: str, where: str) -> tuple[str, str]:

@@ -340,14 +340,16 @@ def mix(entries: Iterable[Entry], t_C: float, *, water_kg: float | None = None,
             new_water = new_volume = math.nan
         if not (math.isfinite(new_water) and new_water > WATER_FLOOR * (volume_L or 0.0)
                 and new_water > 0 and math.isfinite(new_volume)):
-            raise _no_room(entries, where, new_water)
+            raise _no_room(entries, where, f"water would be {new_water:.4g} kg"
+                           if math.isfinite(new_water) else "the volume estimate runs away")
         done = (abs(new_water - water) <= RELATIVE_TOLERANCE * water
                 and abs(new_volume - volume) <= RELATIVE_TOLERANCE * volume)
         water, volume = new_water, new_volume
         if done:
             break
     else:
-        raise _no_room(entries, where, water)
+        raise _no_room(entries, where, "its volume keeps growing: as much per litre as the "
+                       "pure substance, or more")
     fixed_mass = 1000.0 * water + sum(e.solute.molar_mass * e.moles(water, volume, 0.0)
                                       for e in entries)
     mass = fixed_mass / (1.0 - fraction)
@@ -360,7 +362,7 @@ def mix(entries: Iterable[Entry], t_C: float, *, water_kg: float | None = None,
     return Mixture(entries, moles, solution)
 
 
-def _no_room(entries: tuple[Entry, ...], where: str, water: float) -> RecipeError:
+def _no_room(entries: tuple[Entry, ...], where: str, detail: str) -> RecipeError:
     """The error for amounts that leave no water, naming the heaviest entry."""
     heaviest = max(entries, key=lambda e: e.solute.molar_mass * (
         e.absolute + e.per_kg_water + e.per_litre + e.per_gram_solution * 1000.0),
@@ -369,9 +371,7 @@ def _no_room(entries: tuple[Entry, ...], where: str, water: float) -> RecipeErro
     if heaviest is not None and heaviest.given:
         culprit = (f" {heaviest.key} = {heaviest.given!r}" if heaviest.key
                    else f" {heaviest.given!r}")
-    found = f"water would be {water:.4g} kg" if math.isfinite(water) else "the volume " \
-        "estimate runs away"
-    return RecipeError(f"{where}{culprit}", f"the amounts leave no room for water ({found}): "
+    return RecipeError(f"{where}{culprit}", f"that much leaves no room for water ({detail}): "
                        "more is dissolved than the solution can hold",
                        "check the amounts and their units (mol/L or mmol/L, g or mg), and the "
                        "volume or water they go into")
@@ -533,25 +533,32 @@ def _stocks(data: dict[str, Any], recipe: Recipe, tables: TableSet) -> list[Port
                         f"{where} volume")
         positive(strength, f"{where} concentration")
         positive(volume, f"{where} volume")
-        density = given_density(item, where)
-        tabulated = None if density is not None else tabulated_density(solute, strength, where)
-        if tabulated is not None and tabulated.mass_fraction == 1.0:  # glacial acetic acid
-            moles = 1000.0 * volume.value * tabulated.value / solute.formula.molar_mass
-            entry = Entry(solute, "ingredient", f"[[add]] {name}",
-                          f"{strength.text} × {volume.text}", absolute=moles,
-                          note=tabulated.note())
-            out.append(Portion((entry,), 0.0, volume.value))
-            continue
-        stock = mix([entry_for(solute, "ingredient", strength, where, "")],
-                    recipe.temperature_C, volume_L=volume.value,
-                    density=tabulated.value if tabulated else density,
-                    where=f"{where} concentration")
-        note, warnings = _stock_density_note(name, solute, stock, density, tabulated)
-        entry = Entry(solute, "ingredient", f"[[add]] {name}",
-                      f"{strength.text} × {volume.text}", absolute=stock.moles[0], note=note)
-        out.append(Portion((entry,), stock.solution.water_kg, volume.value,
-                           warnings=warnings))
+        out.append(stock_portion(name, solute, strength, volume, recipe.temperature_C,
+                                 given_density(item, where), where))
     return out
+
+
+def stock_portion(name: str, solute: Solute, strength: Quantity, volume: Quantity,
+                  t_C: float, density: float | None, where: str) -> Portion:
+    """*volume* of a stock of *solute* at *strength*: its moles and its water.
+
+    The one computation of a stock for [[add]], target and sweep titrations, so that they
+    agree to the last digit. The density is *density* when given, else a tabulated one
+    (concentrated acids and bases), else the estimate.
+    """
+    label, given = f"[[add]] {name}", f"{strength.text} × {volume.text}"
+    tabulated = None if density is not None else tabulated_density(solute, strength, where)
+    if tabulated is not None and tabulated.mass_fraction == 1.0:  # glacial acetic acid
+        moles = 1000.0 * volume.value * tabulated.value / solute.formula.molar_mass
+        entry = Entry(solute, "ingredient", label, given, absolute=moles,
+                      note=tabulated.note())
+        return Portion((entry,), 0.0, volume.value)
+    stock = mix([entry_for(solute, "ingredient", strength, where, "")], t_C,
+                volume_L=volume.value, density=tabulated.value if tabulated else density,
+                where=f"{where} concentration")
+    note, warnings = _stock_density_note(name, solute, stock, density, tabulated)
+    entry = Entry(solute, "ingredient", label, given, absolute=stock.moles[0], note=note)
+    return Portion((entry,), stock.solution.water_kg, volume.value, warnings=warnings)
 
 
 def _stock_density_note(name: str, solute: Solute, stock: Mixture, given: float | None,
