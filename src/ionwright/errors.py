@@ -98,15 +98,24 @@ class UnknownNameError(IonwrightError, KeyError):
         self.kind, self.name, self.suggestions = kind, name, near
 
 
+#: Relative mass-balance residual the solver accepts (core/_newton/numerics.py uses it).
+RESIDUAL_TOLERANCE = 1e-10
+
+
 class ConvergenceError(IonwrightError, ArithmeticError):
     """The solver did not reach the stated tolerances; carries the diagnostics."""
 
-    def __init__(self, status: str, iterations: int, residual: float, detail: str = "") -> None:
+    def __init__(self, status: str, iterations: int, residual: float, detail: str = "",
+                 hint: str = "") -> None:
+        balanced = residual <= RESIDUAL_TOLERANCE   # NaN is not
+        found = (f"the mass balances converged (worst relative residual {residual:.3g}, "
+                 f"tolerance {RESIDUAL_TOLERANCE:g})" if balanced else
+                 f"worst relative mass-balance residual {residual:.3g} (tolerance "
+                 f"{RESIDUAL_TOLERANCE:g})")
         super().__init__(
-            f"solver stopped with status {status!r} after {iterations} iterations; "
-            f"worst relative mass-balance residual {residual:.3g} (tolerance 1e-10)"
+            f"solver stopped with status {status!r} after {iterations} iterations; {found}"
             + (f"; {detail}" if detail else ""),
-            "check that the totals are physically possible (e.g. a fixed pH with "
+            hint or "check that the totals are physically possible (e.g. a fixed pH with "
             "an impossible charge), or try another activity model",
         )
         self.status, self.iterations, self.residual, self.detail = (

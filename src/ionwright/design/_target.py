@@ -33,6 +33,7 @@ from ..core._phases import (
     components_needed,
     describe,
     equilibrate,
+    failure,
     read_phases,
 )
 from ..plugins._registry import Registry, default_registry
@@ -133,8 +134,12 @@ class Workbench:
         """The :class:`Result` of sample *k*; a failed sample raises ConvergenceError."""
         eq = _take(state.equilibrium, np.array([k]))
         if strict and eq.status[0] != "converged":
+            what, hint = failure(state, k)
             raise ConvergenceError(str(eq.status[0]), int(eq.iterations[0]),
-                                   float(eq.residual[0]), f"recipe {self.recipe.origin}")
+                                   float(eq.residual[0]),
+                                   "; ".join(filter(None, [what,
+                                                           f"recipe {self.recipe.origin}"])),
+                                   hint)
         t = float(state.t_C[k])
         recipe = self.recipe if t == self.recipe.temperature_C else replace(
             self.recipe, temperature_C=t)
