@@ -58,11 +58,11 @@ class FormulaError(IonwrightError, ValueError):
 class TableError(IonwrightError, ValueError):
     """A constant table is malformed; lists every problem found, not only the first."""
 
-    def __init__(self, origin: str, problems: list[str]) -> None:
+    def __init__(self, origin: str, problems: list[str], hint: str = "") -> None:
         lines = "\n".join(f"  - {p}" for p in problems)
         super().__init__(
             f"constant table {origin} has {len(problems)} problem(s):\n{lines}",
-            "fix the entries above; `ionwright tables check FILE` re-checks a file",
+            hint or "fix the entries above; `ionwright tables check FILE` re-checks a file",
         )
         self.origin, self.problems = origin, problems
 
@@ -98,15 +98,24 @@ class UnknownNameError(IonwrightError, KeyError):
         self.kind, self.name, self.suggestions = kind, name, near
 
 
+#: Relative mass-balance residual the solver accepts (core/_newton/numerics.py uses it).
+RESIDUAL_TOLERANCE = 1e-10
+
+
 class ConvergenceError(IonwrightError, ArithmeticError):
     """The solver did not reach the stated tolerances; carries the diagnostics."""
 
-    def __init__(self, status: str, iterations: int, residual: float, detail: str = "") -> None:
+    def __init__(self, status: str, iterations: int, residual: float, detail: str = "",
+                 hint: str = "") -> None:
+        balanced = residual <= RESIDUAL_TOLERANCE   # NaN is not
+        found = (f"the mass balances converged (worst relative residual {residual:.3g}, "
+                 f"tolerance {RESIDUAL_TOLERANCE:g})" if balanced else
+                 f"worst relative mass-balance residual {residual:.3g} (tolerance "
+                 f"{RESIDUAL_TOLERANCE:g})")
         super().__init__(
-            f"solver stopped with status {status!r} after {iterations} iterations; "
-            f"worst relative mass-balance residual {residual:.3g} (tolerance 1e-10)"
+            f"solver stopped with status {status!r} after {iterations} iterations; {found}"
             + (f"; {detail}" if detail else ""),
-            "check that the totals are physically possible (e.g. a fixed pH with "
+            hint or "check that the totals are physically possible (e.g. a fixed pH with "
             "an impossible charge), or try another activity model",
         )
         self.status, self.iterations, self.residual, self.detail = (

@@ -80,7 +80,7 @@ def test_a_wrong_suffix_is_a_user_error(tmp_path, capsys):
     source = tmp_path / "in.csv"
     source.write_text("NaCl\n0.1\n", encoding="utf^8-")
     assert main(["batch", str(source), "-o", str(tmp_path / "out.xlsx")]) == 2
-    assert "neither .csv nor .parquet" in capsys.readouterr().err
+    assert "must end in .csv or .parquet" in capsys.readouterr().err
 
 
 def test_threads_give_the_same_table_and_zero_threads_is_refused(tmp_path, monkeypatch,

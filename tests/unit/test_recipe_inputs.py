@@ -110,9 +110,8 @@ def test_pouring_a_whole_solution_reproduces_it(tmp_path):
         encoding="utf^8-")
     alone = ionwright.solve(tmp_path / "buffer.toml")
     sol = alone.recipe.solution
-    (tmp_path / "copy.toml").write_text(f'volume = "{sol.volume_L!r} L"\n[[pour]]\n'
-                                        f'recipe = "buffer.toml"\nvolume = "{sol.volume_L!r} L"\n',
-                                        encoding="utf^8-")
+    (tmp_path / "copy.toml").write_text(f'[[pour]]\nrecipe = "buffer.toml"\n'
+                                        f'volume = "{sol.volume_L!r} L"\n', encoding="utf-8")
     copy = ionwright.solve(tmp_path / "copy.toml")
     assert copy.pH == pytest.approx(alone.pH, abs=1e-9)
     assert copy.recipe.solution.water_kg == pytest.approx(sol.water_kg, rel=1e-9)
@@ -120,12 +119,37 @@ def test_pouring_a_whole_solution_reproduces_it(tmp_path):
 
 def test_poured_solution_with_a_fixed_ph_keeps_its_protons(tmp_path):
     (tmp_path / "sour.toml").write_text('[dissolve]\nNaCl = 0.01\n[fix]\npH = 3.0\n',
-                                        encoding="utf^8-")
-    (tmp_path / "all.toml").write_text('volume = "1 L"\n[[pour]]\nrecipe = "sour.toml"\n'
-                                       'volume = "1 L"\n', encoding="utf^8-")
+                                        encoding="utf-8")
+    (tmp_path / "all.toml").write_text('[[pour]]\nrecipe = "sour.toml"\nvolume = "1 L"\n',
+                                       encoding="utf-8")
     result = ionwright.solve(tmp_path / "all.toml")
     assert result.pH == pytest.approx(3.0, abs=1e-6)
     assert dict(result.recipe.components)["H+"] > 9e-4
+
+
+def test_stocks_go_into_the_solution_as_made(tmp_path):
+    """The recipe convention: water, volume and [dissolve] make a solution; each [[add]]
+    then goes into it with its own solutes and water, and nothing is made up afterwards."""
+    made = read_recipe({"volume": "1 L", "dissolve": {"NaCl": "0.1 mol/L"}})
+    added = read_recipe({"volume": "1 L", "dissolve": {"NaCl": "0.1 mol/L"},
+                         "add": [{"stock": "KCl", "concentration": "1 mol/L",
+                                  "volume": "50 mL"}]})
+    stock = read_recipe({"add": [{"stock": "KCl", "concentration": "1 mol/L",
+                                  "volume": "50 mL"}]}).solution   # the stock alone
+    water = made.solution.water_kg + stock.water_kg
+    assert added.solution.water_kg == pytest.approx(water, rel=1e-12)
+    assert molality(added, "NaCl") * water == pytest.approx(0.1, rel=1e-12)
+    assert molality(added, "KCl") * water == pytest.approx(0.050, rel=1e-12)
+    assert added.solution.volume_L > 1.04  # the stock's volume comes on top
+
+
+def test_a_hydrate_stock_brings_its_water_once():
+    grams = 0.1 * molar_mass("MgSO4·7H2O")
+    stock = read_recipe({"volume": "1 L", "dissolve": {"MgSO4·7H2O": f"{grams} g"}})
+    added = read_recipe({"water": "1 kg", "add": [{"stock": "MgSO4·7H2O",
+                                                   "concentration": f"{grams} g/L",
+                                                   "volume": "1 L"}]})
+    assert added.solution.water_kg == pytest.approx(1.0 + stock.solution.water_kg, rel=1e-12)
 
 
 def test_pour_cycle_is_reported_with_the_loop(tmp_path):
@@ -146,6 +170,9 @@ def test_recipe_pouring_itself(tmp_path):
 
 @pytest.mark.parametrize("recipe, problem", [
     ({"dissolve": {"NaCl": "3 g"}}, "need to know what they are dissolved in"),
+    ({"dissolve": {"NaCl": "3 g", "KCl": 0.1}, "add": [{"stock": "NaOH", "volume": "1 mL",
+                                                        "concentration": "1 M"}]},
+     "need to know what they are dissolved in"),
     ({"water": "1 kg", "volume": "1 L", "dissolve": {"NaCl": "3 g"}}, "not both"),
     ({"water": "1 L", "dissolve": {"NaCl": "3 g"}}, "water: '1 L' is a volume"),
     ({"water": "1 kg", "dissolve": {"NaCl": "3 mL"}}, "[dissolve] 'NaCl': '3 mL' is a volume"),

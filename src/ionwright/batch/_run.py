@@ -211,6 +211,10 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         if col.kind == "label":
             continue
         raw = frame.iloc[:, k]
+        if pd.api.types.is_bool_dtype(raw):  # yes/no values are no amount
+            _flag(problem, raw.notna().to_numpy(), lambda r: f"column {col.header!r}: "
+                  f"{raw.iloc[r]!r} is a yes/no value, not a number (a column to carry "
+                  "through unread goes in labels=[...], or --label)")
         numbers = pd.to_numeric(raw, errors="coerce").to_numpy(dtype=float)
         empty = raw.isna().to_numpy().copy()
         if not pd.api.types.is_numeric_dtype(raw):
@@ -510,12 +514,27 @@ def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
         Same index and row order as *frame*; never fewer rows.
     """
     if engine not in ENGINES:
-        raise UnknownNameError("engine", engine, ENGINES)
+        raise UnknownNameError("engine", engine, ENGINES, f"engines: {', '.join(ENGINES)}")
+    _check_frame(frame)
     options = dict(species=None if species is None else list(species), model=model,
                    tables=list(tables), labels=list(labels))
     if engine == "dask":
         return _dask_batch(frame, {**options, "threads": 1}, address, partition_rows)
     return _solve_frame(frame, registry=registry, threads=threads, **options)
+
+
+def _check_frame(frame: Any) -> None:
+    """Refuse what is not a table of samples: not a DataFrame, or a column twice."""
+    import pandas as pd
+
+    if not isinstance(frame, pd.DataFrame):
+        raise RecipeError("frame", f"a {type(frame).__name__} is not a table of samples",
+                          "give a pandas DataFrame, one row a sample, e.g. "
+                          "pd.DataFrame({'NaCl': [0.01, 0.02]})")
+    twice = sorted({str(c) for c in frame.columns[frame.columns.duplicated()]})
+    if twice:
+        raise RecipeError("frame", f"column(s) {', '.join(map(repr, twice))} appear twice",
+                          "rename or drop the copies: each column is read once")
 
 
 def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: str,

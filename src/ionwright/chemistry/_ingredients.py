@@ -17,6 +17,7 @@ from typing import Mapping
 import numpy as np
 
 from ..errors import FormulaError, RecipeError, UnknownNameError
+from ._atomic_weights import ATOMIC_NUMBERS
 from ._formula import parse_formula
 from ._tableset import TableSet
 
@@ -40,11 +41,73 @@ class Makeup:
 
 
 def makeup(name: str, tables: TableSet) -> Makeup:
-    """The :class:`Makeup` of ingredient *name*; raise a clear error when it has none."""
+    """The :class:`Makeup` of ingredient *name*; raise a clear error when it has none.
+
+    An unknown name or a formula that makes nothing is refused with the names it may have
+    meant: close reagent names, and formulas within one slip of it (case: ``NaCL`` for
+    NaCl; one extra character: ``NaOHH`` for NaOH) that the tables can make.
+    """
+    if not isinstance(name, str) or not name.strip():
+        raise RecipeError("ingredient", f"{name!r} must be a name (text)",
+                          'give a named reagent or a formula, e.g. "NaOH" or "citric acid"')
     known = tables.memo.setdefault("makeup", {})
     if name not in known:
-        known[name] = _makeup(name, tables)
+        try:
+            known[name] = _makeup(name, tables)
+        except (UnknownNameError, RecipeError) as exc:
+            unmade = isinstance(exc, UnknownNameError) or exc.problem.startswith("cannot be made")
+            near = [*getattr(exc, "suggestions", ()),
+                    *(formula_suggestions(name, tables) if unmade else ())]
+            if not near:
+                raise
+            raise UnknownNameError("ingredient", name, near, "`ionwright tables show "
+                                   "reagents` lists the named reagents") from None
     return known[name]
+
+
+def formula_suggestions(name: str, tables: TableSet, n: int = 3) -> list[str]:
+    """Formulas the tables can make that differ from *name* by letter case or by one
+    character too many (``NaCL``, ``CACL2``, ``NaOHH``), best first."""
+    if " " in name.strip() or len(name) > 24:
+        return []
+    variants = dict.fromkeys([*_recased(name),
+                              *(v for i in range(len(name))
+                                for v in _recased(name[:i] + name[i + 1:]))])
+    found = []
+    for text in variants:
+        if text == name:
+            continue
+        try:
+            _makeup(text, tables)
+        except (FormulaError, UnknownNameError, RecipeError):
+            continue
+        found.append(text)
+        if len(found) == n:
+            break
+    return found
+
+
+def _recased(text: str, limit: int = 16) -> list[str]:
+    """Spellings of *text* whose letters read as element symbols (``CACL2`` → CaCl2)."""
+    out: list[str] = []
+
+    def walk(i: int, done: str) -> None:
+        if len(out) >= limit:
+            return
+        if i == len(text):
+            out.append(done)
+            return
+        if not text[i].isalpha():
+            walk(i + 1, done + text[i])
+            return
+        two = text[i:i + 2].capitalize()
+        if len(two) == 2 and two.isalpha() and two in ATOMIC_NUMBERS:
+            walk(i + 2, done + two)
+        if text[i].upper() in ATOMIC_NUMBERS:
+            walk(i + 1, done + text[i].upper())
+
+    walk(0, "")
+    return out
 
 
 def _makeup(name: str, tables: TableSet) -> Makeup:

@@ -6,6 +6,7 @@ record validates its own fields on construction and raises :class:`TableError`.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 from types import MappingProxyType
 from typing import Mapping
@@ -19,6 +20,9 @@ DELTA_CP_LIMIT_J = 2000.0
 ION_SIZE_LIMIT_A = 15.0
 RANGE_LIMIT_C = (-10.0, 400.0)
 FUNCTION_MISMATCH = 0.002  # log10 K: a named function must reproduce the table at 25 °C
+#: Largest |log10 K| accepted: the strongest aqueous complexes and least soluble solids
+#: stay within a few tens; beyond this a value is a slip (an exponent, a sign)
+LOG10_K_LIMIT = 200.0
 
 
 def frozen_map(mapping: Mapping[str, float] | None) -> Mapping[str, float]:
@@ -47,6 +51,16 @@ class LogK:
     def problems(self, where: str) -> list[str]:
         """Every out-of-range or inconsistent field, as messages naming *where*."""
         out = []
+        numbers = {"log10_k": self.log10_k, "enthalpy_kJ": self.enthalpy_kJ,
+                   "heat_capacity_J": self.heat_capacity_J, "uncertainty": self.uncertainty,
+                   "analytic": self.analytic, "range_C": self.range_C}
+        for key, value in numbers.items():
+            values = value if isinstance(value, tuple) else (value,)
+            if any(v is not None and not math.isfinite(v) for v in values):
+                out.append(f"{where}: {key} = {value!r} must be finite (a number, not nan "
+                           "or inf)")
+        if out:
+            return out
         if self.function is not None:
             if self.function not in FUNCTIONS:
                 out.append(f"{where}: function = {self.function!r} is not a temperature "
@@ -55,6 +69,9 @@ class LogK:
                 value = float(FUNCTIONS[self.function][0](T_REF))
                 out.append(f"{where}: log10_k = {self.log10_k} but function "
                            f"{self.function!r} gives {value:.4f} at 25 °C; make them agree")
+        if abs(self.log10_k) > LOG10_K_LIMIT:
+            out.append(f"{where}: log10_k = {self.log10_k:g} is outside ±{LOG10_K_LIMIT:g}; "
+                       "check the exponent and the sign")
         if self.enthalpy_kJ is not None and abs(self.enthalpy_kJ) > DELTA_H_LIMIT_KJ:
             out.append(f"{where}: enthalpy_kJ = {self.enthalpy_kJ} kJ/mol is outside "
                        f"±{DELTA_H_LIMIT_KJ:g}; is it in J/mol? enthalpy_kJ is in kJ/mol")

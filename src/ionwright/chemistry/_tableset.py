@@ -141,6 +141,10 @@ class TableSet:
         """Every missing basis, unknown reference, unbalanced reaction or cycle."""
         out = [f"the table set needs component {c!r}; add it to a table"
                for c in ("H+", "H2O") if c not in self.components]
+        out += [f"species {name!r} (table {record.table!r}) has the name of component "
+                f"{name!r} (table {self.components[name].table!r}), which would hide it: "
+                "give the species a name of its own" for name, record in self.species.items()
+                if name in self.components]
         known = {**self.components, **self.species}
         for kind, records, key in (("species", self.species, "from"),
                                    ("solid", self.solids, "dissolves_to"),

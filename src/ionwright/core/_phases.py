@@ -37,7 +37,7 @@ from typing import Any
 import numpy as np
 
 from . import _solver as solver
-from ..errors import PhaseRuleError, RecipeError, UnknownNameError
+from ..errors import RESIDUAL_TOLERANCE, PhaseRuleError, RecipeError, UnknownNameError
 from ..chemistry._formula import parse_formula
 from ._sensitivity import response
 from ._solver import Equilibrium, bound_slice
@@ -62,9 +62,14 @@ _PRESSURE = re.compile(r"^\s*(?:10\s*\^\s*(?P<exp>[-+]?\d+(?:\.\d*)?)|(?P<num>[-
 _AMOUNT = re.compile(r"^\s*(?P<num>[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*"
                      r"(?P<unit>[A-Za-zµμ]+)\s*$")
 
+#: log10 of the partial pressures (atm) a gas may be held at: below, a gas has no effect on
+#: any result; above, real-gas behaviour (not modelled) dominates
+LOG10_PRESSURE_RANGE = (-20.0, 3.0)
 SI_TOLERANCE = 1e-10        # |SI| of a present solid that counts as saturated
 ACTIVATION_SI = 1e-9        # SI above which an absent solid joins the active set
 MAX_PHASE_ITERATIONS = 60
+LINE_SEARCH_HALVINGS = 30   # halvings of a phase step before it is taken as it is
+ARMIJO = 1e-4               # share of the predicted decrease a step must achieve
 FRACTION_TO_BOUNDARY = 0.9  # never step more than this share of the way to a zero total
 START_AMOUNT = 1e-8         # mol/kg a dissolving solid starts from when none is in solution
 FIXED_COLUMN_ALLOWANCE = 1.0  # mol/kg: ionic-strength room for fixed activities (see inner)
@@ -196,11 +201,19 @@ def log10_pressure(value: Any, where: str = "pressure") -> float:
                           f"did you mean {near[0]!r}?" if near else
                           f"units: {', '.join(ATM_PER_UNIT)}")
     if exponent is not None:
-        return float(exponent) + math.log10(ATM_PER_UNIT[unit])
-    if not math.isfinite(number) or number <= 0:
-        raise RecipeError(where, f"partial pressure {value!r} must be > 0",
-                          "remove the gas to leave it out; " + hint)
-    return math.log10(number * ATM_PER_UNIT[unit])
+        log10_p = float(exponent) + math.log10(ATM_PER_UNIT[unit])
+    else:
+        if not math.isfinite(number) or number <= 0:
+            raise RecipeError(where, f"partial pressure {value!r} must be > 0",
+                              "remove the gas to leave it out; " + hint)
+        log10_p = math.log10(number) + math.log10(ATM_PER_UNIT[unit])
+    low, high = LOG10_PRESSURE_RANGE
+    if not low <= log10_p <= high:
+        raise RecipeError(where, f"partial pressure {value!r} is outside 1e{low:g} to "
+                          f"1e{high:g} atm, where the ideal-gas law behind Henry's law holds "
+                          "and a gas can matter", "remove the gas to leave it out, or check "
+                          "the unit; " + hint)
+    return log10_p
 
 
 def components_needed(choice: PhaseChoice, tables: TableSet) -> set[str]:
@@ -564,8 +577,10 @@ class _Work:
             if not rows.size:
                 break
             step = self.newton_step(eq, rows, si[rows], present[rows])
-            xi[rows], present[rows] = self.take_step(xi[rows], step, present[rows], rows)
-            sub_eq, sub_si = self.inner(xi[rows], rows)
+            new_xi, new_present = self.take_step(xi[rows], step, present[rows], rows)
+            sub_eq, sub_si, new_xi = self.line_search(xi[rows], present[rows], si[rows],
+                                                      new_xi, new_present, rows)
+            xi[rows], present[rows] = new_xi, new_present
             eq = _merge(eq, sub_eq, rows)
             si[rows] = sub_si
             bad = sub_eq.status != "converged"
@@ -573,6 +588,32 @@ class _Work:
             pending[rows[bad]] = False
         failed |= pending
         return eq, si, present, failed
+
+    def line_search(self, xi, present, si, new_xi, new_present, rows):
+        """Solve at *new_xi*, halving the step where it does not lower the violation.
+
+        A full Newton step can overshoot far past the solubility when the solid uses up a
+        component that sets the pH (calcite under fixed CO2 eats the alkalinity: SI +1.7
+        becomes −10 and the next step returns, a cycle). Backtracking on the violation
+        ‖SI‖² of present solids plus the supersaturation of absent ones (Armijo, halving)
+        keeps every step a descent; points between two feasible amounts are feasible, since
+        the bounds are linear.
+        """
+        before = _violation(si, present)
+        alpha = np.ones(rows.size)
+        eq, new_si = self.inner(new_xi, rows)
+        for _ in range(LINE_SEARCH_HALVINGS):
+            after = _violation(new_si, new_present)
+            worse = (eq.status == "converged") & ~(after <= (1.0 - ARMIJO * alpha) * before)
+            if not worse.any():
+                break
+            alpha[worse] *= 0.5
+            trial = xi[worse] + alpha[worse, None] * (new_xi[worse] - xi[worse])
+            sub_eq, sub_si = self.inner(trial, rows[worse])
+            eq = _merge(eq, sub_eq, np.flatnonzero(worse))
+            new_si[worse] = sub_si
+            new_xi[worse] = trial
+        return eq, new_si, new_xi
 
     def activate(self, xi, present, si):
         """Let absent solids that are supersaturated join, one independent solid at a time."""
@@ -663,6 +704,12 @@ class _Work:
                                 self.bound)
 
 
+def _violation(si: np.ndarray, present: np.ndarray) -> np.ndarray:
+    """Σ SI² of present solids plus Σ (SI > 0)² of absent ones, per sample (n,)."""
+    si = np.nan_to_num(si, nan=np.inf)
+    return np.sum(np.where(present, si, np.maximum(si, 0.0)) ** 2, axis=1)
+
+
 def _capped_ionic_strength(eq: Equilibrium, charge: np.ndarray) -> np.ndarray:
     """Samples whose ionic strength unknown disagrees with ½ Σ z² m of their molalities.
 
@@ -724,6 +771,25 @@ def describe(state: PhaseEquilibrium, k: int) -> dict[str, dict[str, Any]]:
                          "partial_pressure_atm": float(10.0 ** state.gas_log10_pressure[k, g]),
                          "into_solution_mol_per_kg": float(state.gas_uptake[k, g])}
     return out
+
+
+def failure(state: PhaseEquilibrium, k: int) -> tuple[str, str]:
+    """(what failed, hint) for sample *k* whose status is not converged.
+
+    When the mass balances converged but the solids did not settle, the fault is the
+    solver's, not the recipe's: the message quotes the SI tolerance it missed and does not
+    send the user to check their totals.
+    """
+    eq = state.equilibrium
+    if not (eq.residual[k] <= RESIDUAL_TOLERANCE) or not state.solids:
+        return "", ""
+    si = state.saturation_index[k]
+    off = np.where(state.present[k], np.abs(si), np.maximum(si, 0.0))
+    j = int(np.nanargmax(np.nan_to_num(off, nan=np.inf)))
+    return (f"the solids did not settle in {MAX_PHASE_ITERATIONS} steps: "
+            f"{state.solids[j].name} is at SI {si[j]:.3g} (tolerance ±{SI_TOLERANCE:g})",
+            "the recipe is not at fault: this is a limit of the solver; please report it with "
+            "the recipe; meanwhile hold one solid at \"equilibrate\" or leave one out")
 
 
 def _solid_state(state: PhaseEquilibrium, k: int, j: int) -> str:

@@ -20,6 +20,7 @@ else:  # pragma: no cover
     import tomli as tomllib
 
 from ..errors import FormulaError, TableError
+from ._text import read_utf8
 from ..chemistry._formula import parse_formula
 from ..chemistry._names import canonical_name
 from ..chemistry._records import Component, ConstantTable, LogK, Phase, Reagent, Species, frozen_map
@@ -45,10 +46,7 @@ _TOML_POSITION = re.compile(r"\(at line (\d+), column (\d+)\)")
 def load_table(path: str | Path) -> ConstantTable:
     """Load the table in file *path*; raise :class:`TableError` listing every problem."""
     path = Path(path)
-    try:
-        text = path.read_text(encoding="utf-8")
-    except OSError as exc:
-        raise TableError(str(path), [f"cannot read the file: {exc.strerror}"]) from None
+    text = read_utf8(path, lambda problem, hint: TableError(str(path), [problem], hint))
     return parse_table(text, origin=str(path))
 
 
@@ -61,6 +59,11 @@ def parse_table(text: str, origin: str) -> ConstantTable:
         at = f"line {where.group(1)}, column {where.group(2)}" if where else "unknown line"
         raise TableError(origin, [f"TOML syntax error at {at}: "
                                   f"{_TOML_POSITION.sub('', str(exc)).strip()}"]) from None
+    except RecursionError:
+        raise TableError(origin, ["nested too deeply to read (arrays or tables inside each "
+                                  "other thousands of levels deep)"],
+                         "a constant table needs no nested arrays: check that this is the "
+                         "file you meant") from None
     return _Builder(data, origin).build()
 
 

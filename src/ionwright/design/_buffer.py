@@ -32,8 +32,8 @@ from ..errors import IonwrightError, RecipeError, UnknownNameError, UnreachableT
 from ..chemistry._ingredients import Makeup, makeup
 from ..chemistry._names import split_name
 from ..plugins._registry import Registry, default_registry
-from ..inputs._recipe import (DISSOLVE_DIMENSIONS, check_ph, check_temperature, entry_for,
-                              mix, read_recipe)
+from ..inputs._recipe import (DISSOLVE_DIMENSIONS, as_number, check_ph, check_temperature,
+                              entry_for, mix, positive, read_recipe)
 from ..outputs._result import Result
 from ..core._sensitivity import buffer_capacity
 from ..core._system import PROTON, WATER, log10_k_at
@@ -186,6 +186,7 @@ class BufferCard:
     titrant: str | None = None
     titrant_mL: float | None = None
     cautions: list[str] = field(default_factory=list)
+    warnings: list[str] = field(default_factory=list)   # plausibility of the design
 
     def to_dict(self) -> dict[str, Any]:
         return {
@@ -200,7 +201,7 @@ class BufferCard:
             "ionic_strength": self.ionic_strength,
             "buffer_capacity_mmol_per_L_per_pH": self.capacity_mmol_per_L_pH,
             "pH_drift_per_C": self.drift_per_C, "bench_pH": self.bench_pH,
-            "cautions": self.cautions, "warnings": self.result.warnings}
+            "cautions": self.cautions, "warnings": [*self.warnings, *self.result.warnings]}
 
     def report(self) -> str:
         head = (f"{self.buffer} buffer, {self.concentration}, pH {self.target_pH:.2f} at "
@@ -224,8 +225,8 @@ class BufferCard:
                   f"  buffer capacity    {self.capacity_mmol_per_L_pH:8.2f} mmol/(L·pH)",
                   f"  pH drift           {self.drift_per_C:+8.4f} per °C",
                   f"  meter at {bench:<9} {self.bench_pH:8.3f} (same solution)"]
-        notes = [*self.cautions, *(w for w in self.result.warnings
-                                   if not w.startswith("CAUTION"))]
+        notes = [*self.cautions, *self.warnings, *(w for w in self.result.warnings
+                                                   if not w.startswith("CAUTION"))]
         lines += ["", "cautions and notes"] + [f"  - {n}" for n in notes]
         lines.append("  - the meter reading assumes a meter calibrated at the bench "
                      "temperature; temperature compensation corrects the electrode, not "
@@ -250,21 +251,23 @@ def design_buffer(buffer: str, pH: float, concentration: str, *, temperature_C: 
     far side of the target from the titrant).
     """
     registry = registry or default_registry()
-    check_ph(pH, "buffer pH")
-    t_use = check_temperature(temperature_C, "--temperature")
+    pH = check_ph(as_number(pH, "pH", "7.4"), "pH")
+    t_use = check_temperature(temperature_C, "temperature_C")
     t_bench = check_temperature(t_use if bench_temperature_C is None else bench_temperature_C,
-                                "--bench-temperature")
+                                "bench_temperature_C")
     table_set = load_tables(tuple(tables), registry)
     component = buffer_component(buffer, table_set)
-    amount = expect(parse_quantity(concentration, "--conc"), CONCENTRATION_DIMENSIONS, "--conc")
-    volume_q = expect(parse_quantity(volume, "--volume"), ("volume",), "--volume")
-    extras = [split_name_and_quantity(w, "--with") for w in with_]
+    amount = positive(expect(parse_quantity(concentration, "concentration"),
+                             CONCENTRATION_DIMENSIONS, "concentration"), "concentration")
+    volume_q = positive(expect(parse_quantity(volume, "volume"), ("volume",), "volume"),
+                        "volume")
+    extras = [split_name_and_quantity(w, "with_") for w in with_]
     base = {"temperature_C": t_use, "activity_model": activity_model, "tables": list(tables),
             "volume": volume}
     titrant_name = titrant_stock = None
     cation = "Na+"
     if titrant is not None:
-        titrant_name, titrant_stock = split_name_and_quantity(titrant, "--titrant")
+        titrant_name, titrant_stock = split_name_and_quantity(titrant, "titrant")
         made = makeup(titrant_name, table_set)
         cation = next((c for c in ("K+", "Na+") if c in made.per_mole), "Na+")
     forms = buffer_forms(component, table_set, cation)
@@ -273,20 +276,24 @@ def design_buffer(buffer: str, pH: float, concentration: str, *, temperature_C: 
                           f"{component}", "add a named reagent for it to a table")
     n_bar = mean_protons(component, table_set, pH, t_use)
     if pair and titrant is not None:
-        raise RecipeError(f"buffer {buffer!r}", "a conjugate pair needs no titrant",
-                          "give either --titrant or --pair")
+        raise RecipeError("pair", "a conjugate pair needs no titrant",
+                          "give either a titrant or the conjugate pair")
     if pair:
-        acid, salt = _pair(forms, n_bar, buffer, form)
-        return _pair_card(buffer, component, pH, amount.text, acid, salt, extras, base,
+        acid, salt = _pair(forms, n_bar, buffer, form, component, table_set)
+        card = _pair_card(buffer, component, pH, amount.text, acid, salt, extras, base,
                           t_use, t_bench, volume_q.value, registry)
+        card.warnings = plausibility(card, amount.value, table_set)
+        return card
     if titrant is None:
-        raise RecipeError(f"buffer {buffer!r}", "needs a titrant or the conjugate-pair "
-                          "option", 'give --titrant "NaOH 1 mol/L" (or an acid) or --pair')
+        raise RecipeError("titrant", f"buffer {buffer!r} needs a titrant or the "
+                          "conjugate pair", 'give a titrant such as "NaOH 1 mol/L" (or an '
+                          "acid), or ask for the conjugate pair")
     protons = made.per_mole.get(PROTON, 0.0)
     if protons == 0:
-        raise RecipeError(f"--titrant {titrant!r}", "is neither an acid nor a base",
+        raise RecipeError(f"titrant {titrant!r}", "is neither an acid nor a base",
                           'use e.g. "NaOH 1 mol/L" or "HCl 1 mol/L"')
-    weighed = _titration_form(forms, n_bar, protons, buffer, form)
+    stock = read_stock(titrant_name, titrant_stock, table_set, t_bench, "titrant")
+    weighed = _titration_form(forms, n_bar, protons, buffer, form, component, table_set)
     dissolve = {weighed.name: amount.text, **dict(extras)}
     batch = _Batch.of(base, [*dissolve, titrant_name], table_set, volume_q.value, registry)
 
@@ -296,13 +303,61 @@ def design_buffer(buffer: str, pH: float, concentration: str, *, temperature_C: 
 
     ceiling = (max(forms[-1].protons, 1.0) + 1.0) * amount.value + 0.01
     dose, _ = find_dose(batch.bench, totals_of, ceiling, pH, titrant_name, "mol per L")
-    stock = read_stock(titrant_name, titrant_stock, table_set, t_bench, "--titrant")
     mL = 1000.0 * dose * volume_q.value / stock.moles_per_L
+    if mL >= 1000.0 * volume_q.value:
+        raise RecipeError(f"titrant {titrant!r}", f"would take {mL:.5g} mL, more than the "
+                          f"whole batch of {_volume_text(volume_q.value)}",
+                          "use a more concentrated titrant (e.g. 1 to 10 mol/L)")
     card = _card(batch, {**dissolve, titrant_name: f"{float(dose)!r} mol/L"}, buffer,
                  component, pH, amount.text, t_bench, "titrate", list(dissolve))
     card.titrant, card.titrant_mL = f"{titrant_name} {titrant_stock}", mL
     card.cautions = stock_cautions(stock, batch.bench) + card.cautions
+    card.warnings = plausibility(card, amount.value, table_set)
     return card
+
+
+#: Share of the batch volume left for the titrant by the card's steps (dissolve in about
+#: 80 % of the volume, titrate, make up)  # common practice
+TITRANT_ROOM = 0.2
+#: A buffer is useful within one pH unit of a pKa (common practice); beyond, its capacity
+#: falls below about a third of its best
+USEFUL_RANGE = 1.0
+#: Capacity below this share of the best a buffer of this concentration can give
+#: (β_max = ln 10 · C / 4, at pH = pKa) is worth a warning
+LOW_CAPACITY_SHARE = 0.1
+
+
+def plausibility(card: BufferCard, concentration: float, tables) -> list[str]:
+    """Warnings for a card that works on paper but not at the bench: a pH outside the
+    buffer's useful range, a capacity too low to hold the pH, a titrant volume that does not
+    fit the steps of the card."""
+    out = []
+    pkas = pka_values(card.component, tables, card.use_temperature_C)
+    nearest = min(pkas, key=lambda p: abs(p - card.target_pH)) if pkas else None
+    if nearest is not None and abs(card.target_pH - nearest) > USEFUL_RANGE:
+        out.append(f"pH {card.target_pH:g} is outside the useful range of {card.buffer} "
+                   f"(pKa {nearest:.2f} ± {USEFUL_RANGE:g} at {card.use_temperature_C:g} °C, "
+                   f"common practice): it holds the pH poorly there; choose a buffer whose "
+                   f"pKa is within {USEFUL_RANGE:g} of the target")
+    best = np.log(10.0) * concentration / 4.0 * 1000.0
+    if card.capacity_mmol_per_L_pH < LOW_CAPACITY_SHARE * best:
+        out.append(f"buffer capacity {card.capacity_mmol_per_L_pH:.3g} mmol/(L·pH) is under "
+                   f"{100 * LOW_CAPACITY_SHARE:g} % of the {best:.3g} this concentration gives "
+                   "at its pKa: a small addition of acid or base will move the pH; choose a "
+                   "buffer with a pKa nearer the target or a higher concentration")
+    if card.titrant_mL is not None and card.titrant_mL > TITRANT_ROOM * 1000.0 * card.volume_L:
+        out.append(f"the titrant takes {card.titrant_mL:.4g} mL, more than the "
+                   f"{100 * TITRANT_ROOM:g} % of the batch the steps leave for it: dissolve "
+                   "the solids in less water first, or use a more concentrated titrant")
+    return out
+
+
+def pka_values(component: str, tables, t_C: float) -> list[float]:
+    """Stepwise pKa values of *component*'s acid forms at *t_C*, from the tables."""
+    species = _protonated(component, tables)
+    formation = {0.0: 0.0, **{k: _log10_k_total(tables, s, t_C) for k, s in species.items()}}
+    steps = sorted(formation)
+    return [formation[b] - formation[a] for a, b in zip(steps, steps[1:]) if b - a == 1.0]
 
 
 @dataclass
@@ -347,9 +402,9 @@ class _Batch:
 
 
 def _titration_form(forms: list[BufferForm], n_bar: float, titrant_protons: float,
-                    buffer: str, wanted: str | None) -> BufferForm:
+                    buffer: str, wanted: str | None, component: str, tables) -> BufferForm:
     if wanted is not None:
-        return _named_form(forms, wanted, buffer)
+        return _named_form(forms, wanted, buffer, component, tables)
     if titrant_protons < 0:       # a base raises the pH: start from a more acidic form
         fitting = [f for f in forms if f.protons >= n_bar - 1e-9]
         pick = min(fitting, key=lambda f: f.protons) if fitting else None
@@ -361,27 +416,42 @@ def _titration_form(forms: list[BufferForm], n_bar: float, titrant_protons: floa
         raise RecipeError(f"buffer {buffer!r}", f"has no form {direction} enough to titrate "
                           f"to this pH with that titrant (forms: "
                           f"{', '.join(f.name for f in forms)})",
-                          "titrate the other way (an acid instead of a base) or use --pair")
+                          "titrate the other way (an acid instead of a base) or use the conjugate pair")
     same = [f for f in forms if f.protons == pick.protons]
     return same[0]
 
 
-def _named_form(forms: list[BufferForm], wanted: str, buffer: str) -> BufferForm:
+def _named_form(forms: list[BufferForm], wanted: str, buffer: str, component: str,
+                tables) -> BufferForm:
+    """The form called *wanted*: a listed form, or any ingredient (a hydrate, a potassium
+    salt) that makes one *component* with protons, water and one counter-ion."""
     for f in forms:
         if f.name.casefold() == wanted.casefold():
             return f
-    raise UnknownNameError(f"form of {buffer}", wanted, [f.name for f in forms])
+    try:
+        made = makeup(wanted, tables)
+    except IonwrightError:
+        made = None
+    if made is not None:
+        parts = {k: v for k, v in made.per_mole.items() if k not in (PROTON, WATER)}
+        others = set(parts) - {component}
+        if parts.get(component) == 1 and len(others) <= 1 and others <= set(COUNTER_IONS):
+            return BufferForm(made.name, made, made.per_mole.get(PROTON, 0.0))
+    raise RecipeError(f"form {wanted!r}", f"is not a weighable form of {buffer} "
+                      f"({component} with protons, water and one counter-ion)",
+                      f"forms in the tables: {', '.join(f.name for f in forms)}; or a hydrate "
+                      "of one, written as a formula (e.g. NaH2PO4·H2O)")
 
 
-def _pair(forms: list[BufferForm], n_bar: float, buffer: str, wanted: str | None
-          ) -> tuple[BufferForm, BufferForm]:
+def _pair(forms: list[BufferForm], n_bar: float, buffer: str, wanted: str | None,
+          component: str, tables) -> tuple[BufferForm, BufferForm]:
     """The acid form and salt that bracket the target (most protons first)."""
     if wanted is not None:
         names = [w.strip() for w in wanted.split(",")]
         if len(names) != 2:
-            raise RecipeError("--form", f"{wanted!r}: a pair needs two forms, acid first",
-                              'e.g. --form "NaH2PO4,Na2HPO4"')
-        acid, salt = (_named_form(forms, n, buffer) for n in names)
+            raise RecipeError("form", f"{wanted!r}: a pair needs two forms, acid first",
+                              'e.g. form "NaH2PO4,Na2HPO4"')
+        acid, salt = (_named_form(forms, n, buffer, component, tables) for n in names)
         return acid, salt
     acids = [f for f in forms if f.protons >= n_bar - 1e-9]
     salts = [f for f in forms if f.protons <= n_bar + 1e-9]
@@ -395,7 +465,7 @@ def _pair(forms: list[BufferForm], n_bar: float, buffer: str, wanted: str | None
             return acid, salt
     raise RecipeError(f"buffer {buffer!r}", "has no acid form and salt in the tables that "
                       f"bracket this pH (forms: {', '.join(f.name for f in forms)})",
-                      "titrate instead (give --titrant)")
+                      "titrate instead (give a titrant)")
 
 
 def _pair_card(buffer, component, pH, concentration, acid, salt, extras, base, t_use, t_bench,
@@ -420,7 +490,7 @@ def _pair_card(buffer, component, pH, concentration, acid, salt, extras, base, t
     except UnreachableTargetError as exc:
         raise UnreachableTargetError(
             f"{acid.name} and {salt.name}", "pH", pH, exc.reachable,
-            "(all acid form to all salt)", "titrate instead (give --titrant)") from None
+            "(all acid form to all salt)", "titrate instead (give a titrant)") from None
     final = amounts(share)
     names = [n for n in (acid.name, salt.name) if n in final]
     return _card(batch, final, buffer, component, pH, concentration, t_bench,
@@ -428,7 +498,7 @@ def _pair_card(buffer, component, pH, concentration, acid, salt, extras, base, t
 
 
 def _scaled(concentration: str, share: float) -> str:
-    q = parse_quantity(concentration, "--conc")
+    q = parse_quantity(concentration, "concentration")
     unit = "mol/L" if q.dimension == "molarity" else "mol/kg"
     return f"{float(q.value * share)!r} {unit}"
 

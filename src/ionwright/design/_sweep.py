@@ -20,6 +20,7 @@ from __future__ import annotations
 import csv
 import io
 import math
+import numbers
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field, replace
 from pathlib import Path
@@ -138,13 +139,13 @@ def titration(recipe: str | Path | Mapping[str, Any] | Recipe, titrant: str, to:
     The sample is the recipe as made (1 kg of water for a per-kg recipe) or *sample*
     (``"25 mL"``) of it; the titrant's water dilutes it.
     """
-    name, strength = split_name_and_quantity(titrant, "--add")
+    name, strength = split_name_and_quantity(titrant, "titrant")
     bench = Workbench.of(recipe, registry, also=(name,))
     t = bench.recipe.temperature_C
-    stock = read_stock(name, strength, bench.tables, t, "--add")
-    final = expect(parse_quantity(to, "--to"), ("volume",), "--to").value
+    stock = read_stock(name, strength, bench.tables, t, "titrant")
+    final = expect(parse_quantity(to, "to"), ("volume",), "to").value
     if final <= 0:
-        raise RecipeError("--to", f"{to!r} must be more than zero", 'e.g. --to "50 mL"')
+        raise RecipeError("to", f"{to!r} must be more than zero", 'e.g. to="50 mL"')
     water = _sample_water(bench, sample)
     step = bench.direction(stock.ingredient)
 
@@ -177,9 +178,9 @@ def dilution(recipe: str | Path | Mapping[str, Any] | Recipe, ratio: str, *,
              points: int = DEFAULT_POINTS, species: Sequence[str] = (),
              beyond_range: bool = False, registry: Registry | None = None) -> Sweep:
     """Dilute the recipe with water from as made to *ratio* (``"1:1000"``, by volume)."""
-    lo, hi = _range(ratio, "--dilute")
+    lo, hi = _range(ratio, "ratio")
     if lo <= 0 or hi <= lo:
-        raise RecipeError("--dilute", f"{ratio!r} must be 1:N with N > 1", 'e.g. "1:1000"')
+        raise RecipeError("ratio", f"{ratio!r} must be 1:N with N > 1", 'e.g. "1:1000"')
     bench = Workbench.of(recipe, registry)
     factors = np.logspace(0.0, math.log10(hi / lo), _points(points))
     totals = np.array([_diluted(bench, f) for f in factors])
@@ -191,7 +192,7 @@ def temperature_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: st
                        points: int = DEFAULT_POINTS, species: Sequence[str] = (),
                        beyond_range: bool = False, registry: Registry | None = None) -> Sweep:
     """The recipe as made, from one temperature to another (``"5:60"``, °C)."""
-    lo, hi = _range(span, "--temperature")
+    lo, hi = _range(span, "span")
     bench = Workbench.of(recipe, registry)
     temps = np.linspace(lo, hi, _points(points))
     low, high = VALID_RANGE_C
@@ -204,7 +205,7 @@ def temperature_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: st
                    "points kept")
         temps = temps[inside]
         if not temps.size:
-            raise RecipeError("--temperature", f"{span!r} lies outside {low:g}–{high:g} °C",
+            raise RecipeError("span", f"{span!r} lies outside {low:g}–{high:g} °C",
                               f"give temperatures between {low:g} and {high:g} °C")
     totals = np.repeat(bench.base[None, :], temps.size, axis=0)
     sweep = _finish(bench, "temperature", "temperature_C", temps, bench.solve(totals, temps),
@@ -221,7 +222,7 @@ def pH_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: str, *,
     The pH is fixed as if by an acid or base the recipe does not list; β at each point is
     that of the solution brought to that pH.
     """
-    lo, hi = _range(span, "--pH")
+    lo, hi = _range(span, "span")
     bench = Workbench.of(recipe, registry)
     values = np.linspace(lo, hi, _points(points))
     fixed = np.repeat(bench.fixed()[None, :], values.size, axis=0)
@@ -353,9 +354,10 @@ def _sample_water(bench: Workbench, sample: str | None) -> float:
     solution = solution_of(bench.recipe, bench.tables)
     if sample is None:
         return solution.water_kg
-    q = expect(parse_quantity(sample, "--sample"), ("volume", "mass"), "--sample")
+    q = expect(parse_quantity(sample, "sample"), ("volume", "mass"), "sample")
     if q.value <= 0:
-        raise RecipeError("--sample", f"{sample!r} must be more than zero")
+        raise RecipeError("sample", f"{sample!r} must be more than zero",
+                          'give the volume or mass titrated, e.g. sample="25 mL"')
     if q.dimension == "volume":
         return q.value * solution.water_kg_per_L
     return q.value / solution.mass_g * solution.water_kg
@@ -392,6 +394,10 @@ def _range(text: str, where: str) -> tuple[float, float]:
 
 
 def _points(points: int) -> int:
+    if isinstance(points, bool) or not isinstance(points, numbers.Integral):
+        raise RecipeError("points", f"{points!r} must be a whole number",
+                          "give a number of points between 2 and 100000")
     if not 2 <= int(points) <= 100_000:
-        raise RecipeError("--points", f"{points!r} must be between 2 and 100000")
+        raise RecipeError("points", f"{points!r} must be between 2 and 100000",
+                          "give a number of points between 2 and 100000")
     return int(points)

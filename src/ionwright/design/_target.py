@@ -33,10 +33,12 @@ from ..core._phases import (
     components_needed,
     describe,
     equilibrate,
+    failure,
     read_phases,
 )
 from ..plugins._registry import Registry, default_registry
-from ..inputs._recipe import Recipe, check_ph, entry_for, mix, read_recipe
+from ..inputs._recipe import (Recipe, as_number, check_ph, positive, read_recipe,
+                              stock_portion)
 from ..outputs._result import Result
 from ..activity._pairs import ion_pairs_of
 from ..core._system import PROTON, WATER, ChemicalSystem, compile_system
@@ -122,7 +124,9 @@ class Workbench:
         state = equilibrate(self.system, self.tables, totals, bound, t, self.choice,
                             np.broadcast_to(fixed, totals.shape))
         state.notes = [*state.equilibrium.notes, *self.system.temperature_notes(t),
-                       *self.choice.notes]
+                       *self.choice.notes,
+                       *self.registry.replacement_notes(self.recipe.activity_model,
+                                                        self.recipe.tables)]
         state.traced = traced
         return state
 
@@ -130,8 +134,12 @@ class Workbench:
         """The :class:`Result` of sample *k*; a failed sample raises ConvergenceError."""
         eq = _take(state.equilibrium, np.array([k]))
         if strict and eq.status[0] != "converged":
+            what, hint = failure(state, k)
             raise ConvergenceError(str(eq.status[0]), int(eq.iterations[0]),
-                                   float(eq.residual[0]), f"recipe {self.recipe.origin}")
+                                   float(eq.residual[0]),
+                                   "; ".join(filter(None, [what,
+                                                           f"recipe {self.recipe.origin}"])),
+                                   hint)
         t = float(state.t_C[k])
         recipe = self.recipe if t == self.recipe.temperature_C else replace(
             self.recipe, temperature_C=t)
@@ -172,11 +180,12 @@ def read_stock(ingredient: str, concentration: str, tables, t_C: float,
                where: str = "stock") -> Stock:
     """The :class:`Stock` of *ingredient* at *concentration* (``"1 mol/L"``, ``"40 g/L"``)."""
     made = makeup(ingredient, tables)
-    quantity = expect(parse_quantity(concentration, where), STOCK_DIMENSIONS, where)
+    quantity = positive(expect(parse_quantity(concentration, where), STOCK_DIMENSIONS, where),
+                        where)
     solute = ingredient_solute(made.name, made.formula, made.per_mole, tables)
-    one_litre = mix([entry_for(solute, "ingredient", quantity, where, "")], t_C,
-                    volume_L=1.0, where=where)
-    return Stock(made, quantity.text, one_litre.moles[0], one_litre.solution.water_kg)
+    litre = parse_quantity("1 L", where)
+    one_litre = stock_portion(made.name, solute, quantity, litre, t_C, None, where)
+    return Stock(made, quantity.text, one_litre.entries[0].absolute, one_litre.water_kg)
 
 
 def split_name_and_quantity(text: str, where: str) -> tuple[str, str]:
@@ -248,7 +257,10 @@ def target(recipe: str | Path | Mapping[str, Any] | Recipe, pH: float, adjust: s
     dilutes the recipe. Raises :class:`UnreachableTargetError` with the reachable range
     when no dose between none and :data:`DOSE_CEILING` mol/kg gives the target.
     """
-    check_ph(pH, "target pH")
+    pH = check_ph(as_number(pH, "pH", "7.4"), "pH")
+    if not isinstance(adjust, str) or not adjust.strip():
+        raise RecipeError("adjust", f"{adjust!r} must name the ingredient to dose",
+                          'e.g. adjust="NaOH" or adjust="citric acid"')
     bench = Workbench.of(recipe, registry, also=(adjust,))
     if "pH" in bench.recipe.fix:
         raise RecipeError(f"{bench.recipe.origin} [fix] pH", "fixes the pH, so no dose can "
@@ -260,8 +272,7 @@ def target(recipe: str | Path | Mapping[str, Any] | Recipe, pH: float, adjust: s
             return bench.base[None, :] + s[:, None] * step[None, :]
         ceiling, held = DOSE_CEILING, None
     else:
-        held = read_stock(adjust, stock, bench.tables, bench.recipe.temperature_C,
-                          f"stock of {adjust}")
+        held = read_stock(adjust, stock, bench.tables, bench.recipe.temperature_C, "stock")
         n_L, w_L = held.moles_per_L, held.water_kg_per_L
 
         def totals_of(s: np.ndarray) -> np.ndarray:      # s: L of stock per kg of water

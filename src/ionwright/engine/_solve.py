@@ -120,4 +120,13 @@ def solve(recipe: str | Path | Mapping[str, Any] | Recipe,
                                f"recipe {recipe.origin}")
     return Result(recipe=recipe, tables=tables, system=system, model=model,
                   equilibrium=eq, totals=totals, makeups=makeups,
-                  notes=[*eq.notes, *system.temperature_notes(t)])
+                  notes=[*eq.notes, *system.temperature_notes(t), *empty_note(recipe),
+                         *registry.replacement_notes(recipe.activity_model, recipe.tables)])
+
+
+def empty_note(recipe: Recipe) -> list[str]:
+    """A warning for a recipe that dissolves nothing (a typo can empty [dissolve])."""
+    if recipe.dissolve or recipe.components or recipe.phases:
+        return []
+    return [f"the recipe {recipe.origin} dissolves nothing: this is pure water; list the "
+            "ingredients under [dissolve] (e.g. NaCl = 0.1)"]

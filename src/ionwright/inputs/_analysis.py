@@ -24,7 +24,7 @@ from ..chemistry._density import component_solute
 from ..outputs._derived import ALKALINITY_END_POINT_PH, alkalinity_weights
 from ..errors import ConvergenceError, FormulaError, RecipeError
 from ..chemistry._formula import Formula, parse_formula
-from ._recipe import (Conversion, Entry, Recipe, as_number, check_ph, check_temperature,
+from ._recipe import (Conversion, Entry, Recipe, as_number, check_temperature,
                      given_density, mix)
 from ._units import (CALCIUM_CARBONATE, CALCIUM_CARBONATE_EQUIVALENTS, Quantity,
                     basis_moles_per_mole, expect, parse_quantity)
@@ -34,9 +34,12 @@ if TYPE_CHECKING:
     from ..chemistry._tableset import TableSet
 
 NAMED_KEYS = {"temperature_C", "pH", "alkalinity", "balance_on", "density"}
+#: pH a meter reads in a water sample; beyond it a value is a slip (a conductivity, a unit)
+MEASURED_PH = (0.0, 14.0)
 #: Analytes written by name, and the formula their mass refers to.
 ANALYTE_NAMES = {"ammonia": "NH3", "sulfide": "S", "silica": "SiO2"}
-ANALYTE_DIMENSIONS = ("mass_per_volume", "molarity", "molality", "equivalents")
+ANALYTE_DIMENSIONS = ("mass_per_volume", "molarity", "molality", "equivalents",
+                      "mass_fraction")
 ALKALINITY_DIMENSIONS = ("equivalents", "mass_per_volume", "molarity")
 CARBONATE = "CO3^2-"
 PROTON = "H+"
@@ -59,7 +62,11 @@ def read_analysis(section: Any, recipe: Recipe, tables: TableSet,
     t = check_temperature(section.get("temperature_C", 25.0), f"{where} temperature_C")
     ph = section.get("pH")
     if ph is not None:
-        ph = check_ph(as_number(ph, f"{where} pH"), f"{where} pH")
+        ph = as_number(ph, f"{where} pH", "7.6")
+        low, high = MEASURED_PH
+        if not low <= ph <= high:
+            raise RecipeError(f"{where} pH", f"{ph:g} is not a pH measured in water",
+                              f"give the field pH, between {low:g} and {high:g}")
     density = given_density(section, where)
     given: list[Entry] = []
     keys: dict[str, str] = {}
@@ -114,6 +121,7 @@ def read_analysis(section: Any, recipe: Recipe, tables: TableSet,
                                       f"{before}"))
     fix = {}
     if ph is None:
+        _one_sided(totals, tables, where)
         protons = -sum(tables.entry(c).charge * m for c, m in totals.items())
         totals[PROTON] = protons
         conversions.append(Conversion("[analysis] pH", "not measured", protons,
@@ -124,6 +132,19 @@ def read_analysis(section: Any, recipe: Recipe, tables: TableSet,
     solution = replace(mixture.solution, conversions=tuple(conversions))
     return replace(recipe, temperature_C=t, fix=fix, components=tuple(totals.items()),
                    solution=solution)
+
+
+def _one_sided(totals: Mapping[str, float], tables: TableSet, where: str) -> None:
+    """Refuse an analysis without pH whose ions all carry one sign: balancing it with
+    hydroxide or acid alone would give a pH that says nothing about the sample."""
+    signs = {np.sign(tables.entry(c).charge) for c, m in totals.items() if m > 0}
+    missing = [kind for sign, kind in ((-1, "anion"), (1, "cation")) if signs and sign not in signs]
+    if missing:
+        raise RecipeError(where, f"lists no {missing[0]} and no pH: its ions would be balanced "
+                          f"with {'hydroxide' if missing[0] == 'anion' else 'acid'} alone, "
+                          "giving a pH that says nothing about the sample",
+                          "give the measured pH (pH = 7.6) and the other ions (Cl, SO4, "
+                          "alkalinity, or Na, Ca, Mg), or balance_on an ion")
 
 
 def map_analyte(key: str, tables: TableSet, where: str) -> tuple[str, Formula, float]:
@@ -179,7 +200,7 @@ def _analyte_entry(solute, formula: Formula, per_analyte: float, quantity: Quant
     """The per-litre or per-kg entry of an analyte's *quantity*, in mol of its component."""
     entry = Entry(solute, "component", label, quantity.text)
     d, v = quantity.dimension, quantity.value
-    if d == "mass_per_volume":
+    if d in ("mass_per_volume", "mass_fraction"):  # g per litre, or g per g of solution
         if quantity.basis is None:
             moles = v / formula.molar_mass
         else:
@@ -187,7 +208,10 @@ def _analyte_entry(solute, formula: Formula, per_analyte: float, quantity: Quant
                                    if solute.formula.charge else formula.hill())
             moles = v / quantity.basis.molar_mass / basis_moles_per_mole(quantity.basis,
                                                                          target, where)
-        entry.per_litre = moles * per_analyte
+        if d == "mass_per_volume":
+            entry.per_litre = moles * per_analyte
+        else:
+            entry.per_gram_solution = moles * per_analyte
     elif d == "molarity":
         entry.per_litre = v * per_analyte
     elif d == "molality":

@@ -18,8 +18,11 @@ at fault and a close match.
 from __future__ import annotations
 
 import math
+import numbers
 import sys
 from dataclasses import dataclass, field, replace
+from decimal import Decimal
+from os import PathLike
 from pathlib import Path
 from typing import TYPE_CHECKING, Any, Iterable, Mapping
 
@@ -31,6 +34,7 @@ else:  # pragma: no cover
 from ..chemistry._density import (DENSITY_METHOD, WATER_MOLAR_MASS, Solute, component_solute,
                       ingredient_solute, solution_volume_L, water_density)
 from ..data._stock_densities import StockDensity
+from ..data._text import read_utf8
 from ..errors import IonwrightError, RecipeError, close_matches
 from ._stock_density import estimate_warning, tabulated_density
 from ._units import Quantity, basis_moles_per_mole, expect, parse_quantity
@@ -54,6 +58,13 @@ DISSOLVE_DIMENSIONS = ("amount", "mass", "molality", "molarity", "mass_per_volum
                        "equivalents", "mass_fraction")
 STOCK_DIMENSIONS = ("molarity", "molality", "mass_per_volume", "mass_fraction")
 MAX_ROUNDS = 500
+#: Largest plausible mol per kg of water of one ingredient or ion: the most soluble salts
+#: saturate at a few tens of mol/kg (lithium chloride near 20, ammonium nitrate near 26 at
+#: 25 °C)  # from memory; a bound for refusing absurd input, not a solubility
+MOLALITY_CEILING = 50.0
+#: Least water (kg per litre made up to) a solution can hold: below it the solutes fill
+#: the volume, and the make-up has no answer
+WATER_FLOOR = 1e-3
 RELATIVE_TOLERANCE = 1e-13
 
 
@@ -134,17 +145,21 @@ def _read(source: str | Path | Mapping[str, Any] | Recipe, registry: Registry | 
         return source
     if isinstance(source, Mapping):
         return _from_mapping(dict(source), "(mapping)", _HERE, registry, chain)
+    if not isinstance(source, (str, PathLike)):
+        raise RecipeError("recipe", f"{source!r} is a {type(source).__name__}",
+                          "give a path to a recipe TOML file, a mapping with the same keys "
+                          "(e.g. {'dissolve': {'NaCl': 0.1}}) or a Recipe")
     path = Path(source)
-    try:
-        text = path.read_text(encoding="utf-8")
-    except OSError as exc:
-        raise RecipeError(str(path), f"cannot read the file ({exc.strerror})",
-                          "check the path") from None
+    text = read_utf8(path, lambda problem, hint: RecipeError(str(path), problem, hint))
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise RecipeError(str(path), f"is not valid TOML: {exc}",
                           "strings need quotes, tables need [brackets]") from None
+    except RecursionError:
+        raise RecipeError(str(path), "is nested too deeply to read (arrays or tables inside "
+                          "each other thousands of levels deep)", "a recipe needs no nested "
+                          "arrays: check that this is the TOML file you meant") from None
     return _from_mapping(data, str(path), path.parent, registry, (*chain, path.resolve()))
 
 
@@ -161,6 +176,11 @@ def _from_mapping(data: dict[str, Any], origin: str, base_dir: Path,
     if not isinstance(dissolve, dict):
         raise RecipeError(f"{origin} [dissolve]", "must be a table of ingredient = amount",
                           "e.g. [dissolve] then NaCl = 0.1")
+    for name in dissolve:
+        if not isinstance(name, str) or not name.strip():
+            raise RecipeError(f"{origin} [dissolve]", f"ingredient {name!r} must be a name "
+                              "(text)", "write the ingredient's name or formula as text, e.g. "
+                              "{'NaCl': 0.1}")
     fixed = _fix(data.get("fix", {}), origin)
     plain = (all(_is_number(v) for v in dissolve.values()) and "analysis" not in data
              and not set(data) & CONVERTED_KEYS)
@@ -171,7 +191,7 @@ def _from_mapping(data: dict[str, Any], origin: str, base_dir: Path,
                     dissolve=tuple((name, _plain_amount(value, origin, name))
                                    for name, value in dissolve.items()) if plain else ())
     if plain:  # amounts in mol/kg of water as given: nothing to convert
-        return recipe
+        return plausible(recipe)
     if "analysis" in data:
         from ._analysis import read_analysis
 
@@ -184,8 +204,9 @@ def _from_mapping(data: dict[str, Any], origin: str, base_dir: Path,
         if "temperature_C" in data:
             raise RecipeError(f"{origin} temperature_C", "an analysis gives its "
                               "temperature in [analysis]", "move temperature_C there")
-        return read_analysis(data["analysis"], recipe, _tables(recipe, registry), registry)
-    return _composed(data, recipe, registry, chain)
+        return plausible(read_analysis(data["analysis"], recipe, _tables(recipe, registry),
+                                       registry))
+    return plausible(_composed(data, recipe, registry, chain))
 
 
 # -- converting amounts ------------------------------------------------------------------
@@ -251,7 +272,7 @@ def entry_for(solute: Solute, kind: str, quantity: Quantity, where: str, label: 
                               f"{solute.name} is neutral", "give mmol/L or mg/L")
         entry.per_litre = v / abs(solute.formula.charge)
     elif d == "mass_fraction":
-        entry.per_gram_solution = v / solute.formula.molar_mass
+        entry.per_gram_solution = _moles_of_mass(v, quantity, solute, where)
     else:  # pragma: no cover - callers check the dimension first
         raise RecipeError(where, f"{quantity.text!r} cannot be an amount")
     return entry
@@ -267,68 +288,68 @@ def _moles_of_mass(grams: float, quantity: Quantity, solute: Solute, where: str)
 
 def mix(entries: Iterable[Entry], t_C: float, *, water_kg: float | None = None,
         volume_L: float | None = None, density: float | None = None,
-        extra_water_kg: float = 0.0, where: str = "") -> Mixture:
+        where: str = "") -> Mixture:
     """Solve for the water, volume and mass of a solution and the moles of each entry.
 
-    Give *water_kg* (water weighed in, before hydrate water and *extra_water_kg* from
-    stocks and poured solutions) or *volume_L* (made up to volume), or neither (then
-    the final water is 1 kg and only relative amounts may be given). *density* (g/mL)
-    replaces the estimate. A fixed-point iteration: each round updates the moles, the
-    solution mass, then the water (from hydrate water or from the volume).
+    Give *water_kg* (water weighed in, before hydrate water) or *volume_L* (made up to
+    volume), or neither (then the final water is 1 kg and only relative amounts may be
+    given). *density* (g/mL) replaces the estimate. A fixed-point iteration: each round
+    updates the moles, the solution mass, then the water (from hydrate water or from the
+    volume).
     """
     entries = tuple(entries)
-    absolute = any(e.absolute for e in entries) or extra_water_kg > 0
+    absolute = any(e.absolute for e in entries)
     if water_kg is None and volume_L is None and absolute:
-        raise RecipeError(where, "amounts in g or mol, stocks and poured solutions need to "
-                          "know what they are dissolved in", 'add water = "1.000 kg" or '
-                          'volume = "1.000 L"')
+        raise RecipeError(where, "amounts in g or mol need to know what they are dissolved "
+                          "in", 'add water = "1.000 kg" or volume = "1.000 L"')
     fraction = sum(e.per_gram_solution * e.solute.molar_mass for e in entries)
     if fraction >= 1.0:
         raise RecipeError(where, f"the mass fractions add up to {100 * fraction:.4g} % "
                           "of the solution", "they must leave room for the water")
+    for given, name in ((water_kg, "water"), (volume_L, "volume")):
+        if given is not None and not (math.isfinite(given) and given > 0):
+            raise RecipeError(f"{where} {name}", f"{given:g} must be more than zero",
+                              "give the water weighed in or the volume made up to")
     rho_w = water_density(t_C)
     if water_kg is not None:
-        water = water_kg + extra_water_kg
+        water = water_kg
     elif volume_L is not None:
         water = volume_L * rho_w
     else:
         water = 1.0
     volume = volume_L if volume_L is not None else water / rho_w
     for _ in range(MAX_ROUNDS):
-        fixed_mass = 1000.0 * water + sum(
-            e.solute.molar_mass * (e.moles(water, volume, 0.0)) for e in entries)
-        mass = fixed_mass / (1.0 - fraction)
-        moles = [e.moles(water, volume, mass) for e in entries]
-        if density is not None:
-            made = mass / (1000.0 * density)
-        else:
-            made = solution_volume_L(water, zip((e.solute for e in entries), moles), t_C)
-        if water_kg is not None:
-            new_water = water_kg + extra_water_kg + WATER_MOLAR_MASS / 1000.0 * sum(
-                n * e.solute.solvent_water for e, n in zip(entries, moles))
-            new_volume = made
-        elif volume_L is not None:
-            new_water, new_volume = water * volume_L / made, volume_L
-        else:
-            new_water, new_volume = 1.0, made
-        if not (math.isfinite(new_water) and new_water > 0):
-            raise RecipeError(where, "the ingredients leave no room for water "
-                              f"(water would be {new_water:.4g} kg)",
-                              "check the amounts against the volume")
+        try:
+            fixed_mass = 1000.0 * water + sum(
+                e.solute.molar_mass * (e.moles(water, volume, 0.0)) for e in entries)
+            mass = fixed_mass / (1.0 - fraction)
+            moles = [e.moles(water, volume, mass) for e in entries]
+            if density is not None:
+                made = mass / (1000.0 * density)
+            else:
+                made = solution_volume_L(water, zip((e.solute for e in entries), moles), t_C)
+            if water_kg is not None:
+                new_water = water_kg + WATER_MOLAR_MASS / 1000.0 * sum(
+                    n * e.solute.solvent_water for e, n in zip(entries, moles))
+                new_volume = made
+            elif volume_L is not None:
+                new_water, new_volume = water * volume_L / made, volume_L
+            else:
+                new_water, new_volume = 1.0, made
+        except (OverflowError, ZeroDivisionError):  # the estimate ran away: no room left
+            new_water = new_volume = math.nan
+        if not (math.isfinite(new_water) and new_water > WATER_FLOOR * (volume_L or 0.0)
+                and new_water > 0 and math.isfinite(new_volume)):
+            raise _no_room(entries, where, f"water would be {new_water:.4g} kg"
+                           if math.isfinite(new_water) else "the volume estimate runs away")
         done = (abs(new_water - water) <= RELATIVE_TOLERANCE * water
                 and abs(new_volume - volume) <= RELATIVE_TOLERANCE * volume)
         water, volume = new_water, new_volume
         if done:
             break
     else:
-        per_litre = [e.key or e.solute.name for e in entries if e.per_litre]
-        if per_litre:  # the volume grows without end: the salt alone fills the litre
-            raise RecipeError(where, f"{', '.join(per_litre)}: that much per litre leaves no "
-                              "room for water (as much as the pure salt, or more)",
-                              "check the amount and its unit (mol/L or mmol/L, g/L or mg/L)")
-        raise RecipeError(where, "the amounts of water and solution did not settle "
-                          f"after {MAX_ROUNDS} rounds", "the solutes may take up nearly "
-                          "the whole volume; check the amounts")
+        raise _no_room(entries, where, "its volume keeps growing: as much per litre as the "
+                       "pure substance, or more")
     fixed_mass = 1000.0 * water + sum(e.solute.molar_mass * e.moles(water, volume, 0.0)
                                       for e in entries)
     mass = fixed_mass / (1.0 - fraction)
@@ -339,6 +360,36 @@ def mix(entries: Iterable[Entry], t_C: float, *, water_kg: float | None = None,
     solution = Solution(water, volume, mass, "given" if density is not None else "estimated",
                         conversions, () if density is not None else rough)
     return Mixture(entries, moles, solution)
+
+
+def _no_room(entries: tuple[Entry, ...], where: str, detail: str) -> RecipeError:
+    """The error for amounts that leave no water, naming the heaviest entry."""
+    heaviest = max(entries, key=lambda e: e.solute.molar_mass * (
+        e.absolute + e.per_kg_water + e.per_litre + e.per_gram_solution * 1000.0),
+        default=None)
+    culprit = ""
+    if heaviest is not None and heaviest.given:
+        culprit = (f" {heaviest.key} = {heaviest.given!r}" if heaviest.key
+                   else f" {heaviest.given!r}")
+    return RecipeError(f"{where}{culprit}", f"that much leaves no room for water ({detail}): "
+                       "more is dissolved than the solution can hold",
+                       "check the amounts and their units (mol/L or mmol/L, g or mg), and the "
+                       "volume or water they go into")
+
+
+def plausible(recipe: Recipe) -> Recipe:
+    """*recipe* if no ingredient or component exceeds :data:`MOLALITY_CEILING` mol per kg of
+    water; else an error naming it, so that an absurd amount is refused before a solve
+    spends minutes on it."""
+    for kind, items in (("[dissolve]", recipe.dissolve), ("component", recipe.components)):
+        for name, m in items:
+            if m > MOLALITY_CEILING:
+                raise RecipeError(f"{recipe.origin} {kind} {name!r}", f"{m:g} mol per kg of "
+                                  f"water is beyond what any solution holds (above "
+                                  f"{MOLALITY_CEILING:g} mol/kg)", "check the amount and its "
+                                  "unit: a plain number is mol per kg of water; give other "
+                                  'units in quotes, e.g. NaCl = "150 mmol/kg"')
+    return recipe
 
 
 def solution_of(recipe: Recipe, tables: TableSet) -> Solution:
@@ -373,14 +424,16 @@ def _composed(data: dict[str, Any], recipe: Recipe, registry: Registry | None,
             continue
         quantity = expect(parse_quantity(value, where), DISSOLVE_DIMENSIONS, where)
         entries.append(entry_for(solute, "ingredient", quantity, where, label))
-    extra_water = 0.0
     portions = [*_stocks(data, recipe, tables), *_pours(data, recipe, registry, tables, chain)]
-    for portion in portions:
-        entries.extend(portion.entries)
-        extra_water += portion.water_kg
-    mixture = mix(entries, t, water_kg=None if water is None else water.value / 1000.0,
-                  volume_L=None if volume is None else volume.value, density=density,
-                  extra_water_kg=extra_water, where=origin)
+    if water is None and volume is None and portions and all(
+            e.absolute and not (e.per_kg_water or e.per_litre or e.per_gram_solution)
+            for e in entries):
+        made = _dry(entries)   # weighed straight into the stocks and poured solutions
+    else:
+        made = mix(entries, t, water_kg=None if water is None else water.value / 1000.0,
+                   volume_L=None if volume is None else volume.value, density=density,
+                   where=origin)
+    mixture = poured_into(made, portions, t, density is not None)
     solution = mixture.solution
     poured = tuple(Conversion(p.key, p.given, p.water_kg / solution.water_kg,
                               "kg water per kg water", p.note) for p in portions if p.key)
@@ -388,6 +441,47 @@ def _composed(data: dict[str, Any], recipe: Recipe, registry: Registry | None,
                        warnings=tuple(w for p in portions for w in p.warnings))
     return replace(recipe, dissolve=mixture.molalities("ingredient"),
                     components=mixture.molalities("component"), solution=solution)
+
+
+def _dry(entries: list[Entry]) -> Mixture:
+    """Solutes weighed out with no water of their own (it all comes from the additions)."""
+    moles = tuple(e.absolute for e in entries)
+    mass = sum(e.solute.molar_mass * n for e, n in zip(entries, moles))
+    return Mixture(tuple(entries), moles, Solution(0.0, 0.0, mass, "estimated"))
+
+
+def poured_into(made: Mixture, portions: Iterable[Portion], t_C: float,
+                density_given: bool) -> Mixture:
+    """The solution *made* with every stock and poured solution of *portions* added to it.
+
+    This is the recipe convention (README, DEVELOPERS.md): ``water``, ``volume`` and the
+    [dissolve] amounts describe the solution as made; each [[add]] and [[pour]] then goes
+    into it, bringing its own solutes and water, and nothing is made up to volume
+    afterwards. The final volume is estimated from the final composition, or, with a given
+    density, taken as the sum of the volumes mixed.
+    """
+    portions = list(portions)
+    if not portions:
+        return made
+    entries = [replace(e, absolute=n, per_kg_water=0.0, per_litre=0.0, per_gram_solution=0.0)
+               for e, n in zip(made.entries, made.moles)]
+    water = made.solution.water_kg
+    for portion in portions:
+        entries.extend(portion.entries)
+        water += portion.water_kg
+    moles = tuple(e.absolute for e in entries)
+    mass = 1000.0 * water + sum(e.solute.molar_mass * n for e, n in zip(entries, moles))
+    if density_given:
+        volume = made.solution.volume_L + sum(p.volume_L for p in portions)
+    else:
+        volume = solution_volume_L(water, zip((e.solute for e in entries), moles), t_C)
+    rough = tuple(sorted({*made.solution.rough_volumes,
+                          *(r for e in entries for r in e.solute.rough)}))
+    conversions = tuple(Conversion(e.key, e.given, n / water, note=e.note)
+                        for e, n in zip(entries, moles) if e.given)
+    solution = Solution(water, volume, mass, made.solution.density_how, conversions,
+                        () if density_given else rough)
+    return Mixture(tuple(entries), moles, solution)
 
 
 @dataclass(frozen=True)
@@ -399,6 +493,7 @@ class Portion:
 
     entries: tuple[Entry, ...]
     water_kg: float
+    volume_L: float
     key: str = ""
     given: str = ""
     note: str = ""
@@ -413,7 +508,7 @@ def portion_of(solution: Solution, parts: Iterable[tuple[Solute, str, float]], v
     entries = tuple(Entry(s, kind, key, "", absolute=m * water) for s, kind, m in parts)
     note = (f"density {solution.density_g_per_mL:.5g} g/mL ({solution.density_how}); "
             f"{water:.5g} kg of water")
-    return Portion(entries, water, key, given, note)
+    return Portion(entries, water, volume_L, key, given, note)
 
 
 def _stocks(data: dict[str, Any], recipe: Recipe, tables: TableSet) -> list[Portion]:
@@ -428,30 +523,42 @@ def _stocks(data: dict[str, Any], recipe: Recipe, tables: TableSet) -> list[Port
                                   'concentration = "1.0 mol/L", volume = "12.5 mL"')
         name = item["stock"]
         if not isinstance(name, str):
-            raise RecipeError(f"{where} stock", f"{name!r} must be an ingredient name")
+            raise RecipeError(f"{where} stock", f"{name!r} must be an ingredient name",
+                              'e.g. stock = "NaOH"')
         where = f"{recipe.origin} [[add]] {name!r}"
         solute = _ingredient(name, tables, recipe.origin)
         strength = expect(parse_quantity(item["concentration"], f"{where} concentration"),
                           STOCK_DIMENSIONS, f"{where} concentration")
         volume = expect(parse_quantity(item["volume"], f"{where} volume"), ("volume",),
                         f"{where} volume")
-        density = given_density(item, where)
-        tabulated = None if density is not None else tabulated_density(solute, strength, where)
-        if tabulated is not None and tabulated.mass_fraction == 1.0:  # glacial acetic acid
-            moles = 1000.0 * volume.value * tabulated.value / solute.formula.molar_mass
-            entry = Entry(solute, "ingredient", f"[[add]] {name}",
-                          f"{strength.text} × {volume.text}", absolute=moles,
-                          note=tabulated.note())
-            out.append(Portion((entry,), 0.0))
-            continue
-        stock = mix([entry_for(solute, "ingredient", strength, where, "")],
-                    recipe.temperature_C, volume_L=volume.value,
-                    density=tabulated.value if tabulated else density, where=where)
-        note, warnings = _stock_density_note(name, solute, stock, density, tabulated)
-        entry = Entry(solute, "ingredient", f"[[add]] {name}",
-                      f"{strength.text} × {volume.text}", absolute=stock.moles[0], note=note)
-        out.append(Portion((entry,), stock.solution.water_kg, warnings=warnings))
+        positive(strength, f"{where} concentration")
+        positive(volume, f"{where} volume")
+        out.append(stock_portion(name, solute, strength, volume, recipe.temperature_C,
+                                 given_density(item, where), where))
     return out
+
+
+def stock_portion(name: str, solute: Solute, strength: Quantity, volume: Quantity,
+                  t_C: float, density: float | None, where: str) -> Portion:
+    """*volume* of a stock of *solute* at *strength*: its moles and its water.
+
+    The one computation of a stock for [[add]], target and sweep titrations, so that they
+    agree to the last digit. The density is *density* when given, else a tabulated one
+    (concentrated acids and bases), else the estimate.
+    """
+    label, given = f"[[add]] {name}", f"{strength.text} × {volume.text}"
+    tabulated = None if density is not None else tabulated_density(solute, strength, where)
+    if tabulated is not None and tabulated.mass_fraction == 1.0:  # glacial acetic acid
+        moles = 1000.0 * volume.value * tabulated.value / solute.formula.molar_mass
+        entry = Entry(solute, "ingredient", label, given, absolute=moles,
+                      note=tabulated.note())
+        return Portion((entry,), 0.0, volume.value)
+    stock = mix([entry_for(solute, "ingredient", strength, where, "")], t_C,
+                volume_L=volume.value, density=tabulated.value if tabulated else density,
+                where=f"{where} concentration")
+    note, warnings = _stock_density_note(name, solute, stock, density, tabulated)
+    entry = Entry(solute, "ingredient", label, given, absolute=stock.moles[0], note=note)
+    return Portion((entry,), stock.solution.water_kg, volume.value, warnings=warnings)
 
 
 def _stock_density_note(name: str, solute: Solute, stock: Mixture, given: float | None,
@@ -482,10 +589,11 @@ def _pours(data: dict[str, Any], recipe: Recipe, registry: Registry | None, tabl
             raise RecipeError(where, "needs recipe and volume",
                               'e.g. recipe = "acid-rinse.toml", volume = "250 mL"')
         if not isinstance(item["recipe"], str):
-            raise RecipeError(f"{where} recipe", f"{item['recipe']!r} must be a file name")
+            raise RecipeError(f"{where} recipe", f"{item['recipe']!r} must be a file name",
+                              'e.g. recipe = "acid-rinse.toml"')
         where = f"{recipe.origin} [[pour]] {item['recipe']!r}"
-        volume = expect(parse_quantity(item["volume"], f"{where} volume"), ("volume",),
-                        f"{where} volume")
+        volume = positive(expect(parse_quantity(item["volume"], f"{where} volume"),
+                                 ("volume",), f"{where} volume"), f"{where} volume")
         path = (recipe.base_dir / item["recipe"]).resolve()
         if path in chain:
             loop = " → ".join(p.name for p in (*chain[chain.index(path):], path))
@@ -541,9 +649,14 @@ def _optional(data: Mapping[str, Any], key: str, dimensions: tuple[str, ...],
     if key not in data:
         return None
     where = f"{origin} {key}"
-    quantity = expect(parse_quantity(data[key], where), dimensions, where)
-    if quantity.value <= 0:
-        raise RecipeError(where, f"{quantity.text!r} must be more than zero")
+    return positive(expect(parse_quantity(data[key], where), dimensions, where), where)
+
+
+def positive(quantity: Quantity, where: str) -> Quantity:
+    """*quantity* if it is more than zero, else an error naming *where*."""
+    if not quantity.value > 0:
+        raise RecipeError(where, f"{quantity.text!r} must be more than zero",
+                          "give the amount used, or remove the entry to leave it out")
     return quantity
 
 
@@ -583,7 +696,8 @@ def _fix(fix: Any, origin: str) -> dict[str, float]:
     if not isinstance(fix, dict):
         raise RecipeError(f"{origin} [fix]", "must be a table such as pH = 7.0")
     _reject_unknown(fix, FIX_KEYS, origin, "key of [fix]")
-    fixed = {key: as_number(value, f"{origin} [fix] {key}") for key, value in fix.items()}
+    fixed = {key: as_number(value, f"{origin} [fix] {key}", "7.0")
+             for key, value in fix.items()}
     if "pH" in fixed:
         check_ph(fixed["pH"], f"{origin} [fix] pH")
     return fixed
@@ -618,19 +732,20 @@ def _reject_unknown(data: Mapping[str, Any], allowed: set[str], origin: str, kin
 
 
 def _is_number(value: Any) -> bool:
-    return isinstance(value, (int, float)) and not isinstance(value, bool)
+    """True for a real number of any type (int, float, NumPy scalars, Decimal), not a bool."""
+    return isinstance(value, (numbers.Real, Decimal)) and not isinstance(value, bool)
 
 
-def as_number(value: Any, where: str) -> float:
-    """*value* as a finite float, or an error naming *where*."""
-    if not _is_number(value) or not math.isfinite(value):
+def as_number(value: Any, where: str, example: str = "25.0") -> float:
+    """*value* as a finite float, or an error naming *where* and showing *example*."""
+    if not _is_number(value) or not math.isfinite(float(value)):
         raise RecipeError(where, f"{value!r} must be a number (without quotes)",
-                          "e.g. 25.0")
+                          f"give a finite number, e.g. {example}")
     return float(value)
 
 
 def _plain_amount(value: Any, origin: str, name: str) -> float:
-    amount = as_number(value, f"{origin} [dissolve] {name!r}")
+    amount = as_number(value, f"{origin} [dissolve] {name!r}", "0.1")
     if amount < 0:
         raise RecipeError(f"{origin} [dissolve] {name!r}", f"amount = {amount:g} must be ≥ 0",
                           "amounts are mol per kg of water; remove the entry to leave it out")

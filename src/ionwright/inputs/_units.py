@@ -46,8 +46,10 @@ UNITS: dict[str, tuple[str, int]] = {
     "mg/mL": ("mass_per_volume", 0), "g/mL": ("mass_per_volume", 3),
     "g/cm3": ("mass_per_volume", 3), "kg/L": ("mass_per_volume", 3),
     "kg/m3": ("mass_per_volume", 0), "%w/v": ("mass_per_volume", 1),
+    "g/100mL": ("mass_per_volume", 1),
     "eq/L": ("equivalents", 0), "meq/L": ("equivalents", -3), "ueq/L": ("equivalents", -6),
     "%w/w": ("mass_fraction", -2),
+    "ppm": ("mass_fraction", -6),       # mg per kg of solution (not mg/L: see DEVELOPERS.md)
 }
 
 #: Alternative spellings folded onto the keys of :data:`UNITS`.
@@ -87,8 +89,8 @@ def parse_quantity(text: object, where: str) -> Quantity:
         negative or non-finite number, or a basis that is not a formula.
     """
     if not isinstance(text, str):
-        raise RecipeError(where, f"{text!r} must be a number with a unit in quotes",
-                          'e.g. "3.40 g" or "48 mg/L"')
+        raise RecipeError(where, f"{text!r} must be a number, or a number with a unit in "
+                          "quotes", 'e.g. 0.1 (mol per kg of water) or "3.40 g" or "48 mg/L"')
     match = _QUANTITY.match(text)
     if not match:
         raise RecipeError(where, f"{text!r} does not start with a number",
@@ -104,6 +106,9 @@ def parse_quantity(text: object, where: str) -> Quantity:
         hint = f"did you mean {near[0]!r}? " if near else ""
         if unit == "%":
             hint = "write % w/w (mass fraction) or % w/v (g per 100 mL); "
+        elif unit.startswith("g/100"):
+            hint = ("write % w/w for g per 100 g of solution, or g/100 mL (the same as % w/v) "
+                    "for g per 100 mL; ")
         raise RecipeError(where, f"unknown unit {match['unit']!r} in {text!r}",
                           f"{hint}known units: {', '.join(UNITS)}")
     if not math.isfinite(value) or value < 0:
@@ -117,7 +122,7 @@ def parse_quantity(text: object, where: str) -> Quantity:
         except FormulaError:
             raise RecipeError(where, f"the basis {match['basis']!r} in {text!r} is not a "
                               "formula", 'e.g. "as N", "as CaCO3", "as SiO2"') from None
-        if dimension not in ("mass", "mass_per_volume"):
+        if dimension not in ("mass", "mass_per_volume", "mass_fraction"):
             raise RecipeError(where, f"{text!r}: 'as {match['basis']}' applies to masses "
                               "only", 'e.g. "2.1 mg/L as N"')
     scaled = value * 10.0 ** power if power >= 0 else value / 10.0 ** -power

@@ -57,6 +57,7 @@ def cautions(result) -> list[str]:
         out.append(f"CAUTION: ammonia at pH {ph:.2f} (above {FREE_AMMONIA_PH:g}): "
                    f"{100 * ammonia[0]:.3g} % is free NH3, which escapes as an irritant gas "
                    f"and is toxic to fish; ventilate and {DEFER}")
+    out.extend(_balanced_by_protons(result))
     error = charge_balance_error_percent(result)
     if abs(error) > CHARGE_BALANCE_LIMIT:
         out.append(f"DATA QUALITY: the charge-balance error is {error:+.1f} %, beyond the "
@@ -65,6 +66,30 @@ def cautions(result) -> list[str]:
                    f"on the results (or balance_on a major ion), and base decisions on "
                    f"measured values, local codes and licensed practice")
     return out
+
+
+def _balanced_by_protons(result) -> list[str]:
+    """A warning when an analysis without pH needed much acid or hydroxide to balance.
+
+    Without a measured pH the protons are set so that the sample is electroneutral; when
+    they make up more than :data:`CHARGE_BALANCE_LIMIT` % of the ions' charge, the pH comes
+    from a missing ion rather than from the sample.
+    """
+    solution = result.recipe.solution
+    given = next((c for c in (solution.conversions if solution else ())
+                  if c.key == "[analysis] pH" and c.given == "not measured"), None)
+    if given is None:
+        return []
+    scale = sum(abs(result.tables.entry(c).charge) * m for c, m in result.totals.items()
+                if c != "H+")
+    share = 100.0 * abs(given.value) / scale if scale > 0 else 0.0
+    if share <= CHARGE_BALANCE_LIMIT:
+        return []
+    what = "hydroxide" if given.value < 0 else "acid"
+    return [f"DATA QUALITY: the analysis gives no pH, and its ions were balanced with "
+            f"{1000 * abs(given.value):.3g} mmol/kg of {what} ({share:.3g} % of their charge): "
+            f"the computed pH {result.pH:.2f} reflects a missing or mismeasured ion, not the "
+            f"sample; give the measured pH (and alkalinity), or check the analysis"]
 
 
 def _species(result, formula) -> str | None:

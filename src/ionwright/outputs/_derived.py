@@ -129,7 +129,7 @@ def langelier_index(result, alkalinity_eq_per_kg: float) -> float | None:
     calcium = _component(result, _HARDNESS_IONS[0])
     bicarbonate = _species(result, _BICARBONATE)
     if (calcium is None or bicarbonate is None or CALCITE not in result.tables.solids
-            or alkalinity_eq_per_kg <= 0):
+            or alkalinity_eq_per_kg <= 0 or result.totals.get(calcium, 0.0) <= 0):
         return None
     t = np.array([result.temperature_C])
     calcite = result.tables.resolve(CALCITE, "solids")

@@ -139,7 +139,7 @@ def save(fig: Figure, path: str | Path) -> Path:
 
     path = Path(path)
     if path.suffix.lower() not in SUFFIXES:
-        raise RecipeError(f"--plot {str(path)!r}", "must end in .png or .svg",
-                          "e.g. --plot titration.png")
+        raise RecipeError(f"plot {str(path)!r}", "must end in .png or .svg",
+                          "e.g. titration.png")
     fig.savefig(path, dpi=150)
     return path

@@ -29,6 +29,7 @@ import os
 import sys
 import warnings
 from collections.abc import Callable, Iterable, Iterator, Mapping
+from contextlib import redirect_stdout
 from dataclasses import dataclass, replace
 from functools import lru_cache
 from importlib.metadata import EntryPoint, entry_points
@@ -42,10 +43,12 @@ from typing import Any
 import pluggy
 
 from . import _builtin as builtin_plugin
+from ._guard import GuardedModel
 from . import hookspecs
 from ..errors import (BrokenPluginError, PluginConflictError, PluginConflictWarning,
                      PluginError, TableError, UnknownNameError)
 from ..data._loader import FORMAT_VERSION, _Builder, load_table, parse_table
+from ..data._text import NOT_UTF8_HINT, not_utf8
 from ..chemistry._records import ConstantTable, Reagent, frozen_map
 
 ENTRY_POINT_GROUP = "ionwright"
@@ -111,7 +114,12 @@ class TableOffer:
             return self.source
         if isinstance(self.source, (str, Path)):
             return load_table(self.source)
-        return parse_table(self.source.read_text(encoding="utf-8"), origin=self.origin)
+        try:
+            text = self.source.read_text(encoding="utf-8")
+        except UnicodeDecodeError as exc:
+            raise TableError(self.origin, [not_utf8(exc.object, exc.start)],
+                             NOT_UTF8_HINT) from None
+        return parse_table(text, origin=self.origin)
 
 
 def switched_on(environ: Mapping[str, str], variable: str) -> bool:
@@ -203,7 +211,8 @@ def plugin_manager(problems: list[PluginProblem] | None = None,
 def _register(manager: pluggy.PluginManager, ep: EntryPoint) -> str:
     """Import and register one entry point; the reason it failed, or '' on success."""
     try:
-        plugin = ep.load()
+        with redirect_stdout(sys.stderr):  # what a plugin prints must not mix with --json
+            plugin = ep.load()
     except Exception as exc:  # any import-time failure of third-party code, named below
         return f"failed to import ({ep.value}): {type(exc).__name__}: {exc}"
     try:
@@ -244,6 +253,7 @@ class Registry:
         self.models: dict[str, Any] = {}
         self.reagent_layers: dict[str, ConstantTable] = {}
         self._owner: dict[tuple[str, str], str] = {}
+        self._guarded: dict[str, GuardedModel] = {}
         self._files: set[str] = set()
         self._trace = _tracer(env)
         for provider, offered in self._call("register_tables"):
@@ -271,7 +281,8 @@ class Registry:
                        key=lambda impl: order.get(impl.plugin_name, len(order)))
         for impl in impls:
             try:
-                result = impl.function()
+                with redirect_stdout(sys.stderr):
+                    result = impl.function()
             except Exception as exc:  # a plugin's own failure, reported with its name
                 self._problem(impl.plugin_name, f"{hook}() raised {type(exc).__name__}: {exc}")
                 continue
@@ -386,10 +397,32 @@ class Registry:
         """The activity model called *name* (refused while a plugin is broken)."""
         self.require_healthy()
         try:
-            return self.models[name]
+            model = self.models[name]
         except KeyError:
             raise UnknownNameError("activity model", name, self.models,
                                    f"known models: {', '.join(sorted(self.models))}") from None
+        owner = self._owner.get(("activity model", name), BUILTIN)
+        if owner == BUILTIN:
+            return model
+        if name not in self._guarded or self._guarded[name]._model is not model:
+            self._guarded[name] = GuardedModel(model, owner)
+        return self._guarded[name]
+
+    def replacement_notes(self, model: str, tables: Iterable[str]) -> list[str]:
+        """Warnings for a solve whose activity model or tables (by name) are a plugin's or
+        a file's replacement of an earlier registration, ionwright's own included."""
+        used = {("activity model", model), *(("table", t) for t in tables)}
+        out = []
+        for c in self.conflicts:
+            if (c.kind, c.name) in used and self._owner.get((c.kind, c.name)) == c.kept:
+                out.append(f"{c.kind} {c.name!r} here is the one of {self.describe(c.kept)}, "
+                           f"which replaces the one of {self._who(c.replaced)}; set "
+                           f"{CONFLICTS_VAR}=raise to refuse such replacements, or exclude it "
+                           f"with {EXCLUDE_VAR}")
+        return out
+
+    def _who(self, provider: str) -> str:
+        return "ionwright itself" if provider == BUILTIN else self.describe(provider)
 
     def table(self, name_or_path: str) -> ConstantTable:
         """A registered table by name, or a table file by path (refused while a plugin is broken)."""
@@ -399,7 +432,8 @@ class Registry:
         path = Path(name_or_path).expanduser()
         if path.suffix == ".toml" or path.exists():
             if not path.exists():
-                raise TableError(str(path), ["no such file"])
+                raise TableError(str(path), ["no such file"], "check the path (a table named "
+                                 "in a recipe is found relative to the recipe's folder)")
             return load_table(path)
         raise UnknownNameError("constant table", name_or_path, self.tables,
                                "give a registered name or a path to a .toml file; "

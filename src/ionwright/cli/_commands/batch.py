@@ -4,18 +4,29 @@ The input is read and written in chunks of ``--chunk-rows`` rows (pandas ``read_
 chunks, pyarrow ``iter_batches``), so memory stays bounded however large the file.
 A progress bar shows on a terminal (with tqdm installed); a summary follows at the
 end. The exit status is 1 when any row failed; the output is written all the same.
+
+The output is written under a temporary name in the output's folder and renamed when the
+last row is written, so the output name holds either a complete table or nothing: an
+interruption (Ctrl-C, SIGTERM) or an error removes the partial file and prints how far
+the run got. Input that is not a table (not UTF-8, empty, ragged, unclosed quotes,
+semicolons, a Parquet name on another file) is refused before any row is solved.
 """
 
 from __future__ import annotations
 
 import argparse
+import os
+import re
+import signal
 import sys
 import time
 from collections import deque
+from contextlib import contextmanager
 from pathlib import Path
 from typing import Any, Iterator
 
 from ...errors import RecipeError
+from .._paths import check_output_path
 
 FORMATS = (".csv", ".parquet")
 CHUNK_ROWS = 50_000
@@ -52,30 +63,41 @@ def register(subparsers) -> None:
 
 def run(args: argparse.Namespace) -> int:
     source, target = Path(args.input), Path(args.output)
-    for path, role in ((source, "input"), (target, "output")):
-        if path.suffix.lower() not in FORMATS:
-            raise RecipeError(f"{role} {str(path)!r}", "is neither .csv nor .parquet",
-                              "name the file with one of those suffixes")
+    if source.suffix.lower() not in FORMATS:
+        raise RecipeError(f"input {str(source)!r}", "is neither .csv nor .parquet",
+                          "name the file with one of those suffixes")
     if not source.is_file():
         raise RecipeError(f"input {str(source)!r}", "does not exist", "check the path")
+    check_output_path(target, "-o", FORMATS, inputs=[source])
     if args.chunk_rows < 1:
-        raise RecipeError("--chunk-rows", f"{args.chunk_rows} must be ≥ 1")
+        raise RecipeError("--chunk-rows", f"{args.chunk_rows} must be ≥ 1",
+                          f"give a number of rows, e.g. {CHUNK_ROWS}")
     if args.threads is not None and args.threads < 1:
-        raise RecipeError("--threads", f"{args.threads} must be ≥ 1")
-    options = dict(species=args.species, model=args.model, tables=args.tables,
-                   labels=args.label)
+        raise RecipeError("--threads", f"{args.threads} must be ≥ 1",
+                          "give a number of threads, or leave it out to use the cores")
     started = time.perf_counter()
     counts = {"rows": 0, "converged": 0, "failed": 0, "invalid": 0}
-    chunks = _read_chunks(source, args.chunk_rows)
-    with _Progress(source, args.chunk_rows) as bar, _Writer(target) as writer:
-        for solved in _solved_chunks(chunks, options, args.engine, args.address,
-                                     args.threads):
-            writer.write(solved)
-            status = solved["status"].value_counts()
-            counts["rows"] += len(solved)
-            for key in ("converged", "failed", "invalid"):
-                counts[key] += int(status.get(key, 0))
-            bar(len(solved))
+    chunks = _read_chunks(source, args.chunk_rows, args.label)
+    first = next(chunks)
+    options = dict(species=args.species, model=args.model, tables=args.tables,
+                   labels=[*args.label, *_text_columns(first)])
+    try:
+        with _stopped_by_signals(), _Progress(source, args.chunk_rows) as bar, \
+                _Writer(target, options["labels"]) as writer:
+            for solved in _solved_chunks(_chain(first, chunks), options, args.engine,
+                                         args.address, args.threads):
+                writer.write(solved)
+                status = solved["status"].value_counts()
+                counts["rows"] += len(solved)
+                for key in ("converged", "failed", "invalid"):
+                    counts[key] += int(status.get(key, 0))
+                bar(len(solved))
+    except Interrupted as stop:
+        print(f"ionwright batch: interrupted by {stop.signal_name} after {counts['rows']} "
+              f"rows ({counts['converged']} converged, {counts['failed']} failed, "
+              f"{counts['invalid']} invalid); {target} was not written (a batch writes its "
+              "output only when complete)", file=sys.stderr)
+        return 128 + stop.signal_number
     elapsed = time.perf_counter() - started
     rate = counts["rows"] / elapsed if elapsed > 0 else 0.0
     print(f"{counts['rows']} rows: {counts['converged']} converged, {counts['failed']} "
@@ -108,32 +130,155 @@ def _solved_chunks(chunks: Iterator[Any], options: dict, engine: str,
             yield pending.popleft().result()
 
 
-def _read_chunks(path: Path, rows: int) -> Iterator[Any]:
+def _chain(first: Any, rest: Iterator[Any]) -> Iterator[Any]:
+    yield first
+    yield from rest
+
+
+def _text_columns(frame) -> list[str]:
+    """Columns of the first chunk that hold text (sample ids, sites): carried through as
+    labels in every chunk, so a later chunk cannot read them differently."""
     import pandas as pd
 
+    return [str(c) for c in frame.columns if not pd.api.types.is_numeric_dtype(frame[c])
+            and not pd.api.types.is_bool_dtype(frame[c])
+            and pd.to_numeric(frame[c], errors="coerce").isna().all() and frame[c].notna().any()]
+
+
+def _read_chunks(path: Path, rows: int, labels: list[str] = ()) -> Iterator[Any]:
+    """The table at *path* in chunks of *rows*, always at least one (perhaps empty) chunk.
+
+    Problems of the file itself (encoding, shape, quotes, separators) are refused with the
+    file's name, the line where known and a way to fix it.
+    """
+    where = f"input {str(path)!r}"
     if path.suffix.lower() == ".csv":
-        start = 0
-        for chunk in pd.read_csv(path, chunksize=rows):
+        yield from _csv_chunks(path, rows, labels, where)
+        return
+    try:
+        import pyarrow.parquet as pq
+    except ImportError:
+        raise RecipeError(where, "Parquet needs pyarrow", 'pip install "ionwright[parquet]", '
+                          "or give a .csv file") from None
+    import pyarrow as pa
+
+    try:
+        handle = pq.ParquetFile(path)
+    except (pa.ArrowInvalid, OSError) as exc:
+        raise RecipeError(where, f"is not a Parquet file ({exc})", "give a Parquet file, or "
+                          "save the table as CSV and name it .csv") from None
+    found = False
+    for batch in handle.iter_batches(batch_size=rows):
+        found = True
+        yield batch.to_pandas()
+    if not found:  # no rows: the columns alone, so that the output still gets its header
+        yield handle.schema_arrow.empty_table().to_pandas()
+
+
+_FIELDS = re.compile(r"Expected (\d+) fields in line (\d+), saw (\d+)")
+_OPEN_QUOTE = re.compile(r"EOF inside string starting at row (\d+)")
+
+
+def _csv_chunks(path: Path, rows: int, labels: list[str], where: str) -> Iterator[Any]:
+    import pandas as pd
+
+    from ...data._text import NOT_UTF8_HINT, first_not_utf8
+
+    start = 0
+    try:
+        reader = pd.read_csv(path, chunksize=rows, encoding="utf-8",
+                             dtype={label: str for label in labels})
+        for chunk in reader:
+            if start == 0:
+                _check_separator(chunk, where)
             chunk.index = range(start, start + len(chunk))
             start += len(chunk)
             yield chunk
-        return
-    import pyarrow.parquet as pq
+    except UnicodeDecodeError:
+        raise RecipeError(where, first_not_utf8(path) or "is not UTF-8 text",
+                          NOT_UTF8_HINT) from None
+    except pd.errors.EmptyDataError:
+        raise RecipeError(where, "is empty: it has no header line naming the columns",
+                          "the first line names the columns, e.g. sample,NaCl,CaCl2") from None
+    except pd.errors.ParserError as exc:
+        raise _csv_problem(str(exc), where) from None
 
-    for batch in pq.ParquetFile(path).iter_batches(batch_size=rows):
-        yield batch.to_pandas()
+
+def _csv_problem(text: str, where: str) -> RecipeError:
+    fields = _FIELDS.search(text)
+    if fields:
+        wanted, line, saw = fields.groups()
+        return RecipeError(where, f"line {line} has {saw} values where the header has "
+                           f"{wanted} columns", "give each row one value per column (a text "
+                           "value holding a comma needs quotes)")
+    quote = _OPEN_QUOTE.search(text)
+    if quote:
+        return RecipeError(where, f"a quoted value opened on data row {quote.group(1)} is "
+                           "never closed", 'close the quote (") or remove it')
+    return RecipeError(where, f"cannot be read as CSV ({text.strip()})",
+                       "check that it is a comma-separated table with a header line")
+
+
+def _check_separator(chunk, where: str) -> None:
+    """Refuse a table read as one column whose header holds semicolons or tabs: another
+    separator, which would otherwise solve every row as pure water."""
+    if len(chunk.columns) != 1:
+        return
+    header = str(chunk.columns[0])
+    for mark, name in ((";", "semicolons"), ("\t", "tabs")):
+        if mark in header:
+            raise RecipeError(where, f"reads as one column {header!r}: its values are "
+                              f"separated by {name} ({mark!r}), not commas",
+                              "save the table as comma-separated values (CSV) with a point "
+                              "as the decimal mark")
+
+
+class Interrupted(Exception):
+    """SIGINT or SIGTERM arrived while a batch was running."""
+
+    def __init__(self, signal_number: int) -> None:
+        super().__init__(signal_number)
+        self.signal_number = signal_number
+        self.signal_name = signal.Signals(signal_number).name
+
+
+@contextmanager
+def _stopped_by_signals() -> Iterator[None]:
+    """Turn SIGINT and SIGTERM into :class:`Interrupted` while the batch runs, so that the
+    partial output is removed and a summary printed (the default SIGTERM kills outright)."""
+    def stop(number, frame):
+        raise Interrupted(number)
+
+    previous = {}
+    try:
+        for number in (signal.SIGINT, signal.SIGTERM):
+            previous[number] = signal.signal(number, stop)
+    except ValueError:  # not the main thread: signals stay as they are
+        pass
+    try:
+        yield
+    finally:
+        for number, handler in previous.items():
+            signal.signal(number, handler)
 
 
 class _Writer:
     """Appends solved chunks to a CSV or Parquet file, one schema for the whole file
-    (written by pyarrow, which writes CSV many times faster than pandas)."""
+    (written by pyarrow, which writes CSV many times faster than pandas).
 
-    def __init__(self, path: Path) -> None:
+    Rows go to a temporary file in the output's folder, renamed to the output name when
+    the writer closes without an error; on an error or interruption it is deleted.
+    Columns named in *text* (labels) are always written as text.
+    """
+
+    def __init__(self, path: Path, text: list[str] = ()) -> None:
         self.path = path
+        self.partial = path.with_name(f".{path.name}.partial-{os.getpid()}{path.suffix}")
         self.parquet = path.suffix.lower() == ".parquet"
         self.started = False
         self.writer = None
         self.schema = None
+        self.text = set(text)
         self.numeric: dict[str, bool] = {}
 
     def __enter__(self) -> "_Writer":
@@ -146,7 +291,7 @@ class _Writer:
             if self.parquet:
                 raise RecipeError(f"output {str(self.path)!r}", "Parquet needs pyarrow",
                                   'pip install "ionwright[parquet]", or write .csv') from None
-            frame.to_csv(self.path, mode="a" if self.started else "w",
+            frame.to_csv(self.partial, mode="a" if self.started else "w",
                          header=not self.started, index=False)
             self.started = True
             return
@@ -156,11 +301,11 @@ class _Writer:
             if self.parquet:
                 import pyarrow.parquet as pq
 
-                self.writer = pq.ParquetWriter(self.path, self.schema)
+                self.writer = pq.ParquetWriter(self.partial, self.schema)
             else:
                 import pyarrow.csv as pa_csv
 
-                self.writer = pa_csv.CSVWriter(self.path, self.schema)
+                self.writer = pa_csv.CSVWriter(self.partial, self.schema)
         self.writer.write_table(table.cast(self.schema))
         self.started = True
 
@@ -170,7 +315,9 @@ class _Writer:
         import pandas as pd
 
         if not self.numeric:
-            self.numeric = {c: pd.api.types.is_numeric_dtype(frame[c]) for c in frame.columns}
+            self.numeric = {c: pd.api.types.is_numeric_dtype(frame[c])
+                            and not pd.api.types.is_bool_dtype(frame[c])
+                            and str(c) not in self.text for c in frame.columns}
         out = {}
         for c in frame.columns:
             if self.numeric[c]:
@@ -179,9 +326,15 @@ class _Writer:
                 out[c] = frame[c].astype("string")
         return pd.DataFrame(out)
 
-    def __exit__(self, *exc) -> None:
-        if self.writer is not None:
-            self.writer.close()
+    def __exit__(self, kind, value, traceback) -> None:
+        try:
+            if self.writer is not None:
+                self.writer.close()
+        finally:
+            if kind is None and self.started:
+                os.replace(self.partial, self.path)
+            else:
+                self.partial.unlink(missing_ok=True)
 
 
 class _Progress:

@@ -6,6 +6,13 @@ import argparse
 import json
 
 
+#: design_buffer's parameters and the flags that give them.
+FLAGS = {"pH": "--pH", "concentration": "--conc", "temperature_C": "--temperature",
+         "bench_temperature_C": "--bench-temperature", "with_": "--with", "volume": "--volume",
+         "titrant": "--titrant", "pair": "--pair", "form": "--form",
+         "activity_model": "--model"}
+
+
 def register(subparsers) -> None:
     parser = subparsers.add_parser(
         "buffer", help="design a buffer: what to weigh, how much titrant, the bench pH",
@@ -37,11 +44,13 @@ def register(subparsers) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from ...design._buffer import design_buffer
+    from .._flags import as_flags
 
-    card = design_buffer(args.buffer, args.pH, args.conc, temperature_C=args.temperature,
-                         with_=args.with_, volume=args.volume, titrant=args.titrant,
-                         bench_temperature_C=args.bench_temperature, pair=args.pair,
-                         form=args.form, activity_model=args.model, tables=args.tables)
+    with as_flags(FLAGS):
+        card = design_buffer(args.buffer, args.pH, args.conc, temperature_C=args.temperature,
+                             with_=args.with_, volume=args.volume, titrant=args.titrant,
+                             bench_temperature_C=args.bench_temperature, pair=args.pair,
+                             form=args.form, activity_model=args.model, tables=args.tables)
     print(json.dumps(card.to_dict(), indent=2, ensure_ascii=False) if args.json
           else card.report())
     return 0

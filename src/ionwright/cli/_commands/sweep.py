@@ -39,20 +39,29 @@ def register(subparsers) -> None:
 def run(args: argparse.Namespace) -> int:
     from ...design import _sweep as sweeps
     from ...errors import RecipeError
+    from .._flags import as_flags
+    from .._paths import check_plot_path
 
     common = {"points": args.points, "beyond_range": args.beyond_range,
               "species": tuple(s.strip() for s in args.species.split(","))
               if args.species else ()}
-    if args.add:
-        if not args.to:
-            raise RecipeError("--add", "a titration needs --to", 'e.g. --to "50 mL"')
-        result = sweeps.titration(args.recipe, args.add, args.to, sample=args.sample, **common)
-    elif args.dilute:
-        result = sweeps.dilution(args.recipe, args.dilute, **common)
-    elif args.temperature:
-        result = sweeps.temperature_series(args.recipe, args.temperature, **common)
-    else:
-        result = sweeps.pH_series(args.recipe, args.pH, **common)
+    if args.add and not args.to:
+        raise RecipeError("--to", "a titration needs --to", 'e.g. --to "50 mL"')
+    if args.plot:
+        check_plot_path(args.plot)
+    flags = {"titrant": "--add", "to": "--to", "sample": "--sample", "ratio": "--dilute",
+             "points": "--points", "species": "--species",
+             "span": "--temperature" if args.temperature else "--pH"}
+    with as_flags(flags):
+        if args.add:
+            result = sweeps.titration(args.recipe, args.add, args.to, sample=args.sample,
+                                      **common)
+        elif args.dilute:
+            result = sweeps.dilution(args.recipe, args.dilute, **common)
+        elif args.temperature:
+            result = sweeps.temperature_series(args.recipe, args.temperature, **common)
+        else:
+            result = sweeps.pH_series(args.recipe, args.pH, **common)
     print(json.dumps(result.to_dict(), indent=2, ensure_ascii=False) if args.json
           else result.to_csv(), end="" if not args.json else "\n")
     if not args.json:

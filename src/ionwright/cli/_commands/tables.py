@@ -308,6 +308,9 @@ def run_check(args: argparse.Namespace) -> int:
             print(f"{file}: ok; {info[0]}")
             for line in info[1:]:
                 print(f"  {line}")
+    if not clean:
+        print("hint: fix the problems listed, then run `ionwright tables check` on the file "
+              "again", file=sys.stderr)
     return 0 if clean else 1
 
 
@@ -322,10 +325,12 @@ def check_file(path: Path, context: Sequence) -> tuple[list[str], list[str]]:
     from ...data._loader import parse_table
     from ...chemistry._tableset import TableSet
 
+    from ...data._text import read_utf8
+
     try:
-        text = path.read_text(encoding="utf-8")
-    except OSError as exc:
-        return [f"cannot read the file: {exc.strerror}"], []
+        text = read_utf8(path, lambda problem, hint: TableError(str(path), [f"{problem}; {hint}"]))
+    except TableError as exc:
+        return exc.problems, []
     problems: list[str] = []
     try:
         table = parse_table(text, origin=str(path))

@@ -22,8 +22,10 @@ def register(subparsers) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from ...design._target import target
+    from .._flags import as_flags
 
-    found = target(args.recipe, args.pH, args.adjust, stock=args.stock)
+    with as_flags({"pH": "--pH", "adjust": "--adjust", "stock": "--stock"}):
+        found = target(args.recipe, args.pH, args.adjust, stock=args.stock)
     print(json.dumps(found.to_dict(), indent=2, ensure_ascii=False) if args.json
           else found.report())
     return 0

@@ -4,8 +4,10 @@ from __future__ import annotations
 
 import numpy as np
 
+from ...errors import RESIDUAL_TOLERANCE  # noqa: F401 (relative mass-balance residual
+#                                          that counts as converged; errors quote it)
+
 LN10 = np.log(10.0)
-RESIDUAL_TOLERANCE = 1e-10     # relative mass-balance residual that counts as converged
 STEP_TOLERANCE = 1e-8          # largest Newton step (ln units) a converged sample may need
 STEP_CAP = 4.0                 # largest change of any ln a in one Newton step
 LN_C_CEILING = 300.0           # keeps exp() finite on wild iterates
