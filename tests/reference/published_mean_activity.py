@@ -93,6 +93,38 @@ SALTS = (
 )
 """Every salt of issue 12 with its published γ± at 25 °C."""
 
+CRC_CALCIUM_BROMIDE = "CRC Handbook (92nd ed.) p. 5-106, CaBr2 column (Goldberg & Nuttall 1978)"
+
+MORE_SALTS = (
+    # Robinson & Stokes (1959) App. 8.10, 25 °C   # from memory (brines, issue 13)
+    SaltData("HBr", "H+", 1, "Br-", 1,
+             {0.1: 0.805, 0.5: 0.789, 1.0: 0.871, 2.0: 1.167, 3.0: 1.674}, ROBINSON_STOKES),
+    SaltData("HNO3", "H+", 1, "NO3-", 1,
+             {0.1: 0.791, 0.5: 0.720, 1.0: 0.724, 2.0: 0.793, 3.0: 0.909}, ROBINSON_STOKES),
+    SaltData("NaBr", "Na+", 1, "Br-", 1,
+             {0.1: 0.782, 0.5: 0.697, 1.0: 0.687, 2.0: 0.731, 3.0: 0.812}, ROBINSON_STOKES),
+    SaltData("KBr", "K+", 1, "Br-", 1,
+             {0.1: 0.772, 0.5: 0.657, 1.0: 0.617, 2.0: 0.593, 3.0: 0.595}, ROBINSON_STOKES),
+    SaltData("NaF", "Na+", 1, "F-", 1, {0.1: 0.765, 0.5: 0.632, 1.0: 0.573}, ROBINSON_STOKES),
+    SaltData("KF", "K+", 1, "F-", 1,
+             {0.1: 0.775, 0.5: 0.670, 1.0: 0.645, 2.0: 0.658}, ROBINSON_STOKES),
+    SaltData("NaNO3", "Na+", 1, "NO3-", 1,
+             {0.1: 0.762, 0.5: 0.617, 1.0: 0.548, 2.0: 0.480, 3.0: 0.437}, ROBINSON_STOKES),
+    SaltData("NaH2PO4", "Na+", 1, "H2PO4-", 1,
+             {0.1: 0.744, 0.5: 0.563, 1.0: 0.468, 2.0: 0.379, 3.0: 0.320}, ROBINSON_STOKES),
+    SaltData("KH2PO4", "K+", 1, "H2PO4-", 1, {0.1: 0.731, 0.5: 0.529, 1.0: 0.421},
+             ROBINSON_STOKES),
+    SaltData("sodium acetate", "Na+", 1, "CH3COO-", 1,
+             {0.1: 0.791, 0.5: 0.735, 1.0: 0.757, 2.0: 0.846, 3.0: 0.965}, ROBINSON_STOKES),
+    SaltData("potassium acetate", "K+", 1, "CH3COO-", 1,
+             {0.1: 0.796, 0.5: 0.746, 1.0: 0.783, 2.0: 0.901, 3.0: 1.044}, ROBINSON_STOKES),
+    # CRC Handbook, 25 °C (re-read: the table's first page, like CaCl2 above)
+    SaltData("CaBr2", "Ca2+", 1, "Br-", 2,
+             {0.1: 0.540, 0.2: 0.502, 0.5: 0.500, 1.0: 0.604, 2.0: 1.125},
+             CRC_CALCIUM_BROMIDE, re_read=True),
+)
+"""Further salts whose Pitzer parameters issue 13 added (tests/reference/test_pitzer_binaries.py)."""
+
 
 def stoichiometric_mean_activity(result, salt: SaltData, m: float) -> float:
     """γ± of *salt* at molality *m* from a solved *result*: the free ions' activities over
