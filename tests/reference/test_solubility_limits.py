@@ -32,6 +32,10 @@ def pitzer_si(dissolve, solid, t=25.0):
     ("NaCl", 6.144, "halite"),     # Robinson & Stokes 1959   # from memory
     ("KCl", 4.803, "sylvite"),     # Robinson & Stokes 1959   # from memory
     ("KH2PO4", 1.83, "potassium dihydrogen phosphate"),   # Partanen et al. 2003 (re-read)
+    # CRC Handbook "Aqueous solubility of inorganic compounds": Na2HPO4 10.6 % w/w at
+    # 25 °C, i.e. 0.835 mol/kg   # from memory; the table's log K was derived from 0.83
+    # mol/kg (J. Solution Chem. 51 (2022) 802, abstract, re-read)
+    ("Na2HPO4", 0.835, "disodium hydrogen phosphate dodecahydrate"),
 ])
 def test_the_solid_is_just_saturated_at_its_published_solubility(salt, saturated, solid):
     assert pitzer_si({salt: saturated}, solid) == pytest.approx(0.0, abs=SI_TOLERANCE)
