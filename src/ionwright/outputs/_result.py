@@ -9,8 +9,11 @@ from typing import Any
 import numpy as np
 
 from ._cautions import cautions
+from ._buffer_quantities import buffer_quantities, recipe_in_grams
+from ._conductivity import METHOD as CONDUCTIVITY_METHOD, result_conductivity
 from ._derived import derived_quantities, solution_summary
-from ..design._compare import model_validity_notes, osmotic_coefficient, water_activity
+from ._osmolality import Osmotic, osmotic
+from ..design._compare import model_validity_notes
 from ..chemistry._ingredients import Makeup
 from ..core._phases import phase_summary
 from ._supersaturation import supersaturation_warnings
@@ -106,6 +109,40 @@ class Result:
             out[name] = float(log_iap - log10_k)
         return out
 
+    @cached_property
+    def osmotic(self) -> Osmotic:
+        """Osmotic coefficient, osmolality and water activity (outputs/_osmolality.py)."""
+        return osmotic(self)
+
+    @property
+    def osmolality_mOsm_per_kg(self) -> float:
+        return self.osmotic.osmolality_mOsm_per_kg
+
+    @cached_property
+    def conductivity_mS_per_cm(self) -> float:
+        """Electrical conductivity at the solution temperature (outputs/_conductivity.py)."""
+        return float(self._conductivity.mS_per_cm[0])
+
+    @cached_property
+    def _conductivity(self):
+        return result_conductivity(self)
+
+    @cached_property
+    def solution(self):
+        """Water, volume and density of the recipe's solution (given or estimated)."""
+        from ..inputs._recipe import solution_of
+
+        return solution_of(self.recipe, self.tables)
+
+    @cached_property
+    def buffer(self) -> dict[str, float | None]:
+        """Buffer capacity and ionic strength per kg of water and per litre."""
+        return buffer_quantities(self, self.solution.water_kg_per_L)
+
+    def recipe_grams(self) -> list[dict[str, Any]]:
+        """Each ingredient in g/kg water, g/L and grams for the recipe's batch."""
+        return recipe_in_grams(self, self.solution.water_kg, self.solution.volume_L)
+
     def distribution(self) -> dict[str, dict[str, float]]:
         """For each component but H+: fraction of its total in each species (≥ 1e-6)."""
         out = {}
@@ -132,6 +169,7 @@ class Result:
                        f"less certain; compare models or use one valid at this strength")
         out.extend(model_validity_notes(self))
         out.extend(supersaturation_warnings(self))
+        out.extend(self._conductivity.notes)
         if "pH" in self.recipe.fix:
             imbalance, scale = self.charge_balance
             if scale > 0 and abs(imbalance) / scale > IMBALANCE_WARNING:
@@ -159,8 +197,14 @@ class Result:
             "activity_model": self.model.name,
             "pH": self.pH,
             "ionic_strength": self.ionic_strength,
-            "osmotic_coefficient": osmotic_coefficient(self),
-            "water_activity": water_activity(self),
+            "osmotic_coefficient": self.osmotic.osmotic_coefficient,
+            "water_activity": self.osmotic.water_activity,
+            "osmolality_mOsm_per_kg": self.osmolality_mOsm_per_kg,
+            "osmotic_method": self.osmotic.method,
+            "conductivity_mS_per_cm": self.conductivity_mS_per_cm,
+            "conductivity_method": CONDUCTIVITY_METHOD,
+            "buffer": self.buffer,
+            "recipe_grams": self.recipe_grams(),
             "species": self.species_rows(),
             "totals": {c: float(self.totals.get(c, 0.0)) for c in self.system.components},
             "saturation_indices": self.saturation_indices,
@@ -176,10 +220,20 @@ class Result:
         }
 
     def to_frame(self):
-        """Species as a pandas DataFrame indexed by name (pandas imported only here)."""
+        """Species as a pandas DataFrame indexed by name (pandas imported only here).
+
+        The solution's own quantities (pH, ionic strength and buffer capacity per kg and
+        per litre, osmolality, water activity, conductivity) are in ``frame.attrs``.
+        """
         import pandas as pd
 
-        return pd.DataFrame(self.species_rows()).set_index("name")
+        frame = pd.DataFrame(self.species_rows()).set_index("name")
+        frame.attrs.update({"pH": self.pH, "temperature_C": self.temperature_C,
+                            **self.buffer,
+                            "osmolality_mOsm_per_kg": self.osmolality_mOsm_per_kg,
+                            "water_activity": self.osmotic.water_activity,
+                            "conductivity_mS_per_cm": self.conductivity_mS_per_cm})
+        return frame
 
     def report(self) -> str:
         from ._report import text_report

@@ -7,7 +7,7 @@ from importlib.resources import files
 from ..activity import BUILTIN_MODELS
 from .hookspecs import hookimpl
 
-BUNDLED_TABLES = ("core", "metals")
+BUNDLED_TABLES = ("core", "metals", "organics")
 
 
 @hookimpl
