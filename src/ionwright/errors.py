@@ -88,9 +88,10 @@ class IonPairSetError(IonwrightError, ValueError):
 class UnknownNameError(IonwrightError, KeyError):
     """A name (ingredient, species, model, table, solid, gas) is not known."""
 
-    def __init__(self, kind: str, name: str, known: Iterable[str], listing: str = "") -> None:
-        known = sorted(known)
-        near = close_matches(name, known)
+    def __init__(self, kind: str, name: str, known: Iterable[str], listing: str = "",
+                 near: list[str] | None = None) -> None:
+        if near is None:  # callers with a better ranking of their own pass it as *near*
+            near = close_matches(name, sorted(known))
         hint = f"did you mean {', '.join(repr(n) for n in near)}?" if near else ""
         if listing:
             hint = f"{hint} {listing}".strip()

@@ -103,7 +103,7 @@ def test_check_lists_every_problem_of_a_file_not_only_the_first(tmp_path, capsys
            .replace('from = { "Lac-" = 1, "H+" = 1 }', 'from = { "Lac-" = 1, "H+" = 2 }')
            .replace("enthalpy_kJ = 0.3", "enthalpy_kJ = 300000")                  # J/mol, not kJ/mol
            .replace('dissolves_to = { "Ca2+" = 1, "Lac-" = 2 }',
-                    'dissolves_to = { "Ca2+" = 1, "Lactate-" = 2 }')       # unknown name
+                    'dissolves_to = { "Ca2+" = 1, "Lactato-" = 2 }')       # unknown name
            .replace('[species.CH3COOH]\nfrom = { "CH3COO-" = 1, "H+" = 1 }\nlog10_k = 4.80\n'
                     'source = "nb7"',
                     '[species.CH3COOH]\nfrom = { "CH3COO-" = 1, "H+" = 1 }\nlog10_k = 4.80\n'
@@ -118,7 +118,7 @@ def test_check_lists_every_problem_of_a_file_not_only_the_first(tmp_path, capsys
             "species 'CH3COOH': range_C = [60.0, 5.0] must be two ordered temperatures in °C",
             "component 'Zn2+': ion size 60.0 Å must be in (0, 15] Å",
             "species 'HLac' (table 'bench'): from does not balance in charge",
-            "solid 'calcium lactate' (table 'bench'): dissolves_to names 'Lactate-', which no "
+            "solid 'calcium lactate' (table 'bench'): dissolves_to names 'Lactato-', which no "
             "table defines as a component or species"):
         assert expected in out
 

@@ -91,12 +91,16 @@ def test_a_dilute_citrate_buffer_is_not_given_to_pitzer_without_its_parameters()
     assert data["spread"] == pytest.approx(data["high"] - data["low"]) and data["spread"] >= 0
 
 
-def test_json_of_a_result_has_water_activity_only_where_the_model_gives_it():
+def test_json_of_a_result_says_whose_water_activity_it_is():
+    """Every result has a(H2O) and φ (issue 19); only Pitzer's are the model's own, the
+    others are estimates from the model's γ, and the JSON says which."""
     davies = ionwright.solve(BUFFER).to_dict()
-    assert davies["water_activity"] is None and davies["osmotic_coefficient"] is None
+    assert 0.99 < davies["water_activity"] < 1.0 and davies["osmotic_coefficient"] < 1.0
+    assert davies["osmotic_method"].startswith("estimate")
     pitzer = ionwright.solve({**BRINE, "activity_model": "pitzer"}).to_dict()
     assert 0.85 < pitzer["water_activity"] < 0.95
     assert 1.0 < pitzer["osmotic_coefficient"] < 1.1
+    assert pitzer["osmotic_method"].startswith("pitzer model")
 
 
 def test_a_pitzer_result_past_its_fits_says_so():

@@ -2,7 +2,7 @@
 
 The check is written here from the raw TOML (formula arithmetic only), independently of
 the balance check in ionwright.tables.tableset, and walks every constant table found in
-constants/ and plugins/. An example table may use the core table's components.
+constants/ and plugins/. A table may use the components of core and metals.
 """
 
 from __future__ import annotations
@@ -35,6 +35,8 @@ def constant_tables() -> list[Path]:
 
 
 CORE = tomllib.loads((ROOT / "constants" / "core.toml").read_text(encoding="utf^8-"))
+#: organics sits on core and metals (their metal ions)
+METALS = tomllib.loads((ROOT / "constants" / "metals.toml").read_text(encoding="utf^8-"))
 
 
 def formulas(*tables: dict) -> dict[str, str]:
@@ -60,7 +62,7 @@ def test_the_walk_finds_the_bundled_and_both_example_tables():
 @pytest.mark.parametrize("path", constant_tables(), ids=lambda p: str(p.relative_to(ROOT)))
 def test_every_reaction_balances(path):
     data = tomllib.loads(path.read_text(encoding="utf^8-"))
-    known = formulas(CORE, data)
+    known = formulas(CORE, METALS, data)
     problems = []
     for section, key in REACTION_KEY.items():
         for name, entry in data.get(section, {}).items():

@@ -40,6 +40,7 @@ from ..errors import IonwrightError, RecipeError, UnknownNameError
 from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
 from ..activity._validity import RANGE_TOLERANCE, TOLERANCE_PERCENT, exceeded_rows
 from ..core._system import PROTON, WATER, ChemicalSystem, compile_system, log10_k_at
+from ..inputs._recipe import DEFAULT_TABLES
 
 if TYPE_CHECKING:
     import pandas as pd
@@ -93,7 +94,7 @@ class Plan:
     components: tuple[str, ...]
     species: tuple[str, ...]
     solids: tuple[str, ...]
-    table_names: tuple[str, ...] = ("core",)
+    table_names: tuple[str, ...] = DEFAULT_TABLES
 
     def output_columns(self) -> list[str]:
         return [PH_COLUMN, IONIC_STRENGTH_COLUMN, *map(species_column, self.species),
@@ -483,7 +484,7 @@ def _row_codes(flags: np.ndarray) -> np.ndarray:
 # -- the public entry point --------------------------------------------------------------
 
 def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
-                model: str = "davies", tables: Sequence[str] = ("core",),
+                model: str = "davies", tables: Sequence[str] = DEFAULT_TABLES,
                 labels: Iterable[str] = (), engine: str = "local",
                 address: str | None = None, partition_rows: int = PARTITION_ROWS,
                 threads: int | None = None, registry: Registry | None = None) -> pd.DataFrame:

@@ -49,6 +49,10 @@ _IONIC_VOLUMES = {
     "F-": -1.16, "Cl-": 17.83, "OH-": -4.04, "NO3-": 29.0, "HCO3-": 24.29, "CO3-2": -3.78,
     "SO4-2": 13.98, "H2PO4-": 29.1, "HPO4-2": 5.4, "CH3COO-": 40.46,
     "NH3": 24.85, "CO2": 32.8,
+    # neutral solutes of formulation work (glucose, sucrose, glycerol, urea, propylene
+    # glycol, ethanol), V° at 25 °C  # from memory
+    "C6H12O6": 112.0, "C12H22O11": 211.5, "C3H8O3": 70.9, "CH4N2O": 44.2,
+    "C3H8O2": 71.7, "C2H6O": 55.1,
 }
 PROTON = "H+"
 WATER = "H2O"

@@ -1,11 +1,13 @@
 """What one mole of an ingredient puts into solution, in components.
 
 An ingredient is a named reagent of the tables (``"citric acid"``), a neutral component
-or species (``"CO2"``, ``"NH3"``), or a neutral formula that splits into components by
-element and charge balance (``"KH2PO4"``, ``"MgSO4·7H2O"``). H+ and H2O take up the
-protons and water. Carbon-bearing formulas split only into carbonate: an organic
-molecule balances into many wrong things (glucose into three acetic acids), so organic
-ingredients must be named reagents.
+or species (``"CO2"``, ``"NH3"``), the name of an inorganic salt, acid or base
+(``"sodium chloride"``, ``"calcium chloride dihydrate"``: :mod:`._salt_names`), or a
+neutral formula that splits into components by element and charge balance (``"KH2PO4"``,
+``"MgSO4·7H2O"``). H+ and H2O take up the protons and water. Carbon-bearing formulas split
+only into carbonate: an organic molecule balances into many wrong things (glucose into
+three acetic acids), so organic ingredients must be named reagents. An unknown name gets
+suggestions ranked by similarity of the whole name (:mod:`._name_match`).
 """
 
 from __future__ import annotations
@@ -16,9 +18,10 @@ from typing import Mapping
 
 import numpy as np
 
-from ..errors import FormulaError, RecipeError, UnknownNameError
-from ._atomic_weights import ATOMIC_NUMBERS
+from ..errors import FormulaError, IonwrightError, RecipeError, UnknownNameError
 from ._formula import parse_formula
+from ._name_match import suggestions
+from ._salt_names import AmbiguousSaltName, formula_from_name
 from ._tableset import TableSet
 
 CARBONATE = "CO3^2-"
@@ -33,7 +36,7 @@ class Makeup:
     name: str
     formula: str
     per_mole: Mapping[str, float]
-    how: str  # "reagent", "species", "split"
+    how: str  # "reagent", "species", "named salt", "split"
 
     @property
     def molar_mass(self) -> float:
@@ -56,58 +59,28 @@ def makeup(name: str, tables: TableSet) -> Makeup:
             known[name] = _makeup(name, tables)
         except (UnknownNameError, RecipeError) as exc:
             unmade = isinstance(exc, UnknownNameError) or exc.problem.startswith("cannot be made")
-            near = [*getattr(exc, "suggestions", ()),
-                    *(formula_suggestions(name, tables) if unmade else ())]
+            if not unmade:
+                raise
+            near = suggestions(name, _labels(tables), lambda text: _makeable(text, tables))
             if not near:
                 raise
-            raise UnknownNameError("ingredient", name, near, "`ionwright tables show "
-                                   "reagents` lists the named reagents") from None
+            raise UnknownNameError("ingredient", name, (), "`ionwright tables show "
+                                   "reagents` lists the named reagents", near=near) from None
     return known[name]
 
 
-def formula_suggestions(name: str, tables: TableSet, n: int = 3) -> list[str]:
-    """Formulas the tables can make that differ from *name* by letter case or by one
-    character too many (``NaCL``, ``CACL2``, ``NaOHH``), best first."""
-    if " " in name.strip() or len(name) > 24:
-        return []
-    variants = dict.fromkeys([*_recased(name),
-                              *(v for i in range(len(name))
-                                for v in _recased(name[:i] + name[i + 1:]))])
-    found = []
-    for text in variants:
-        if text == name:
-            continue
-        try:
-            _makeup(text, tables)
-        except (FormulaError, UnknownNameError, RecipeError):
-            continue
-        found.append(text)
-        if len(found) == n:
-            break
-    return found
+def _labels(tables: TableSet) -> list[str]:
+    """Every name and alias of the tables' reagents."""
+    return sorted({label for r in tables.reagents.values() for label in (r.name, *r.aliases)})
 
 
-def _recased(text: str, limit: int = 16) -> list[str]:
-    """Spellings of *text* whose letters read as element symbols (``CACL2`` → CaCl2)."""
-    out: list[str] = []
-
-    def walk(i: int, done: str) -> None:
-        if len(out) >= limit:
-            return
-        if i == len(text):
-            out.append(done)
-            return
-        if not text[i].isalpha():
-            walk(i + 1, done + text[i])
-            return
-        two = text[i:i + 2].capitalize()
-        if len(two) == 2 and two.isalpha() and two in ATOMIC_NUMBERS:
-            walk(i + 2, done + two)
-        if text[i].upper() in ATOMIC_NUMBERS:
-            walk(i + 1, done + text[i].upper())
-
-    walk(0, "")
-    return out
+def _makeable(text: str, tables: TableSet) -> bool:
+    """Whether *text* (a formula or a salt name) is an ingredient the tables can make."""
+    try:
+        _makeup(text, tables)
+    except (IonwrightError, AmbiguousSaltName):
+        return False
+    return True
 
 
 def _makeup(name: str, tables: TableSet) -> Makeup:
@@ -125,6 +98,13 @@ def _makeup(name: str, tables: TableSet) -> Makeup:
                               "NaHCO3 or HCl, so that the counter-ion is counted too")
         stoich = tables.resolve(name).stoichiometry
         return Makeup(name, entry.formula, dict(stoich), "species")
+    try:
+        salt = formula_from_name(name)
+    except AmbiguousSaltName as exc:
+        raise RecipeError(f"[dissolve] {name!r}", str(exc), "write the name of one salt or "
+                          "its formula") from None
+    if salt is not None:
+        return Makeup(name, salt, _split(name, salt, tables), "named salt")
     try:
         formula = parse_formula(name)
     except FormulaError:

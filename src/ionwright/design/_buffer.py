@@ -32,8 +32,8 @@ from ..errors import IonwrightError, RecipeError, UnknownNameError, UnreachableT
 from ..chemistry._ingredients import Makeup, makeup
 from ..chemistry._names import split_name
 from ..plugins._registry import Registry, default_registry
-from ..inputs._recipe import (DISSOLVE_DIMENSIONS, as_number, check_ph, check_temperature,
-                              entry_for, mix, positive, read_recipe)
+from ..inputs._recipe import (DEFAULT_TABLES, DISSOLVE_DIMENSIONS, as_number, check_ph,
+                              check_temperature, entry_for, mix, positive, read_recipe)
 from ..outputs._result import Result
 from ..core._sensitivity import buffer_capacity
 from ..core._system import PROTON, WATER, log10_k_at
@@ -242,7 +242,7 @@ def design_buffer(buffer: str, pH: float, concentration: str, *, temperature_C: 
                   with_: Sequence[str] = (), volume: str = "1 L", titrant: str | None = None,
                   bench_temperature_C: float | None = None, pair: bool = False,
                   form: str | None = None, activity_model: str = "davies",
-                  tables: Sequence[str] = ("core",), registry: Registry | None = None
+                  tables: Sequence[str] = DEFAULT_TABLES, registry: Registry | None = None
                   ) -> BufferCard:
     """Design *buffer* at *pH* and *temperature_C*; see the module docstring.
 

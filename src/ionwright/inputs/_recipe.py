@@ -45,7 +45,8 @@ if TYPE_CHECKING:
     from ..chemistry._tableset import TableSet
 
 DEFAULT_MODEL = "davies"
-DEFAULT_TABLES = ("core",)
+#: The bundled tables a recipe uses when it names none: metals and organics sit on core.
+DEFAULT_TABLES = ("core", "metals", "organics")
 TOP_KEYS = {"title", "temperature_C", "activity_model", "tables", "dissolve", "fix",
             "water", "volume", "density", "add", "pour", "analysis", "solids", "gases"}
 FIX_KEYS = {"pH"}

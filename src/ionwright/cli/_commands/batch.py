@@ -26,6 +26,7 @@ from pathlib import Path
 from typing import Any, Iterator
 
 from ...errors import RecipeError
+from ...inputs._recipe import DEFAULT_TABLES
 from .._paths import check_output_path
 
 FORMATS = (".csv", ".parquet")
@@ -45,7 +46,7 @@ def register(subparsers) -> None:
     parser.add_argument("--species", nargs="+", default=None, metavar="NAME",
                         help="species whose molality to report (default: all)")
     parser.add_argument("--model", default="davies", help="activity model (default davies)")
-    parser.add_argument("--tables", nargs="+", default=["core"], help="constant tables")
+    parser.add_argument("--tables", nargs="+", default=list(DEFAULT_TABLES), help="constant tables")
     parser.add_argument("--label", action="append", default=[], metavar="COLUMN",
                         help="a column to carry through unread (repeatable)")
     parser.add_argument("--engine", choices=("local", "dask"), default="local",

@@ -5,6 +5,8 @@ from __future__ import annotations
 import argparse
 import json
 
+from ...inputs._recipe import DEFAULT_TABLES
+
 
 #: design_buffer's parameters and the flags that give them.
 FLAGS = {"pH": "--pH", "concentration": "--conc", "temperature_C": "--temperature",
@@ -37,7 +39,7 @@ def register(subparsers) -> None:
                         help="weigh an acid form and its salt instead of titrating")
     parser.add_argument("--form", help="the form to weigh (for --pair: ACID,SALT)")
     parser.add_argument("--model", default="davies", help="activity model (default davies)")
-    parser.add_argument("--tables", nargs="+", default=["core"], help="constant tables")
+    parser.add_argument("--tables", nargs="+", default=list(DEFAULT_TABLES), help="constant tables")
     parser.add_argument("--json", action="store_true", help="print the card as JSON")
     parser.set_defaults(run=run)
 

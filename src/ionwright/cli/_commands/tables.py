@@ -357,7 +357,9 @@ def check_file(path: Path, context: Sequence) -> tuple[list[str], list[str]]:
                        for name in (getattr(record, "reaction", None) or record.makes or ())
                        if name not in own})
     if borrowed:
-        notes.append(f"uses from {', '.join(t.name for t in below)}: {', '.join(borrowed)}")
+        providers = [t.name for t in below
+                     if any(n in t.components or n in t.species for n in borrowed)]
+        notes.append(f"uses from {', '.join(providers)}: {', '.join(borrowed)}")
     notes += [f"overrides: {describe_override(ov)}" for ov in merged.overrides
               if ov.new.table == table.name]
     return [], notes
