@@ -60,3 +60,27 @@ def recipe_in_grams(result, water_kg: float, volume_L: float) -> list[dict[str, 
                      "g_per_L": grams_per_kg * water_kg / volume_L,
                      "g_per_batch": grams_per_kg * water_kg})
     return rows
+
+
+def report_lines(result) -> list[str]:
+    """The formulation section of the text report: per-litre buffer numbers, osmolality,
+    water activity, conductivity and the recipe in grams."""
+    b, osm = result.buffer, result.osmotic
+    lines = ["", "formulation",
+             f"  ionic strength             {b['ionic_strength_mol_per_L']:8.4g} mol/L"]
+    if b["buffer_capacity_mol_per_L_per_pH"] is not None:
+        lines.append(f"  buffer capacity            "
+                     f"{1000 * b['buffer_capacity_mol_per_L_per_pH']:8.4g} mmol/(L·pH)")
+    lines += [f"  osmolality                 {osm.osmolality_mOsm_per_kg:8.4g} mOsm/kg  "
+              f"({osm.method})",
+              f"  water activity             {osm.water_activity:8.5f}",
+              f"  conductivity               {result.conductivity_mS_per_cm:8.4g} mS/cm at "
+              f"{result.temperature_C:g} °C"]
+    grams = result.recipe_grams()
+    if grams:
+        volume = result.solution.volume_L
+        lines += ["", f"recipe in grams (batch: {volume:.4g} L)",
+                  f"  {'ingredient':<34}{'g/L':>10}{'g per batch':>14}"]
+        lines += [f"  {row['ingredient'][:33]:<34}{row['g_per_L']:10.4g}"
+                  f"{row['g_per_batch']:14.4g}" for row in grams]
+    return lines

@@ -7,6 +7,7 @@ Species are shown in their pretty form (``CO₃²⁻``); JSON and tables keep th
 from __future__ import annotations
 
 from ..chemistry._names import pretty_name
+from ._buffer_quantities import report_lines as formulation_lines
 from ._derived import report_lines as derived_lines
 from ..core._phases import phase_lines
 from ._provenance import constants_section
@@ -52,6 +53,7 @@ def text_report(result) -> str:
             lines.append(f"  {name:<20}{si:8.2f}")
     lines += phase_lines(r)
     lines += derived_lines(r)
+    lines += formulation_lines(r)
     lines += constants_section(r)
     if r.warnings:
         lines += ["", "warnings"]
