@@ -41,7 +41,7 @@ PKA = [
     ("ascorbic acid", "HAscorbate-", "Ascorbate^2-", 11.6, "CRC"),                  # from memory
     ("monoethanolamine", "MEAH+", "MEA", 9.498, "Bates & Pinching 1951"),           # from memory
     ("diethanolamine", "DEAH+", "DEA", 8.883, "GKL2002"),                           # from memory
-    ("triethanolamine", "TEAH+", "TEA", 7.762, "GKL2002"),                          # from memory
+    ("triethanolamine", "TEAH+", "TEA", 7.762, "Bates & Allen 1960 (ΔH°, ΔS° re-read)"),
     ("ethylenediamine", "EnH+", "En", 9.928, "Everett & Pinsent 1952"),             # from memory
     ("bis-tris", "BisTrisH+", "BisTris", 6.484, "GKL2002"),                         # from memory
     ("bis-tris propane", "BTPH+", "BTP", 9.10, "GKL2002"),                          # from memory
@@ -91,6 +91,14 @@ def test_ada_temperature_function_against_the_measured_pk(t_K, pk):
     ΔrH° and ΔrCp° at 25 °C reproduce them within 0.01 (the sign of ΔrCp°, lost in the
     copy read, is the one these values need)."""
     assert _pk_at("HADA-", t_K - 273.15) == pytest.approx(pk, abs=0.01)
+
+
+def test_triethanolamine_from_bates_and_allen():
+    """Bates & Allen (1960) abstract (re-read): dissociation ΔH° 33450 J/mol and ΔS°
+    −36.4 J/(K mol) give pK = ΔG°/(RT ln 10) at 25 °C; the table's ΔH° is theirs."""
+    pk = (33450 + 298.15 * 36.4) / (8.314462618 * 298.15 * np.log(10))
+    assert _pk_at("TEAH+", 25.0) == pytest.approx(pk, abs=0.001)
+    assert organics().species["TEAH+"].logk.enthalpy_kJ == pytest.approx(-33.45)
 
 
 # -- chelators: Smith & Martell at I = 0.1, converted with Davies -----------------------
