@@ -49,41 +49,54 @@ class Osmotic:
 
 def osmotic(result) -> Osmotic:
     """The :class:`Osmotic` quantities of one speciated *result*."""
-    molality = np.asarray(result.molality, dtype=float)
+    molality = np.asarray(result.molality, dtype=float)[None, :]
     total = float(molality.sum())
-    phi = _phi(result, molality, total)
+    phi = float(osmotic_coefficients(result.model, result.system.properties, molality,
+                                     np.array([result.temperature_C]),
+                                     result.equilibrium.ln_water_activity)[0])
     return Osmotic(phi, 1000.0 * phi * total, float(np.exp(-WATER_KG_PER_MOL * phi * total)),
-                   _method(result))
+                   method(result.model))
 
 
-def _phi(result, molality: np.ndarray, total: float) -> float:
-    if total <= 0:
-        return 1.0
-    if getattr(result.model, "provides_water_activity", False):
-        return float(-result.equilibrium.ln_water_activity[0] / (WATER_KG_PER_MOL * total))
-    if result.model.name == "ideal":
-        return 1.0
-    excess = dilution_path_excess(result.model, result.system.properties, molality,
-                                  result.temperature_C)
-    return 1.0 + excess / total
+def osmotic_coefficients(model, properties, molality: np.ndarray, t_C: np.ndarray,
+                         ln_water_activity: np.ndarray | None = None) -> np.ndarray:
+    """φ of *n* samples (n,): *molality* (n, s) of the species of *properties* at *t_C*.
 
-
-def dilution_path_excess(model, properties, molality: np.ndarray, t_C: float) -> float:
-    """Σm·(φ − 1) of one sample by Gibbs–Duhem along the dilution path (see the module).
-
-    The model is bound once for the quadrature nodes and the end point together: row k
-    holds the molalities scaled by λ_k, the last row the solution itself.
+    *ln_water_activity* (n,) is the solver's own, used when the model provides one.
     """
+    m = np.atleast_2d(np.asarray(molality, dtype=float))
+    total = m.sum(axis=1)
+    safe = np.where(total > 0, total, 1.0)
+    if getattr(model, "provides_water_activity", False):
+        ln_aw = (np.asarray(ln_water_activity, dtype=float) if ln_water_activity is not None
+                 else model.bind(properties, np.asarray(t_C, dtype=float)).ln_water_activity(m))
+        return np.where(total > 0, -ln_aw / (WATER_KG_PER_MOL * safe), 1.0)
+    if model.name == "ideal":
+        return np.ones(m.shape[0])
+    excess = dilution_path_excess(model, properties, m, np.asarray(t_C, dtype=float))
+    return np.where(total > 0, 1.0 + excess / safe, 1.0)
+
+
+def dilution_path_excess(model, properties, molality: np.ndarray, t_C: np.ndarray
+                         ) -> np.ndarray:
+    """Σm·(φ − 1) per sample (n,) by Gibbs–Duhem along the dilution path (see the module).
+
+    The model is bound once for every sample at every quadrature node and at the end
+    point: row (i, k) holds sample i's molalities scaled by λ_k, the last node λ = 1.
+    """
+    n, s = molality.shape
     charge = np.asarray(properties.charge, dtype=float)
-    strength = 0.5 * float(molality @ charge ** 2)
+    strength = 0.5 * (molality @ charge ** 2)                     # (n,)
     x, w = _gauss_legendre()
-    scale = np.append(x ** 2, 1.0)                           # λ = x², dλ = 2x dx
-    bound = model.bind(properties, np.full(scale.size, float(t_C)))
-    ln_g = np.asarray(bound.ln_gamma(np.sqrt(scale * strength), scale[:, None] * molality),
-                      dtype=float)
-    along = ln_g @ molality                                  # Σ m_i ln γ_i(λm), per λ
-    integral = float(np.sum(w * along[:-1] * 2.0 * x))
-    return float(along[-1]) - integral
+    scale = np.append(x ** 2, 1.0)                                # λ = x², dλ = 2x dx
+    k = scale.size
+    rows = (molality[:, None, :] * scale[None, :, None]).reshape(n * k, s)
+    u = np.sqrt(np.outer(strength, scale)).reshape(n * k)
+    bound = model.bind(properties, np.repeat(t_C, k))
+    ln_g = np.asarray(bound.ln_gamma(u, rows), dtype=float)
+    along = np.einsum("rs,rs->r", ln_g, np.repeat(molality, k, axis=0)).reshape(n, k)
+    integral = along[:, :-1] @ (w * 2.0 * x)                      # ∫₀¹ Σ m ln γ(λm) dλ
+    return along[:, -1] - integral
 
 
 @lru_cache(maxsize=1)
@@ -93,9 +106,10 @@ def _gauss_legendre() -> tuple[np.ndarray, np.ndarray]:
     return 0.5 * (nodes + 1.0), 0.5 * weights
 
 
-def _method(result) -> str:
-    name = result.model.name
-    if getattr(result.model, "provides_water_activity", False):
+def method(model) -> str:
+    """How φ is found for *model*, in words for the result."""
+    name = model.name
+    if getattr(model, "provides_water_activity", False):
         return f"{name} model (its osmotic coefficient)"
     if name == "ideal":
         return "ideal solution (φ = 1)"
