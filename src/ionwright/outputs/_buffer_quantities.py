@@ -76,6 +76,7 @@ def report_lines(result) -> list[str]:
               f"  water activity             {osm.water_activity:8.5f}",
               f"  conductivity               {result.conductivity_mS_per_cm:8.4g} mS/cm at "
               f"{result.temperature_C:g} °C"]
+    lines += [f"    ({note})" for note in result.conductivity_notes]
     grams = result.recipe_grams()
     if grams:
         volume = result.solution.volume_L

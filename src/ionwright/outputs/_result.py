@@ -123,8 +123,14 @@ class Result:
         """Electrical conductivity at the solution temperature (outputs/_conductivity.py)."""
         return float(self._conductivity.mS_per_cm[0])
 
+    @property
+    def conductivity_notes(self) -> list[str]:
+        """What to know about the conductivity value (rough λ°, past the method's range)."""
+        return list(self._conductivity.notes)
+
     @cached_property
     def _conductivity(self):
+        """κ with its notes (rough λ°, past the range), which go with the number itself."""
         return result_conductivity(self)
 
     @cached_property
@@ -169,7 +175,6 @@ class Result:
                        f"less certain; compare models or use one valid at this strength")
         out.extend(model_validity_notes(self))
         out.extend(supersaturation_warnings(self))
-        out.extend(self._conductivity.notes)
         if "pH" in self.recipe.fix:
             imbalance, scale = self.charge_balance
             if scale > 0 and abs(imbalance) / scale > IMBALANCE_WARNING:
@@ -203,6 +208,7 @@ class Result:
             "osmotic_method": self.osmotic.method,
             "conductivity_mS_per_cm": self.conductivity_mS_per_cm,
             "conductivity_method": CONDUCTIVITY_METHOD,
+            "conductivity_notes": self.conductivity_notes,
             "buffer": self.buffer,
             "recipe_grams": self.recipe_grams(),
             "species": self.species_rows(),
