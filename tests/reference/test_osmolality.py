@@ -3,8 +3,7 @@
 Physiological saline, 0.9 % w/v NaCl (9 g/L, 0.1547 mol/kg): 287 mOsm/kg is the clinical
 figure (# common practice); 286 mOsm/kg was measured by freezing-point depression by
 Williams, E.L. (1999) Anesth. Analg. 89(6), letter to the editor,
-doi:10.1213/00000539-199912000-00072 (
-re-read).
+doi:10.1213/00000539-199912000-00072 (re-read).
 Its molal osmotic coefficient follows from the NaCl table of Robinson & Stokes (1959),
 Appendix 8.10: φ = 0.9324 at 0.1 mol/kg and 0.9245 at 0.2 mol/kg  # from memory
 """
