@@ -46,7 +46,7 @@ PKA = [
     ("bis-tris", "BisTrisH+", "BisTris", 6.484, "GKL2002"),                         # from memory
     ("bis-tris propane", "BTPH+", "BTP", 9.10, "GKL2002"),                          # from memory
     ("TES", "HTES", "TES-", 7.550, "Vega & Bates 1976 (re-read)"),
-    ("CAPS", "HCAPS", "CAPS-", 10.499, "GKL2002"),                                  # from memory
+    ("CAPS", "HCAPS", "CAPS-", 10.4993, "Roy et al. 1997 equation at 25 °C (re-read)"),
     ("CHES", "HCHES", "CHES-", 9.3936, "Roy et al. 1997 equation at 25 °C (re-read)"),
     ("TAPS", "HTAPS", "TAPS-", 8.44, "GKL2002"),                                    # from memory
     ("ADA", "HADA-", "ADA^2-", 6.844, "GKL2002 p. 242 (re-read)"),
@@ -75,13 +75,16 @@ def _pk_at(species: str, t_C: float) -> float:
 
 
 @pytest.mark.parametrize("t_C", [5.0, 25.0, 37.0, 55.0])
-def test_aces_and_ches_follow_the_published_equations(t_C):
-    """Roy et al. (1997), J. Chem. Eng. Data 42, 41 (abstract re-read)."""
+def test_aces_ches_and_caps_follow_the_published_equations(t_C):
+    """Roy et al. (1997), J. Chem. Eng. Data 42, 41 and J. Chem. Thermodyn. 29, 749
+    (abstracts re-read)."""
     t = t_C + 273.15
     aces = 2548.60 / t - 20.03159 + 3.2172 * np.log(t)
     ches = 1917.66 / t + 5.7940 - 0.4971 * np.log(t)
+    caps = 1046.64 / t + 35.10191 - 4.9342 * np.log(t)   # J. Chem. Thermodyn. 29, 749
     assert _pk_at("HACES", t_C) == pytest.approx(aces, abs=1e-4)
     assert _pk_at("HCHES", t_C) == pytest.approx(ches, abs=1e-4)
+    assert _pk_at("HCAPS", t_C) == pytest.approx(caps, abs=1e-4)
 
 
 @pytest.mark.parametrize("t_K, pk", [(278.15, 7.011), (288.15, 6.924), (310.15, 6.763),
