@@ -24,7 +24,7 @@ import numpy as np
 
 from ionwright.core import _solver as solver
 from ionwright.activity import DaviesModel, PitzerModel
-from ionwright.engine._solve import load_tables
+from ionwright import load_tables
 from ionwright.core._system import compile_system
 
 RUNS = 3

@@ -7,9 +7,10 @@
 
 from .batch._run import solve_batch
 from .design._target import target
-from .engine._solve import load_tables, solve
+from .engine._solve import solve
 from .errors import (ConvergenceError, FormulaError, IonwrightError, PluginError,
                      RecipeError, TableError, UnknownNameError)
+from .plugins._table_sets import load_tables
 from .plugins.hookspecs import hookimpl
 from .inputs._recipe import Recipe, read_recipe
 from .outputs._result import Result

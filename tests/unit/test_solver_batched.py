@@ -12,7 +12,7 @@ from ionwright.core._newton import fast
 from ionwright.core._newton import numerics
 from ionwright.core._newton import structure as newton_structure
 from ionwright.activity import DaviesModel
-from ionwright.engine._solve import component_totals
+from ionwright.engine._totals import component_totals
 from ionwright.inputs._recipe import read_recipe
 from ionwright.core._system import compile_system
 

@@ -41,6 +41,7 @@ from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
 from ..activity._validity import RANGE_TOLERANCE, TOLERANCE_PERCENT, exceeded_rows
 from ..core._system import PROTON, WATER, ChemicalSystem, compile_system, log10_k_at
 from ..inputs._recipe import DEFAULT_TABLES
+from ..engine._totals import negative_totals
 
 if TYPE_CHECKING:
     import pandas as pd
@@ -252,7 +253,7 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         by_recipe |= np.nan_to_num(values[col.header]) > 0
     from ..chemistry._ingredients import makeup
 
-    for col in plain:  # the same additions, in the same order, as engine.component_totals
+    for col in plain:  # the same additions, in the same order, as component_totals
         amount = np.nan_to_num(values[col.header])
         for comp, nu in makeup(col.key, tables).per_mole.items():
             if comp in col_of:
@@ -268,8 +269,8 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         totals[r] = [row_totals.get(c, 0.0) for c in comps]
         temperature[r] = t
         fixed_ph[r] = ph
-    negative = np.any(np.delete(totals, col_of[PROTON], axis=1) < 0, axis=1)
-    _flag(problem, negative, lambda r: "the ingredients give a negative total of a component")
+    _flag(problem, negative_totals(comps, totals),
+          lambda r: "the ingredients give a negative total of a component")
     return Samples(totals, temperature, fixed_ph, problem)
 
 
@@ -283,7 +284,8 @@ def _flag(problem: list[str], mask: np.ndarray, message) -> None:
 def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: TableSet,
                 model: str, registry: Registry) -> tuple[dict[str, float], float, float]:
     """(totals, temperature, fixed pH or NaN) of row *r* read as a recipe or an analysis."""
-    from ..engine._solve import component_totals
+    from ..engine._resolve import resolve
+    from ..engine._totals import component_totals
     from ..inputs._recipe import read_recipe
 
     cells = {c.header: float(values[c.header][r]) for c in plan.columns if c.header in values}
@@ -309,7 +311,7 @@ def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: Ta
         data.update(temperature_C=t, dissolve=dissolve)
         if math.isfinite(ph):
             data["fix"] = {"pH": float(ph)}
-    recipe = read_recipe(data, registry)
+    recipe = resolve(read_recipe(data, registry), registry)
     totals, _ = component_totals(recipe, tables)
     return totals, recipe.temperature_C, recipe.fix.get("pH", math.nan)
 
@@ -543,7 +545,7 @@ def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: s
                  registry: Registry | None = None) -> pd.DataFrame:
     import pandas as pd
 
-    from ..engine._solve import load_tables
+    from ..plugins._table_sets import load_tables
     from ..plugins._registry import default_registry
 
     registry = registry or default_registry()

@@ -10,7 +10,7 @@ condition SI = 0 while it is present. Swapping a solid into the basis as well wo
 totals such as m(SO4) − m(Ca), which are zero for gypsum in pure water, and the solver
 rightly refuses non-positive totals; so the amounts are found by Newton's method on SI(ξ)
 instead, whose Jacobian Pᵀ (∂y/∂T) P comes from the implicit-function theorem on the
-converged mass balances (:mod:`ionwright.sensitivity`). It is symmetric positive definite
+converged mass balances (:mod:`._response`). It is symmetric positive definite
 when the solids present are linearly independent: the phase rule. The active set follows
 DESIGN.md: ``"equilibrate"`` solids are present in excess; ``"may-form"`` solids
 join when supersaturated and leave when their precipitated amount would turn negative; a
@@ -39,7 +39,7 @@ import numpy as np
 from . import _solver as solver
 from ..errors import RESIDUAL_TOLERANCE, PhaseRuleError, RecipeError, UnknownNameError
 from ..chemistry._formula import parse_formula
-from ._sensitivity import response
+from ._response import response
 from ._solver import Equilibrium, bound_slice
 from ._system import PROTON, WATER, ChemicalSystem, log10_k_at
 from ..chemistry._tableset import Resolved, TableSet
@@ -798,30 +798,3 @@ def _solid_state(state: PhaseEquilibrium, k: int, j: int) -> str:
     if state.modes[j].mode == AMOUNT:
         return "all dissolved"
     return "not formed"
-
-
-def phase_summary(result) -> dict[str, dict[str, Any]]:
-    """The ``phases`` entry of a result's JSON (empty for a recipe without phases)."""
-    return dict(getattr(result, "phases", {}) or {})
-
-
-def phase_lines(result) -> list[str]:
-    """Lines of the text report on solids and gases (none for a recipe without phases)."""
-    phases = phase_summary(result)
-    if not phases:
-        return []
-    lines = ["", "solids and gases (per kg of water; + into solution, − out of it)"]
-    for name, p in phases.items():
-        amount = f"{p['into_solution_mol_per_kg']:+11.4e} mol/kg"
-        if p["kind"] == "gas":
-            lines.append(f"  {name:<18}{p['partial_pressure_atm']:10.3e} atm {amount}  "
-                         f"{'taken up' if p['into_solution_mol_per_kg'] >= 0 else 'released'}")
-            continue
-        grams = f"({p['into_solution_g_per_kg']:+.4g} g/kg)"
-        detail = p["state"]
-        if "saturation_index" in p and p["state"] != "saturated":
-            detail += f", SI {p['saturation_index']:.2f}"
-        if "needs" in p:
-            detail += f" (needs {', '.join(p['needs'])})"
-        lines.append(f"  {name:<18}{p['mode']:<17}{amount} {grams:<16} {detail}")
-    return lines

@@ -49,7 +49,7 @@ from ..errors import UnknownNameError
 from ._newton import fast as _fast
 from ._newton.careful import careful_path
 from ._newton.fast import fast_path
-from ._newton.guess import initial_guess
+from ._newton.guess import guess_plan, initial_guess
 from ._newton.numerics import LN10, LN_C_CEILING, RESIDUAL_TOLERANCE, all_set, any_set, column_max
 from ._newton.floats import largest_magnitude
 from ._newton.structure import (Problem, bound_slice, coupling_for, ln_gamma_at, ln_gamma_one,
@@ -133,7 +133,7 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     chunks = [todo[start:start + CHUNK_SIZE] for start in range(0, todo.size, CHUNK_SIZE)]
     workers = min(threads or default_threads(), len(chunks)) if len(chunks) > 1 else 1
     if workers > 1:  # chunks are independent and write disjoint rows of `out`
-        structure.guess_plan  # noqa: B018 - built once, before the threads share it
+        guess_plan(structure)  # built once, before the threads share it
         with ThreadPoolExecutor(workers) as pool:
             for done in [pool.submit(run, rows) for rows in chunks]:
                 done.result()

@@ -26,15 +26,19 @@ from typing import Any
 import numpy as np
 
 from ..chemistry._density import ingredient_solute
-from ._target import Workbench, find_dose, read_stock, split_name_and_quantity, stock_cautions
-from ..engine._solve import load_tables
+from ..engine._compiled import CompiledRecipe
+from ..engine._solve import compile_recipe
+from ._target import find_dose, read_stock, split_name_and_quantity, stock_cautions
+from ..plugins._table_sets import load_tables
 from ..errors import IonwrightError, RecipeError, UnknownNameError, UnreachableTargetError
 from ..chemistry._ingredients import Makeup, makeup
 from ..chemistry._names import split_name
 from ..plugins._registry import Registry, default_registry
-from ..inputs._recipe import (DEFAULT_TABLES, DISSOLVE_DIMENSIONS, as_number, check_ph,
-                              check_temperature, entry_for, mix, positive, read_recipe)
+from ..inputs._checks import as_number, check_ph, check_temperature, positive
+from ..inputs._mixing import entry_for, mix
+from ..inputs._recipe import DEFAULT_TABLES, DISSOLVE_DIMENSIONS, read_recipe
 from ..outputs._result import Result
+from ..core._acid_base import ideal_shares
 from ..core._sensitivity import buffer_capacity
 from ..core._system import PROTON, WATER, log10_k_at
 from ..inputs._units import expect, parse_quantity
@@ -140,9 +144,7 @@ def mean_protons(component: str, tables, pH: float, t_C: float) -> float:
     species = _protonated(component, tables)
     k = np.array([0.0, *species])
     log10_k = np.array([0.0, *(float(_log10_k_total(tables, s, t_C)) for s in species.values())])
-    weight = log10_k - k * pH
-    w = np.exp((weight - weight.max()) * np.log(10.0))
-    return float((k * w).sum() / w.sum())
+    return float(k @ ideal_shares(log10_k, k, pH))
 
 
 def _log10_k_total(tables, species: str, t_C: float) -> float:
@@ -364,7 +366,7 @@ def pka_values(component: str, tables, t_C: float) -> list[float]:
 class _Batch:
     """A batch made up to volume: its ingredients mixed for the water, at any amounts."""
 
-    bench: Workbench
+    bench: CompiledRecipe
     base: dict
     volume_L: float
     solutes: dict
@@ -373,7 +375,7 @@ class _Batch:
     def of(cls, base: dict, names: Sequence[str], tables, volume_L: float,
            registry: Registry) -> _Batch:
         plain = {k: v for k, v in base.items() if k != "volume"}
-        bench = Workbench.of({**plain, "dissolve": {n: 1e-3 for n in names}}, registry)
+        bench = compile_recipe({**plain, "dissolve": {n: 1e-3 for n in names}}, registry)
         solutes = {}
         for name in names:
             made = makeup(name, tables)

@@ -30,12 +30,15 @@ import numpy as np
 
 from ..activity._validity import RANGE_TOLERANCE
 from ..chemistry._density import component_solute, ingredient_solute
-from ._target import Workbench, read_stock, split_name_and_quantity
+from ..engine._compiled import CompiledRecipe
+from ..engine._solve import compile_recipe
+from ._target import read_stock, split_name_and_quantity
 from ..errors import RecipeError
 from ..chemistry._ingredients import makeup
 from ..core._phases import PhaseEquilibrium, _take, phase_reaction
 from ..plugins._registry import Registry
-from ..inputs._recipe import Entry, Recipe, mix, solution_of
+from ..inputs._mixing import Entry, mix
+from ..inputs._recipe import Recipe, solution_of
 from ..core._sensitivity import LN10, buffer_capacity, pH_change
 from ..inputs._units import expect, parse_quantity
 from ..chemistry._water import VALID_RANGE_C
@@ -56,7 +59,7 @@ class Sweep:
     kind: str                         # "titration", "dilution", "temperature", "pH"
     variable: str                     # column name of the swept quantity, with its unit
     values: np.ndarray                # (n,) the swept quantity at the points kept
-    bench: Workbench
+    bench: CompiledRecipe
     state: PhaseEquilibrium           # the points kept
     species: tuple[str, ...]
     beta: np.ndarray                  # (n,) mol/kg per pH
@@ -140,7 +143,7 @@ def titration(recipe: str | Path | Mapping[str, Any] | Recipe, titrant: str, to:
     (``"25 mL"``) of it; the titrant's water dilutes it.
     """
     name, strength = split_name_and_quantity(titrant, "titrant")
-    bench = Workbench.of(recipe, registry, also=(name,))
+    bench = compile_recipe(recipe, registry, also=(name,))
     t = bench.recipe.temperature_C
     stock = read_stock(name, strength, bench.tables, t, "titrant")
     final = expect(parse_quantity(to, "to"), ("volume",), "to").value
@@ -181,7 +184,7 @@ def dilution(recipe: str | Path | Mapping[str, Any] | Recipe, ratio: str, *,
     lo, hi = _range(ratio, "ratio")
     if lo <= 0 or hi <= lo:
         raise RecipeError("ratio", f"{ratio!r} must be 1:N with N > 1", 'e.g. "1:1000"')
-    bench = Workbench.of(recipe, registry)
+    bench = compile_recipe(recipe, registry)
     factors = np.logspace(0.0, math.log10(hi / lo), _points(points))
     totals = np.array([_diluted(bench, f) for f in factors])
     return _finish(bench, "dilution", "dilution_factor", factors, bench.solve(totals), species,
@@ -193,7 +196,7 @@ def temperature_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: st
                        beyond_range: bool = False, registry: Registry | None = None) -> Sweep:
     """The recipe as made, from one temperature to another (``"5:60"``, °C)."""
     lo, hi = _range(span, "span")
-    bench = Workbench.of(recipe, registry)
+    bench = compile_recipe(recipe, registry)
     temps = np.linspace(lo, hi, _points(points))
     low, high = VALID_RANGE_C
     inside = (temps >= low) & (temps <= high)
@@ -223,7 +226,7 @@ def pH_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: str, *,
     that of the solution brought to that pH.
     """
     lo, hi = _range(span, "span")
-    bench = Workbench.of(recipe, registry)
+    bench = compile_recipe(recipe, registry)
     values = np.linspace(lo, hi, _points(points))
     fixed = np.repeat(bench.fixed()[None, :], values.size, axis=0)
     fixed[:, 0] = -values
@@ -238,7 +241,7 @@ def pH_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: str, *,
 
 
 # -- shared steps ----------------------------------------------------------------------------
-def _finish(bench: Workbench, kind: str, variable: str, values: np.ndarray,
+def _finish(bench: CompiledRecipe, kind: str, variable: str, values: np.ndarray,
             state: PhaseEquilibrium, species: Sequence[str], beyond_range: bool = False
             ) -> Sweep:
     """Keep the points up to the first failure or the first beyond the model's range.
@@ -293,7 +296,7 @@ def _take_state(state: PhaseEquilibrium, rows: np.ndarray) -> PhaseEquilibrium:
                    else state.bound)
 
 
-def _default_species(bench: Workbench, state: PhaseEquilibrium) -> tuple[str, ...]:
+def _default_species(bench: CompiledRecipe, state: PhaseEquilibrium) -> tuple[str, ...]:
     if not state.equilibrium.molality.shape[0]:
         return ()
     peak = state.equilibrium.molality.max(axis=0)
@@ -301,14 +304,14 @@ def _default_species(bench: Workbench, state: PhaseEquilibrium) -> tuple[str, ..
     return tuple(bench.system.species[i] for i in order[:DEFAULT_SPECIES])
 
 
-def _unknown_species(bench: Workbench, name: str) -> None:
+def _unknown_species(bench: CompiledRecipe, name: str) -> None:
     from ..errors import UnknownNameError
 
     raise UnknownNameError("species in this recipe", name, bench.system.species,
                            "the recipe's species are listed by `ionwright solve RECIPE`")
 
 
-def _saturation(bench: Workbench, state: PhaseEquilibrium) -> dict[str, np.ndarray]:
+def _saturation(bench: CompiledRecipe, state: PhaseEquilibrium) -> dict[str, np.ndarray]:
     """SI of every solid of the tables whose components the recipe has, per point."""
     out = {}
     eq = state.equilibrium
@@ -349,7 +352,7 @@ def _equivalence_points(bench, volumes, slope, totals_at, slope_at) -> list[dict
             for v, p, s in zip(centres, ph, slopes)]
 
 
-def _sample_water(bench: Workbench, sample: str | None) -> float:
+def _sample_water(bench: CompiledRecipe, sample: str | None) -> float:
     """kg of water in the titrated sample."""
     solution = solution_of(bench.recipe, bench.tables)
     if sample is None:
@@ -363,7 +366,7 @@ def _sample_water(bench: Workbench, sample: str | None) -> float:
     return q.value / solution.mass_g * solution.water_kg
 
 
-def _diluted(bench: Workbench, factor: float) -> np.ndarray:
+def _diluted(bench: CompiledRecipe, factor: float) -> np.ndarray:
     """Totals (mol/kg) after making the recipe's solution up to *factor* times its volume."""
     recipe = bench.recipe
     solution = solution_of(recipe, bench.tables)

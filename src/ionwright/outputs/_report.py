@@ -9,7 +9,7 @@ from __future__ import annotations
 from ..chemistry._names import pretty_name
 from ._buffer_quantities import report_lines as formulation_lines
 from ._derived import report_lines as derived_lines
-from ..core._phases import phase_lines
+from ._phase_report import phase_lines
 from ._provenance import constants_section
 
 SPECIES_SHOWN = 25

@@ -21,6 +21,14 @@ GUESS_SWEEPS = 2               # rescalings of the other free activities for the
 SWEEP_LIMIT = 1e20             # largest factor one rescaling may apply
 
 
+def guess_plan(st: Structure) -> GuessPlan:
+    """The :class:`GuessPlan` of *st*, built once and kept on the structure."""
+    plan = st.memo.get("guess_plan")
+    if plan is None:
+        plan = st.memo["guess_plan"] = GuessPlan.of(st)
+    return plan
+
+
 @dataclass(frozen=True)
 class GuessPlan:
     """What the initial guess needs that depends on the structure alone.
@@ -104,7 +112,7 @@ def initial_guess(problem: Problem, bound: BoundModel) -> tuple[np.ndarray, np.n
     else:
         h = guess_proton(problem, base, y, member_k[fam.varying])
     if fam.owners.size:
-        plan = st.guess_plan
+        plan = guess_plan(st)
         x = np.exp(plan.family_powers[:, None] * h)         # a(H+)^ν for each distinct ν
         partition = plan.members @ (member_k * x[plan.family_power]).reshape(-1, problem.size)
         y[fam.owners] = (np.log(np.maximum(problem.full_totals[fam.owners], 1e-300))
@@ -143,7 +151,7 @@ def guess_proton(problem: Problem, base: np.ndarray, y_fixed: np.ndarray,
     """
     st = problem.structure
     fam = st.families
-    plan = st.guess_plan
+    plan = guess_plan(st)
     k = problem.size
     lone_lnc = (base + st.nu @ y_fixed)[plan.lone] if (~st.free).any() else base[plan.lone]
     term_k = np.concatenate([np.exp(np.minimum(lone_lnc, LN_C_CEILING)),
@@ -210,7 +218,7 @@ def _initial_guess_one(problem: Problem, bound: BoundModel) -> tuple[np.ndarray,
     """:func:`initial_guess` for one sample, its numbers on Python floats: the same
     operations in the same order (exponentials and logarithms by numpy)."""
     st = problem.structure
-    one = st.guess_plan.one
+    one = guess_plan(st).one
     h_col = st.proton
     full = problem.full_totals[:, 0].tolist()
     u_max = float(problem.u_max[0])
@@ -228,7 +236,7 @@ def _initial_guess_one(problem: Problem, bound: BoundModel) -> tuple[np.ndarray,
         h = _proton_one(problem, one, base, y, member_k, full)
     if one.owners:
         x = np.exp([p * h for p in one.family_powers]).tolist()
-        partition = st.guess_plan.members.apply_one(
+        partition = guess_plan(st).members.apply_one(
             [k * x[i] for k, i in zip(member_k, one.family_power)])
         carried = np.log([fmax(full[o], 1e-300) for o in one.owners]).tolist()
         for o, a, b in zip(one.owners, carried, np.log(partition).tolist()):
@@ -255,7 +263,7 @@ def _proton_one(problem: Problem, one: _OnePlan, base: list, y: list, member_k: 
                 full: list) -> float:
     """:func:`guess_proton` for one sample, its numbers on Python floats."""
     st = problem.structure
-    plan = st.guess_plan
+    plan = guess_plan(st)
     width = len(one.members[0]) if one.members else 0
     if (~st.free).any():
         shifted = st.nu.apply_one(y)

@@ -4,7 +4,6 @@ its coupling to an activity model's terms, and one chunk's per-sample data."""
 from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
-from functools import cached_property
 
 import numpy as np
 
@@ -131,13 +130,7 @@ class Structure:
     sweep_carried: SparseRows       # Σ ν c of the rescaled components only
     sweep_nu: SparseRows            # (s, r): ν of the species in the rescaled components
     couplings: dict = field(default_factory=dict, compare=False)
-
-    @cached_property
-    def guess_plan(self):
-        """The structure-only part of the initial guess (:class:`.guess.GuessPlan`)."""
-        from .guess import GuessPlan  # the guess builds on this module, not the reverse
-
-        return GuessPlan.of(self)
+    memo: dict = field(default_factory=dict, compare=False)  # plans built on the structure
 
     def coupling(self, weights: np.ndarray, own_terms: bool) -> "Coupling":
         """The :class:`Coupling` to a model with term weights *weights* (s, p), cached

@@ -15,7 +15,7 @@ import numpy as np
 if TYPE_CHECKING:  # pragma: no cover
     from matplotlib.figure import Figure
 
-    from ..design._sweep import Sweep
+    from ._sweep import Sweep
 
 #: Our palette: deep teal, brick, saffron, sage, plum, slate, sky, rose.
 PALETTE = ("#1d5c7a", "#c2533a", "#e0a030", "#5f8f6a", "#6e4a7e", "#38404f", "#7fb3c8",
