@@ -120,7 +120,7 @@ def main() -> None:
                    f"Pitzer / Davies on the same careful path: "
                    f"**{pit['solve'] / careful['solve']:.2f}×**."), ""]
     text = "\n".join(lines)
-    RESULTS.write_text(text, encoding="utf^8-")
+    RESULTS.write_text(text, encoding="utf-8")
     print(text)
 
 

@@ -10,7 +10,14 @@ between processes).
 from __future__ import annotations
 
 import difflib
-from collections.abc import Iterable
+import functools
+import inspect
+import re
+from collections.abc import Callable, Iterable
+from typing import ParamSpec, TypeVar
+
+P = ParamSpec("P")
+T = TypeVar("T")
 
 
 def close_matches(name: str, choices: Iterable[str], n: int = 3) -> list[str]:
@@ -28,12 +35,31 @@ class IonwrightError(Exception):
         super().__init__(message, hint)
         self.message = message
         self.hint = hint
+        self.flags: dict[str, str] = {}
 
     def __str__(self) -> str:
-        return f"{self.message}\n  hint: {self.hint}" if self.hint else self.message
+        return self._with_flags(f"{self.message}\n  hint: {self.hint}" if self.hint
+                                else self.message)
+
+    def _with_flags(self, text: str) -> str:
+        """*text* with each argument written ``name=`` replaced by its command-line option,
+        when the command line has set :attr:`flags` (argument name → option)."""
+        for name, flag in getattr(self, "flags", {}).items():
+            text = re.sub(rf"(?<![\w-]){re.escape(name)}=(True\b)?",
+                          lambda m, flag=flag: _as_option(m, flag), text)
+        return text
 
     def __reduce__(self):  # keep the subclass and both fields when pickled
         return (_rebuild, (type(self), self.__dict__))
+
+
+def _as_option(match: re.Match[str], flag: str) -> str:
+    """``pair=True`` → ``--pair``; ``to="50 mL"`` → ``--to "50 mL"``; ``titrant=`` before a
+    space or the end → ``--titrant``."""
+    if match[1]:
+        return flag
+    rest = match.string[match.end():]
+    return flag if not rest or rest[0].isspace() or rest[0] in ").,;" else f"{flag} "
 
 
 def _rebuild(cls, state):
@@ -68,11 +94,50 @@ class TableError(IonwrightError, ValueError):
 
 
 class RecipeError(IonwrightError, ValueError):
-    """A recipe asks for something that cannot be done; names the key at fault."""
+    """A recipe or an argument asks for something that cannot be done; names the key or
+    the argument at fault.
 
-    def __init__(self, where: str, problem: str, hint: str = "") -> None:
-        super().__init__(f"recipe {where}: {problem}", hint)
-        self.where, self.problem = where, problem
+    *where* is the recipe key (with the recipe it is in) or, for an argument of a library
+    function, the argument's name (the :func:`argument` context sets *parameter*).
+    Messages write arguments as ``name=``; the command line sets :attr:`flags` (argument
+    name → option) so that the same error names its options instead.
+    """
+
+    def __init__(self, where: str, problem: str, hint: str = "",
+                 parameter: str | None = None) -> None:
+        super().__init__(problem, hint)
+        self.where, self.problem, self.parameter = where, problem, parameter
+
+    def __str__(self) -> str:
+        flags = getattr(self, "flags", {})
+        if self.parameter is None:
+            place = f"recipe {self.where}"
+        elif self.parameter in flags:
+            place = flags[self.parameter] + self.where[len(self.parameter):]
+        else:
+            place = f"argument {self.where}"
+        return self._with_flags(f"{place}: {self.problem}"
+                                + (f"\n  hint: {self.hint}" if self.hint else ""))
+
+
+def names_its_arguments(function: Callable[P, T]) -> Callable[P, T]:
+    """Decorate a library function so that a :class:`RecipeError` raised inside whose
+    ``where`` starts with one of its parameter names (``to``, ``titrant``) is marked as
+    about that argument: its message then says ``argument to: ...``, and the command line
+    names the option instead (:func:`ionwright.cli._flags.as_flags`)."""
+    names = set(inspect.signature(function).parameters)
+
+    @functools.wraps(function)
+    def wrapper(*args: P.args, **kwargs: P.kwargs) -> T:
+        try:
+            return function(*args, **kwargs)
+        except RecipeError as exc:
+            head = exc.where.partition(" ")[0]
+            if exc.parameter is None and head in names:
+                exc.parameter = head
+            raise
+
+    return wrapper
 
 
 class IonPairSetError(IonwrightError, ValueError):
@@ -104,15 +169,20 @@ RESIDUAL_TOLERANCE = 1e-10
 
 
 class ConvergenceError(IonwrightError, ArithmeticError):
-    """The solver did not reach the stated tolerances; carries the diagnostics."""
+    """The solver did not reach its tolerance; carries the diagnostics and the tolerance.
+
+    *status* is one of :data:`ionwright.status.SOLVER_STATUSES`; *residual* is the worst
+    relative residual of *what* was solved and *tolerance* the one it had to reach (the
+    solver's :data:`RESIDUAL_TOLERANCE` unless a fit says otherwise).
+    """
 
     def __init__(self, status: str, iterations: int, residual: float, detail: str = "",
-                 hint: str = "") -> None:
-        balanced = residual <= RESIDUAL_TOLERANCE   # NaN is not
-        found = (f"the mass balances converged (worst relative residual {residual:.3g}, "
-                 f"tolerance {RESIDUAL_TOLERANCE:g})" if balanced else
-                 f"worst relative mass-balance residual {residual:.3g} (tolerance "
-                 f"{RESIDUAL_TOLERANCE:g})")
+                 hint: str = "", tolerance: float = RESIDUAL_TOLERANCE,
+                 what: str = "relative mass-balance residual") -> None:
+        balanced = residual <= tolerance   # NaN is not
+        found = (f"the {what.removeprefix('relative ')} converged (worst {residual:.3g}, "
+                 f"tolerance {tolerance:.3g})" if balanced else
+                 f"worst {what} {residual:.3g} (tolerance {tolerance:.3g})")
         super().__init__(
             f"solver stopped with status {status!r} after {iterations} iterations; {found}"
             + (f"; {detail}" if detail else ""),
@@ -121,6 +191,7 @@ class ConvergenceError(IonwrightError, ArithmeticError):
         )
         self.status, self.iterations, self.residual, self.detail = (
             status, iterations, residual, detail)
+        self.tolerance, self.what = tolerance, what
 
 
 class PluginError(IonwrightError, RuntimeError):

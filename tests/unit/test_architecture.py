@@ -16,7 +16,7 @@ PACKAGE = Path(ionwright.__file__).resolve().parent
 
 #: Layers, lowest first. A module may import from its own layer and the layers before it.
 LAYERS = (
-    ("errors",),
+    ("errors", "status", "notices"),
     ("chemistry",),
     ("data",),
     ("activity",),

@@ -15,8 +15,9 @@ One row is one sample. Columns are read by their header:
 * a column of text that names no ingredient (a sample id, a site) is carried through.
 
 The output holds every input column first, then the solved pH, the ionic strength, the
-molality of the chosen species, saturation indices, ``status`` (converged / failed /
-invalid) and ``message``; rows keep their order and index and none is dropped. Rows
+molality of the chosen species, saturation indices, ``status`` (a word of
+:mod:`ionwright.status`: converged, a solver status such as max-iterations, or invalid)
+and ``message``; rows keep their order and index and none is dropped. Rows
 that share a chemical system (the same components present and the same fixed pH or not)
 are solved together by one batched solve, with temperature and totals per row; a row
 that fails there is retried alone with the careful path before it is marked failed. A
@@ -35,13 +36,17 @@ from typing import TYPE_CHECKING, Any, Iterable, Iterator, Mapping, Sequence
 import numpy as np
 
 from ..core import _solver as solver
-from ..outputs._cautions import CORROSIVE_HIGH_PH, CORROSIVE_LOW_PH, DEFER
+from ..outputs._cautions import corrosive_notice, is_corrosive
+from ..outputs._model_numbers import beyond_model_range, model_range_notice
 from ..errors import IonwrightError, RecipeError, UnknownNameError
 from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
-from ..activity._validity import RANGE_TOLERANCE, TOLERANCE_PERCENT, exceeded_rows
-from ..core._system import PROTON, WATER, ChemicalSystem, compile_system, log10_k_at
+from ..activity._validity import TOLERANCE_PERCENT, exceeded_rows
+from ..core._system import (PROTON, WATER, ChemicalSystem, compile_system, constant_notice,
+                            constant_outside, log10_k_at)
 from ..inputs._recipe import DEFAULT_TABLES
 from ..engine._totals import negative_totals
+from ..core._newton.numerics import RESIDUAL_TOLERANCE
+from ..status import CONVERGED, INVALID
 
 if TYPE_CHECKING:
     import pandas as pd
@@ -50,7 +55,6 @@ if TYPE_CHECKING:
     from ..chemistry._tableset import TableSet
 
 LN10 = np.log(10.0)
-CONVERGED, FAILED, INVALID = "converged", "failed", "invalid"
 STATUS_COLUMN, MESSAGE_COLUMN = "status", "message"
 PH_COLUMN = "solved pH"
 IONIC_STRENGTH_COLUMN = "ionic strength [mol/kg]"
@@ -155,8 +159,8 @@ def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Colu
             if text:
                 return Column(header, "label")
             return Column(header, "ingredient", header,
-                          problem=f"{_first_line(exc)} (a column to carry through unread "
-                          "goes in labels=[...], or --label on the command line)")
+                          problem=f"{_first_line(exc)} (name a column to carry through "
+                          "unread as a label)")
         return Column(header, "ingredient", header, components=tuple(made.per_mole))
     name, unit = match["name"].strip(), match["unit"].strip()
     where = f"column {header!r}"
@@ -395,13 +399,14 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, pla
     for j, name in enumerate(plan.species):
         out.molality[good, j] = eq.molality[ok, index[name]] if name in index else 0.0
     _saturation(system, tables, eq, ok, t, plan, out.saturation, good)
-    out.status[rows] = np.where(ok, CONVERGED, FAILED)
+    out.status[rows] = status  # the solver's own word where it did not converge
     out.message[rows] = _notes(system, model, out.ph[rows], out.ionic_strength[rows], t, ok,
                                eq.molality)
     for k in np.flatnonzero(~ok):
         out.message[rows[k]] = (f"the solver stopped with status {status[k]!r} after "
                                 f"{int(eq.iterations[k])} iterations (worst relative "
-                                f"residual {eq.residual[k]:.3g}), also when retried alone "
+                                f"residual {eq.residual[k]:.3g}, tolerance "
+                                f"{RESIDUAL_TOLERANCE:.3g}), also when retried alone "
                                 "with the careful path; check that the totals are possible")
 
 
@@ -436,10 +441,8 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
     """
     texts: list[str] = []
     flags: list[np.ndarray] = []
-    limit = model.max_ionic_strength
-    texts.append(f"ionic strength beyond the range of the {model.name} model (up to about "
-                 f"{limit:g} mol/kg)")
-    flags.append(ok & (ionic > limit * (1.0 + RANGE_TOLERANCE)))
+    texts.append(model_range_notice(model).text)
+    flags.append(ok & beyond_model_range(model, ionic))
     limits = getattr(model, "validity", ())
     if limits:
         hits = exceeded_rows(limits, system.species, system.charge, molality)
@@ -448,23 +451,11 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
                          f"{rule.max_ionic_strength:g} mol/kg where {rule.label} are main "
                          f"ions ({rule.evidence})")
             flags.append(ok & hits[:, r])
-    texts.append(f"CAUTION: corrosive pH (≤ {CORROSIVE_LOW_PH:g} or ≥ {CORROSIVE_HIGH_PH:g}, "
-                 f"US EPA 40 CFR 261.22); wear eye and skin protection and {DEFER}")
-    flags.append(ok & ((ph <= CORROSIVE_LOW_PH) | (ph >= CORROSIVE_HIGH_PH)))
-    for res in system.resolved:
-        for name, _, logk in res.terms:
-            if logk.range_C is not None:
-                outside = (t < logk.range_C[0]) | (t > logk.range_C[1])
-                text = (f"log K of {name!r} is known for {logk.range_C[0]:g}–"
-                        f"{logk.range_C[1]:g} °C")
-            elif logk.method.startswith("none"):
-                outside = np.abs(t - 25.0) > 5.0
-                text = f"log K of {name!r} has no temperature dependence (25 °C value used)"
-            else:
-                continue
-            if text not in texts:
-                texts.append(text)
-                flags.append(ok & outside)
+    texts.append(corrosive_notice().text)
+    flags.append(ok & is_corrosive(ph))
+    for name, logk in system.temperature_checks():
+        texts.append(constant_notice(name, logk).text)
+        flags.append(ok & constant_outside(logk, t))
     matrix = np.stack(flags, axis=1)
     _, first, which = np.unique(_row_codes(matrix), return_index=True, return_inverse=True)
     joined = np.array(["; ".join(t for t, f in zip(texts, matrix[r]) if f) for r in first],

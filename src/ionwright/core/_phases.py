@@ -38,6 +38,8 @@ import numpy as np
 
 from . import _solver as solver
 from ..errors import RESIDUAL_TOLERANCE, PhaseRuleError, RecipeError, UnknownNameError
+from ..notices import INPUT, SOLVER, Notice
+from ..status import CONVERGED, MAX_ITERATIONS, succeeded
 from ..chemistry._formula import parse_formula
 from ._response import response
 from ._solver import Equilibrium, bound_slice
@@ -106,7 +108,7 @@ class PhaseChoice:
 
     solids: tuple[SolidChoice, ...] = ()
     gases: tuple[GasChoice, ...] = ()
-    notes: tuple[str, ...] = ()       # renamed words read, for the result's warnings
+    notes: tuple[Notice, ...] = ()    # renamed words read, for the result's notices
 
     def __bool__(self) -> bool:
         return bool(self.solids or self.gases)
@@ -120,7 +122,8 @@ def read_phases(raw: Mapping[str, Any], tables: TableSet, origin: str = "(mappin
     gases = [_gas_choice(name, value, tables, origin)
              for name, value in _table(raw, "gases", origin).items()]
     notes = tuple(dict.fromkeys(
-        f"solid mode {old!r} is now called {new!r}; the old word is still read"
+        Notice(INPUT, "renamed-word", f"solid mode {old!r} is now called {new!r}; the old "
+               "word is still read", {"old": old, "new": new})
         for old, new in RENAMED_SOLID_WORDS.items()
         for value in _table(raw, "solids", origin).values()
         if isinstance(value, str) and value.strip().lower() == old))
@@ -402,7 +405,7 @@ class PhaseEquilibrium:
     bound: Any = None
     skipped: dict[str, list[str]] = field(default_factory=dict)  # solid → missing components
     traced: np.ndarray | None = None  # (n, c) components carried at a trace (design.TRACE)
-    notes: list[str] = field(default_factory=list)
+    notes: list[Notice] = field(default_factory=list)
 
     @property
     def status(self) -> np.ndarray:
@@ -530,7 +533,7 @@ class _Work:
         old = self.basis.old_log_activity(eq.log_activity, eq.ln_water_activity, self.t_C[rows])
         log_iap = (old @ self.p_old.T + eq.ln_water_activity[:, None] * self.water) / LN10
         si = log_iap - self.log10_k[rows]
-        return np.where(eq.status[:, None] == "converged", si, np.nan)
+        return np.where(succeeded(eq.status)[:, None], si, np.nan)
 
     # -- the whole iteration -----------------------------------------------------------------
     def run(self) -> PhaseEquilibrium:
@@ -543,7 +546,7 @@ class _Work:
             xi = np.where(absent, np.minimum(START_AMOUNT, self.ceiling), 0.0)
             present = np.broadcast_to(supply, (n, m)).copy()
         eq, si = self.inner(xi, np.arange(n))
-        failed = eq.status != "converged"
+        failed = ~succeeded(eq.status)
         if m:
             eq, si, present, failed = self.iterate(xi, present, eq, si, ~failed)
         return self.finish(eq, xi, present, si, failed)
@@ -583,7 +586,7 @@ class _Work:
             xi[rows], present[rows] = new_xi, new_present
             eq = _merge(eq, sub_eq, rows)
             si[rows] = sub_si
-            bad = sub_eq.status != "converged"
+            bad = ~succeeded(sub_eq.status)
             failed[rows[bad]] = True
             pending[rows[bad]] = False
         failed |= pending
@@ -604,7 +607,7 @@ class _Work:
         eq, new_si = self.inner(new_xi, rows)
         for _ in range(LINE_SEARCH_HALVINGS):
             after = _violation(new_si, new_present)
-            worse = (eq.status == "converged") & ~(after <= (1.0 - ARMIJO * alpha) * before)
+            worse = succeeded(eq.status) & ~(after <= (1.0 - ARMIJO * alpha) * before)
             if not worse.any():
                 break
             alpha[worse] *= 0.5
@@ -674,14 +677,16 @@ class _Work:
     def finish(self, eq, xi, present, si, failed) -> PhaseEquilibrium:
         n = xi.shape[0]
         status = eq.status.astype(object)
-        status[failed & (status == "converged")] = "max-iterations"
-        capped = _capped_ionic_strength(eq, self.basis.charge) & (status == "converged")
-        status[capped] = "max-iterations"
+        status[failed & (status == CONVERGED)] = MAX_ITERATIONS
+        capped = _capped_ionic_strength(eq, self.basis.charge) & (status == CONVERGED)
+        status[capped] = MAX_ITERATIONS
         notes = list(eq.notes)
         if capped.any():
-            notes.append(f"{int(capped.sum())} sample(s) reached the solver's ceiling on "
-                         "ionic strength (a fixed pH or gas can hold more ions than the totals "
-                         "bound) and are reported as not converged rather than wrong")
+            notes.append(Notice(
+                SOLVER, "ionic-strength-ceiling", f"{int(capped.sum())} sample(s) reached the "
+                "solver's ceiling on ionic strength (a fixed pH or gas can hold more ions than "
+                "the totals bound) and are reported as not converged rather than wrong",
+                {"samples": int(capped.sum())}))
         old_y = self.basis.old_log_activity(eq.log_activity, eq.ln_water_activity, self.t_C)
         with_solids = self.totals + xi @ self.p_old
         new_with_solids = self.basis.new_totals(with_solids)

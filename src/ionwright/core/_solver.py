@@ -45,6 +45,8 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..activity._base import BoundModel
+from ..notices import VALIDITY, Notice, wrap
+from ..status import SOLVER_STATUSES, succeeded
 from ..errors import UnknownNameError
 from ._newton import fast as _fast
 from ._newton.careful import careful_path
@@ -58,7 +60,7 @@ from ._system import ChemicalSystem
 
 CHUNK_SIZE = 8192              # samples per chunk: amortises numpy's per-call cost
 MAX_THREADS = 4                # most threads a batch uses by default
-STATUSES = ("converged", "max-iterations", "non-finite", "infeasible")
+STATUSES = SOLVER_STATUSES
 CONVERGED, MAX_ITERATIONS, NON_FINITE, INFEASIBLE = range(len(STATUSES))  # codes while solving
 _STATUS_NAMES = np.array(STATUSES)
 METHODS = ("auto", "careful")
@@ -77,11 +79,11 @@ class Equilibrium:
     residual: np.ndarray            # (n,) worst relative mass-balance residual
     iterations: np.ndarray          # (n,)
     status: np.ndarray              # (n,) of str, one of STATUSES
-    notes: list[str] = field(default_factory=list)
+    notes: list[Notice] = field(default_factory=list)
 
     @property
     def success(self) -> np.ndarray:
-        return self.status == "converged"
+        return succeeded(self.status)
 
 
 def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
@@ -155,7 +157,7 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
                        ionic_strength=out.u * out.u, ln_water_activity=out.ln_aw,
                        residual=out.residual, iterations=out.iterations,
                        status=_STATUS_NAMES[out.status],
-                       notes=list(getattr(bound, "notes", [])))
+                       notes=wrap(getattr(bound, "notes", ()), VALIDITY, "activity-model"))
 
 
 def _as_table(values) -> np.ndarray:

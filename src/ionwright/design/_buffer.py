@@ -30,7 +30,9 @@ from ..engine._compiled import CompiledRecipe
 from ..engine._solve import compile_recipe
 from ._target import find_dose, read_stock, split_name_and_quantity, stock_cautions
 from ..plugins._table_sets import load_tables
-from ..errors import IonwrightError, RecipeError, UnknownNameError, UnreachableTargetError
+from ..notices import CAUTION, of_category, texts
+from ..errors import (IonwrightError, RecipeError, UnknownNameError, UnreachableTargetError,
+                      names_its_arguments)
 from ..chemistry._ingredients import Makeup, makeup
 from ..chemistry._names import split_name
 from ..plugins._registry import Registry, default_registry
@@ -227,8 +229,8 @@ class BufferCard:
                   f"  buffer capacity    {self.capacity_mmol_per_L_pH:8.2f} mmol/(L·pH)",
                   f"  pH drift           {self.drift_per_C:+8.4f} per °C",
                   f"  meter at {bench:<9} {self.bench_pH:8.3f} (same solution)"]
-        notes = [*self.cautions, *self.warnings, *(w for w in self.result.warnings
-                                                   if not w.startswith("CAUTION"))]
+        notes = [*self.cautions, *self.warnings, *(n.text for n in self.result.notices
+                                                   if n.category != CAUTION)]
         lines += ["", "cautions and notes"] + [f"  - {n}" for n in notes]
         lines.append("  - the meter reading assumes a meter calibrated at the bench "
                      "temperature; temperature compensation corrects the electrode, not "
@@ -240,6 +242,7 @@ def _volume_text(volume_L: float) -> str:
     return f"{volume_L:g} L" if volume_L >= 1 else f"{1000 * volume_L:g} mL"
 
 
+@names_its_arguments
 def design_buffer(buffer: str, pH: float, concentration: str, *, temperature_C: float = 25.0,
                   with_: Sequence[str] = (), volume: str = "1 L", titrant: str | None = None,
                   bench_temperature_C: float | None = None, pair: bool = False,
@@ -521,7 +524,7 @@ def _card(batch: _Batch, amounts: dict[str, str], buffer, component, pH, concent
     for name in weigh_names:
         made = makeup(name, bench.tables)
         weigh.append(Weighed(made.name, made.formula, made.molar_mass, molal[name] * water_kg))
-    cautions = [w for w in result.warnings if w.startswith("CAUTION")]
+    cautions = texts(of_category(result.notices, CAUTION))
     return BufferCard(buffer, component, pH, t_use, t_bench, batch.volume_L, concentration,
                       weigh, method, result, result.ionic_strength, 1000.0 * beta,
                       float((ph[2] - ph[1]) / (2 * DRIFT_STEP_C)), float(ph[3]),

@@ -23,6 +23,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from ..errors import ConvergenceError
+from ..notices import CAUTION, of_category, texts
 from ..inputs._recipe import Recipe, read_recipe
 from ..outputs._model_numbers import osmotic_coefficient, water_activity
 
@@ -337,8 +338,8 @@ def _report(c: Comparison) -> str:
     if details:
         lines += ["", "why some models are not trusted"] + [f"  - {d}" for d in details]
     shown = [c.outcome(c.trusted)] if c.trusted else list(c.outcomes)
-    cautions = list(dict.fromkeys(w for o in shown if o.result is not None
-                                  for w in o.result.warnings if w.startswith("CAUTION")))
+    cautions = texts(n for o in shown if o.result is not None
+                     for n in of_category(o.result.notices, CAUTION))
     if cautions:
         lines += [""] + cautions
     return "\n".join(lines)

@@ -28,12 +28,14 @@ from typing import Any
 
 import numpy as np
 
-from ..activity._validity import RANGE_TOLERANCE
+from ..notices import VALIDITY, Notice, texts
+from ..outputs._model_numbers import beyond_model_range
+from ..status import succeeded
 from ..chemistry._density import component_solute, ingredient_solute
 from ..engine._compiled import CompiledRecipe
 from ..engine._solve import compile_recipe
 from ._target import read_stock, split_name_and_quantity
-from ..errors import RecipeError
+from ..errors import RecipeError, names_its_arguments
 from ..chemistry._ingredients import makeup
 from ..core._phases import PhaseEquilibrium, _take, phase_reaction
 from ..plugins._registry import Registry
@@ -66,8 +68,13 @@ class Sweep:
     slope: np.ndarray | None = None   # (n,) dpH per unit of the variable (titrations)
     equivalence: list[dict[str, float]] = field(default_factory=list)
     saturation: dict[str, np.ndarray] = field(default_factory=dict)
-    warnings: list[str] = field(default_factory=list)
+    notices: list[Notice] = field(default_factory=list)
     stopped: str = ""                 # why the sweep ended early ("" if complete)
+
+    @property
+    def warnings(self) -> list[str]:
+        """The texts of :attr:`notices`."""
+        return texts(self.notices)
 
     @property
     def complete(self) -> bool:
@@ -129,10 +136,12 @@ class Sweep:
         return {"kind": self.kind, "variable": self.variable, "complete": self.complete,
                 "stopped": self.stopped, "activity_model": self.bench.model.name,
                 "equivalence_points": self.equivalence, "warnings": self.warnings,
+                "notices": [n.to_dict() for n in self.notices],
                 "rows": self.rows()}
 
 
 # -- the four kinds --------------------------------------------------------------------------
+@names_its_arguments
 def titration(recipe: str | Path | Mapping[str, Any] | Recipe, titrant: str, to: str, *,
               sample: str | None = None, points: int = DEFAULT_POINTS,
               species: Sequence[str] = (), beyond_range: bool = False,
@@ -177,6 +186,7 @@ def titration(recipe: str | Path | Mapping[str, Any] | Recipe, titrant: str, to:
     return sweep
 
 
+@names_its_arguments
 def dilution(recipe: str | Path | Mapping[str, Any] | Recipe, ratio: str, *,
              points: int = DEFAULT_POINTS, species: Sequence[str] = (),
              beyond_range: bool = False, registry: Registry | None = None) -> Sweep:
@@ -191,6 +201,7 @@ def dilution(recipe: str | Path | Mapping[str, Any] | Recipe, ratio: str, *,
                    beyond_range)
 
 
+@names_its_arguments
 def temperature_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: str, *,
                        points: int = DEFAULT_POINTS, species: Sequence[str] = (),
                        beyond_range: bool = False, registry: Registry | None = None) -> Sweep:
@@ -217,6 +228,7 @@ def temperature_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: st
     return sweep
 
 
+@names_its_arguments
 def pH_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: str, *,
               points: int = DEFAULT_POINTS, species: Sequence[str] = (),
               beyond_range: bool = False, registry: Registry | None = None) -> Sweep:
@@ -249,8 +261,8 @@ def _finish(bench: CompiledRecipe, kind: str, variable: str, values: np.ndarray,
     With *beyond_range* the points past the model's range are kept, with a warning.
     """
     limit = bench.model.max_ionic_strength
-    bad = state.status != "converged"
-    outside = state.equilibrium.ionic_strength > limit * (1.0 + RANGE_TOLERANCE)
+    bad = ~succeeded(state.status)
+    outside = beyond_model_range(bench.model, state.equilibrium.ionic_strength)
     beyond = outside & ~beyond_range
     stop = np.flatnonzero(bad | beyond)
     stopped = ""
@@ -277,12 +289,14 @@ def _finish(bench: CompiledRecipe, kind: str, variable: str, values: np.ndarray,
     notes = list(state.notes)
     if beyond_range and outside[:kept].any():
         first = values[np.flatnonzero(outside[:kept])[0]]
-        notes.append(f"from {variable.replace('_', ' ')} {first:.6g} on, the ionic strength "
-                     f"is beyond the {bench.model.name} model's range (up to about {limit:g}); "
-                     "those points are less certain")
+        notes.append(Notice(
+            VALIDITY, "model-range", f"from {variable.replace('_', ' ')} {first:.6g} on, the "
+            f"ionic strength is beyond the {bench.model.name} model's range (up to about "
+            f"{limit:g}); those points are less certain",
+            {"model": bench.model.name, "from": float(first), "limit": limit}))
     return Sweep(kind, variable, values[:kept], bench, kept_state, chosen,
                  buffer_capacity(kept_state) if kept else np.zeros(0),
-                 saturation=_saturation(bench, kept_state), warnings=notes, stopped=stopped)
+                 saturation=_saturation(bench, kept_state), notices=notes, stopped=stopped)
 
 
 def _take_state(state: PhaseEquilibrium, rows: np.ndarray) -> PhaseEquilibrium:

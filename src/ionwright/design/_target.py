@@ -24,10 +24,11 @@ import numpy as np
 from ..chemistry._density import ingredient_solute
 from ..chemistry._ingredients import Makeup, makeup
 from ..core._phases import PhaseEquilibrium
-from ..engine._compiled import CompiledRecipe
+from ..engine._compiled import CompiledRecipe, not_converged
 from ..engine._solve import compile_recipe
-from ..errors import ConvergenceError, RecipeError, UnreachableTargetError
+from ..errors import RecipeError, UnreachableTargetError, names_its_arguments
 from ..inputs._checks import as_number, check_ph, positive
+from ..notices import CAUTION, of_category, texts
 from ..inputs._mixing import stock_portion
 from ..inputs._recipe import Recipe
 from ..inputs._units import expect, parse_quantity
@@ -127,6 +128,7 @@ class TargetResult:
         return "\n".join(lines) + "\n\n" + r.report()
 
 
+@names_its_arguments
 def target(recipe: str | Path | Mapping[str, Any] | Recipe, pH: float, adjust: str,
            stock: str | None = None, registry: Registry | None = None) -> TargetResult:
     """The amount of ingredient *adjust* that brings *recipe* to *pH* at its temperature.
@@ -166,7 +168,7 @@ def target(recipe: str | Path | Mapping[str, Any] | Recipe, pH: float, adjust: s
         amount = s * held.moles_per_L / (1.0 + s * held.water_kg_per_L)
         volume = 1000.0 * s
     water = bench.recipe.solution.water_kg if bench.recipe.solution is not None else 1.0
-    notes = [w for w in result.warnings if w.startswith("CAUTION")]
+    notes = texts(of_category(result.notices, CAUTION))
     if held is not None:
         notes += stock_cautions(held, bench)
     return TargetResult(made.name, pH, amount, result, held, volume, water, notes)
@@ -190,11 +192,12 @@ def find_dose(bench: CompiledRecipe, totals_of: Callable[[np.ndarray], np.ndarra
 
     doses = np.concatenate([[0.0], np.logspace(np.log10(ceiling) - 12, np.log10(ceiling),
                                                SCAN_POINTS)])
-    scan = bench.pH(bench.solve(totals_of(doses), t_C))
+    scanned = bench.solve(totals_of(doses), t_C)
+    scan = bench.pH(scanned)
     ok = np.isfinite(scan)
     if not ok[0]:
-        raise ConvergenceError("not converged", 0, float("nan"),
-                               f"the recipe {bench.recipe.origin} itself does not solve")
+        raise not_converged(scanned.equilibrium, 0,
+                            f"the recipe {bench.recipe.origin} itself does not solve")
     gap = scan - pH
     sign_change = np.flatnonzero(ok[:-1] & ok[1:] & (np.sign(gap[:-1]) != np.sign(gap[1:])))
     if gap[0] == 0.0:
@@ -209,10 +212,11 @@ def find_dose(bench: CompiledRecipe, totals_of: Callable[[np.ndarray], np.ndarra
     k = int(sign_change[0])
 
     def gap_at(s: float) -> float:
-        value = bench.pH(bench.solve(totals_of(np.array([s])), t_C))[0]
+        state = bench.solve(totals_of(np.array([s])), t_C)
+        value = bench.pH(state)[0]
         if not np.isfinite(value):
-            raise ConvergenceError("not converged", 0, float("nan"),
-                                   f"at a dose of {s:.6g} {unit} of {ingredient}")
+            raise not_converged(state.equilibrium, 0,
+                                f"at a dose of {s:.6g} {unit} of {ingredient}")
         return float(value - pH)
 
     s = brentq(gap_at, doses[k], doses[k + 1], xtol=1e-300, rtol=4 * np.finfo(float).eps,
@@ -244,4 +248,4 @@ def stock_cautions(stock: Stock, bench: CompiledRecipe) -> list[str]:
                              "activity_model": "ideal", "tables": list(bench.recipe.tables),
                              "temperature_C": bench.recipe.temperature_C}, bench.registry)
     result = estimate.result(estimate.solve(estimate.base))
-    return [f"the stock {stock.label}: {c}" for c in cautions(result) if c.startswith("CAUTION")]
+    return [f"the stock {stock.label}: {c.text}" for c in of_category(cautions(result), CAUTION)]

@@ -23,6 +23,7 @@ from ..chemistry._tableset import TableSet
 from ..core import _solver as solver
 from ..core._phases import (PhaseChoice, PhaseEquilibrium, _take, components_needed, describe,
                             equilibrate, failure, read_phases)
+from ..core._solver import Equilibrium
 from ..core._system import PROTON, WATER, ChemicalSystem, compile_system
 from ..errors import ConvergenceError, RecipeError
 from ..inputs._recipe import Recipe, read_recipe
@@ -30,6 +31,7 @@ from ..inputs._solubility_limits import refuse_past_any_solubility
 from ..outputs._result import Result
 from ..plugins._registry import Registry, default_registry
 from ..plugins._table_sets import load_tables
+from ..status import succeeded
 from ._totals import check_totals, component_totals
 
 LN10 = np.log(10.0)
@@ -110,9 +112,8 @@ class CompiledRecipe:
         t = self.recipe.temperature_C
         eq = solver.solve(self.system, self.base[None, :], _bound(self.model, self.system, t),
                           self.fixed()[None, :])
-        if eq.status[0] != "converged":
-            raise ConvergenceError(str(eq.status[0]), int(eq.iterations[0]),
-                                   float(eq.residual[0]), f"recipe {self.recipe.origin}")
+        if not eq.success[0]:
+            raise not_converged(eq, 0, f"recipe {self.recipe.origin}")
         return Result(recipe=self.recipe, tables=self.tables, system=self.system,
                       model=self.model, equilibrium=eq, totals=self.totals,
                       makeups=self.makeups,
@@ -150,13 +151,10 @@ class CompiledRecipe:
     def result(self, state: PhaseEquilibrium, k: int = 0, *, strict: bool = True) -> Result:
         """The :class:`Result` of sample *k*; a failed sample raises ConvergenceError."""
         eq = _take(state.equilibrium, np.array([k]))
-        if strict and eq.status[0] != "converged":
+        if strict and not eq.success[0]:
             what, hint = failure(state, k)
-            raise ConvergenceError(str(eq.status[0]), int(eq.iterations[0]),
-                                   float(eq.residual[0]),
-                                   "; ".join(filter(None, [what,
-                                                           f"recipe {self.recipe.origin}"])),
-                                   hint)
+            raise not_converged(eq, 0, "; ".join(filter(None, [what, f"recipe "
+                                                               f"{self.recipe.origin}"])), hint)
         t = float(state.t_C[k])
         recipe = self.recipe if t == self.recipe.temperature_C else replace(
             self.recipe, temperature_C=t)
@@ -169,7 +167,13 @@ class CompiledRecipe:
     def pH(self, state: PhaseEquilibrium) -> np.ndarray:
         """pH of every sample (NaN where the solve failed)."""
         ph = -state.equilibrium.log_activity[:, 0] / LN10
-        return np.where(state.status == "converged", ph, np.nan)
+        return np.where(succeeded(state.status), ph, np.nan)
+
+
+def not_converged(eq: Equilibrium, k: int, detail: str, hint: str = "") -> ConvergenceError:
+    """The :class:`ConvergenceError` of sample *k* of *eq*, with its real diagnostics."""
+    return ConvergenceError(str(eq.status[k]), int(eq.iterations[k]), float(eq.residual[k]),
+                            detail, hint)
 
 
 def empty_note(recipe: Recipe) -> list[str]:

@@ -19,6 +19,7 @@ from ..core import _solver as solver
 from ..core._acid_base import alkalinity_weights, ideal_shares, series
 from ..core._system import ChemicalSystem, compile_system
 from ..errors import ConvergenceError, RecipeError
+from ..status import MAX_ITERATIONS
 from ..inputs._analysis import CARBONATE, AnalysisFit, analysis_mixture, finish_analysis
 from ..inputs._recipe import Recipe
 from ..plugins._registry import Registry, default_registry
@@ -116,8 +117,9 @@ def fit_carbonate_and_balance(tables: TableSet, registry: Registry | None, model
         jac = (res[1:] - res[0]).T / (x * STEP)
         trial = x + np.linalg.lstsq(jac, -res[0], rcond=None)[0]
         x = np.where(trial > floor, trial, np.maximum(0.1 * x, floor))
-    raise ConvergenceError("max-iterations", FIT_ROUNDS, float(np.max(np.abs(res[0]))),
-                           f"fitting carbonate or balance for {where}")
+    raise ConvergenceError(MAX_ITERATIONS, FIT_ROUNDS, float(np.max(np.abs(res[0]))),
+                           f"fitting carbonate or balance for {where}", tolerance=FIT_TOLERANCE,
+                           what="scaled residual of the fitted alkalinity or charge")
 
 
 def _residuals(molality: np.ndarray, weights: np.ndarray, charge: np.ndarray,

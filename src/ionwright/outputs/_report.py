@@ -39,7 +39,7 @@ def text_report(result) -> str:
     hidden = len(r.species_rows()) - min(len(rows), SPECIES_SHOWN)
     if hidden:
         lines.append(f"(+{hidden} species below {MIN_SHOWN_MOLALITY:g} mol/kg or past the "
-                     f"first {SPECIES_SHOWN}; --json lists all)")
+                     f"first {SPECIES_SHOWN}; the JSON result lists all)")
     dist = r.distribution()
     if dist:
         lines += ["", "where each component is (share of its total)"]

@@ -13,9 +13,9 @@ from ._buffer_quantities import buffer_quantities, recipe_in_grams
 from ._conductivity import METHOD as CONDUCTIVITY_METHOD, result_conductivity
 from ._derived import derived_quantities, solution_summary
 from ._osmolality import Osmotic, osmotic
-from ._model_numbers import model_validity_notes
+from ..notices import DATA_QUALITY, INPUT, VALIDITY, Notice, texts, wrap
+from ._model_numbers import beyond_model_range, model_range_notice, model_validity_notes
 from ._phase_report import phase_summary
-from ..activity._validity import within
 from ..inputs._mixing import Solution
 from ..inputs._recipe import solution_of
 from ._provenance import constants_used, ion_pairs, override_warnings
@@ -69,27 +69,33 @@ class Result(Speciation):
         return recipe_in_grams(self, self.solution.water_kg, self.solution.volume_L)
 
     @cached_property
-    def warnings(self) -> list[str]:
+    def notices(self) -> list[Notice]:
+        """Everything the reader should know about this result, as typed notices."""
         out = list(self.notes)
         if self.recipe.solution is not None:  # stocks dosed from an extrapolated density
-            out.extend(self.recipe.solution.warnings)
-        limit = self.model.max_ionic_strength
-        if not within(self.ionic_strength, limit):
-            out.append(f"ionic strength {self.ionic_strength:.3g} mol/kg is beyond the range "
-                       f"of the {self.model.name} model (up to about {limit:g}); results are "
-                       f"less certain; compare models or use one valid at this strength")
+            out.extend(wrap(self.recipe.solution.warnings, INPUT, "stock-density"))
+        if beyond_model_range(self.model, self.ionic_strength):
+            out.append(model_range_notice(self.model, self.ionic_strength))
         out.extend(model_validity_notes(self))
-        out.extend(supersaturation_warnings(self))
+        out.extend(wrap(supersaturation_warnings(self), VALIDITY, "supersaturated"))
         if "pH" in self.recipe.fix:
             imbalance, scale = self.charge_balance
             if scale > 0 and abs(imbalance) / scale > IMBALANCE_WARNING:
-                out.append(f"with pH fixed at {self.recipe.fix['pH']:g} the solution is not "
-                           f"electroneutral: Σz·m = {imbalance:+.3g} mol/kg "
-                           f"({100 * imbalance / scale:+.2g} % of Σ|z|·m); an unlisted "
-                           f"ion or acid/base would make up the difference")
+                out.append(Notice(
+                    DATA_QUALITY, "fixed-ph-imbalance",
+                    f"with pH fixed at {self.recipe.fix['pH']:g} the solution is not "
+                    f"electroneutral: Σz·m = {imbalance:+.3g} mol/kg "
+                    f"({100 * imbalance / scale:+.2g} % of Σ|z|·m); an unlisted "
+                    f"ion or acid/base would make up the difference",
+                    {"imbalance_mol_per_kg": imbalance, "scale_mol_per_kg": scale}))
         out.extend(override_warnings(self))
         out.extend(cautions(self))
         return out
+
+    @property
+    def warnings(self) -> list[str]:
+        """The texts of :attr:`notices` (the ``"warnings"`` of the JSON contract)."""
+        return texts(self.notices)
 
     # -- outputs ----------------------------------------------------------------------
     def species_rows(self) -> list[dict[str, Any]]:
@@ -128,6 +134,7 @@ class Result(Speciation):
             "solution": solution_summary(self),
             "phases": phase_summary(self),
             "warnings": self.warnings,
+            "notices": [n.to_dict() for n in self.notices],
         }
 
     def to_frame(self):

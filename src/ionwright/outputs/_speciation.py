@@ -13,6 +13,7 @@ from ..chemistry._tableset import TableSet
 from ..core._solver import Equilibrium
 from ..core._system import PROTON, WATER, ChemicalSystem, log10_k_at
 from ..inputs._recipe import Recipe
+from ..notices import Notice
 
 LN10 = np.log(10.0)
 
@@ -32,7 +33,7 @@ class Speciation:
     equilibrium: Equilibrium
     totals: dict[str, float]
     makeups: list[Makeup]
-    notes: list[str] = field(default_factory=list)
+    notes: list[Notice] = field(default_factory=list)
     phases: dict[str, Any] = field(default_factory=dict)  # solids and gases: phases.py
 
     # -- numbers ----------------------------------------------------------------------
