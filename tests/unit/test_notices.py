@@ -34,11 +34,14 @@ def test_json_keeps_warnings_as_texts_and_adds_the_notices():
     assert corrosive[0]["data"]["pH"] == pytest.approx(result.pH)
 
 
-def test_constants_used_far_from_their_range_are_validity_notices_with_their_entry():
-    result = ionwright.solve({"dissolve": {"NaHCO3": 0.01}, "temperature_C": 9.5})
-    flat = [n for n in result.notices if n.code == "no-temperature-dependence"]
-    assert flat and all(n.category == "validity" for n in flat)
-    assert {n.data["entry"] for n in flat} <= set(result.tables.species)
+def test_constants_used_outside_their_range_are_validity_notices_with_their_entry():
+    result = ionwright.solve({"dissolve": {"NaHCO3": 0.01, "CaCl2": 0.01}, "temperature_C": 2.0})
+    ranged = [n for n in result.notices if n.code == "temperature-range"]
+    assert ranged and all(n.category == "validity" for n in ranged)
+    for notice in ranged:
+        low, high = notice.data["range_C"]
+        assert not low <= 2.0 <= high
+        assert notice.data["entry"] in result.system.species
 
 
 def test_cautions_are_chosen_by_category_not_by_their_wording():
