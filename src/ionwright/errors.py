@@ -29,27 +29,42 @@ def close_matches(name: str, choices: Iterable[str], n: int = 3) -> list[str]:
 
 
 class IonwrightError(Exception):
-    """Root of all errors raised by ionwright for bad input or unsolvable problems."""
+    """Root of all errors raised by ionwright for bad input or unsolvable problems.
+
+    :attr:`message` says what is wrong and where, :attr:`hint` how to fix it; both are
+    rendered when read, so that the command line can set :attr:`flags` (argument name →
+    option) and have the same error name the options the user typed.
+    """
 
     def __init__(self, message: str = "", hint: str = "") -> None:
         super().__init__(message, hint)
-        self.message = message
-        self.hint = hint
+        self._message = message
+        self._hint = hint
         self.flags: dict[str, str] = {}
 
+    @property
+    def message(self) -> str:
+        return self._with_flags(self._what())
+
+    @property
+    def hint(self) -> str:
+        return self._with_flags(self._hint)
+
+    def _what(self) -> str:
+        return self._message
+
     def __str__(self) -> str:
-        return self._with_flags(f"{self.message}\n  hint: {self.hint}" if self.hint
-                                else self.message)
+        return f"{self.message}\n  hint: {self.hint}" if self._hint else self.message
 
     def _with_flags(self, text: str) -> str:
         """*text* with each argument written ``name=`` replaced by its command-line option,
-        when the command line has set :attr:`flags` (argument name → option)."""
+        when the command line has set :attr:`flags`."""
         for name, flag in getattr(self, "flags", {}).items():
             text = re.sub(rf"(?<![\w-]){re.escape(name)}=(True\b)?",
                           lambda m, flag=flag: _as_option(m, flag), text)
         return text
 
-    def __reduce__(self):  # keep the subclass and both fields when pickled
+    def __reduce__(self):  # keep the subclass and its fields when pickled
         return (_rebuild, (type(self), self.__dict__))
 
 
@@ -64,7 +79,7 @@ def _as_option(match: re.Match[str], flag: str) -> str:
 
 def _rebuild(cls, state):
     obj = cls.__new__(cls)
-    Exception.__init__(obj, state.get("message", ""), state.get("hint", ""))
+    Exception.__init__(obj, state.get("_message", ""), state.get("_hint", ""))
     obj.__dict__.update(state)
     return obj
 
@@ -108,7 +123,7 @@ class RecipeError(IonwrightError, ValueError):
         super().__init__(problem, hint)
         self.where, self.problem, self.parameter = where, problem, parameter
 
-    def __str__(self) -> str:
+    def _what(self) -> str:
         flags = getattr(self, "flags", {})
         if self.parameter is None:
             place = f"recipe {self.where}"
@@ -116,8 +131,7 @@ class RecipeError(IonwrightError, ValueError):
             place = flags[self.parameter] + self.where[len(self.parameter):]
         else:
             place = f"argument {self.where}"
-        return self._with_flags(f"{place}: {self.problem}"
-                                + (f"\n  hint: {self.hint}" if self.hint else ""))
+        return f"{place}: {self.problem}"
 
 
 def names_its_arguments(function: Callable[P, T]) -> Callable[P, T]:
@@ -166,6 +180,7 @@ class UnknownNameError(IonwrightError, KeyError):
 
 #: Relative mass-balance residual the solver accepts (core/_newton/numerics.py uses it).
 RESIDUAL_TOLERANCE = 1e-10
+MASS_BALANCE = "relative mass-balance residual"
 
 
 class ConvergenceError(IonwrightError, ArithmeticError):
@@ -178,10 +193,11 @@ class ConvergenceError(IonwrightError, ArithmeticError):
 
     def __init__(self, status: str, iterations: int, residual: float, detail: str = "",
                  hint: str = "", tolerance: float = RESIDUAL_TOLERANCE,
-                 what: str = "relative mass-balance residual") -> None:
+                 what: str = MASS_BALANCE) -> None:
         balanced = residual <= tolerance   # NaN is not
-        found = (f"the {what.removeprefix('relative ')} converged (worst {residual:.3g}, "
-                 f"tolerance {tolerance:.3g})" if balanced else
+        converged = ("the mass balances" if what == MASS_BALANCE else f"the {what}")
+        found = (f"{converged} converged (worst {what} {residual:.3g}, tolerance "
+                 f"{tolerance:.3g})" if balanced else
                  f"worst {what} {residual:.3g} (tolerance {tolerance:.3g})")
         super().__init__(
             f"solver stopped with status {status!r} after {iterations} iterations; {found}"

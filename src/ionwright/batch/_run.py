@@ -219,8 +219,8 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         raw = frame.iloc[:, k]
         if pd.api.types.is_bool_dtype(raw):  # yes/no values are no amount
             _flag(problem, raw.notna().to_numpy(), lambda r: f"column {col.header!r}: "
-                  f"{raw.iloc[r]!r} is a yes/no value, not a number (a column to carry "
-                  "through unread goes in labels=[...], or --label)")
+                  f"{raw.iloc[r]!r} is a yes/no value, not a number (name a column to carry "
+                  "through unread as a label)")
         numbers = pd.to_numeric(raw, errors="coerce").to_numpy(dtype=float)
         empty = raw.isna().to_numpy().copy()
         if not pd.api.types.is_numeric_dtype(raw):

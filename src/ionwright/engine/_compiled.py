@@ -31,6 +31,7 @@ from ..inputs._solubility_limits import refuse_past_any_solubility
 from ..outputs._result import Result
 from ..plugins._registry import Registry, default_registry
 from ..plugins._table_sets import load_tables
+from ..notices import CONSTANTS, INPUT, Notice, wrap
 from ..status import succeeded
 from ._totals import check_totals, component_totals
 
@@ -118,9 +119,13 @@ class CompiledRecipe:
                       model=self.model, equilibrium=eq, totals=self.totals,
                       makeups=self.makeups,
                       notes=[*eq.notes, *self.system.temperature_notes(np.array([t])),
-                             *empty_note(self.recipe),
-                             *self.registry.replacement_notes(self.recipe.activity_model,
-                                                              self.recipe.tables)])
+                             *empty_note(self.recipe), *self._replacements()])
+
+    def _replacements(self) -> list[Notice]:
+        """Notices for plugins that replace a bundled model or table this recipe uses."""
+        return wrap(self.registry.replacement_notes(self.recipe.activity_model,
+                                                    self.recipe.tables),
+                    CONSTANTS, "plugin-replacement")
 
     # -- batches ---------------------------------------------------------------------
     def solve(self, totals: np.ndarray, t_C: float | np.ndarray | None = None,
@@ -142,9 +147,7 @@ class CompiledRecipe:
         state = equilibrate(self.system, self.tables, totals, bound, t, self.choice,
                             np.broadcast_to(fixed, totals.shape))
         state.notes = [*state.equilibrium.notes, *self.system.temperature_notes(t),
-                       *self.choice.notes,
-                       *self.registry.replacement_notes(self.recipe.activity_model,
-                                                        self.recipe.tables)]
+                       *self.choice.notes, *self._replacements()]
         state.traced = traced
         return state
 
@@ -176,12 +179,12 @@ def not_converged(eq: Equilibrium, k: int, detail: str, hint: str = "") -> Conve
                             detail, hint)
 
 
-def empty_note(recipe: Recipe) -> list[str]:
-    """A warning for a recipe that dissolves nothing (a typo can empty [dissolve])."""
+def empty_note(recipe: Recipe) -> list[Notice]:
+    """A notice for a recipe that dissolves nothing (a typo can empty [dissolve])."""
     if recipe.dissolve or recipe.components or recipe.phases:
         return []
-    return [f"the recipe {recipe.origin} dissolves nothing: this is pure water; list the "
-            "ingredients under [dissolve] (e.g. NaCl = 0.1)"]
+    return [Notice(INPUT, "empty-recipe", f"the recipe {recipe.origin} dissolves nothing: this "
+                   "is pure water; list the ingredients under [dissolve] (e.g. NaCl = 0.1)")]
 
 
 def _bound(model, system: ChemicalSystem, t_C: float):
