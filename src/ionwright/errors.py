@@ -61,7 +61,7 @@ class IonwrightError(Exception):
         when the command line has set :attr:`flags`."""
         for name, flag in getattr(self, "flags", {}).items():
             text = re.sub(rf"(?<![\w-]){re.escape(name)}=(True\b)?",
-                          lambda m, flag=flag: _as_option(m, flag), text)
+                          functools.partial(_as_option, flag=flag), text)
         return text
 
     def __reduce__(self):  # keep the subclass and its fields when pickled

@@ -266,7 +266,7 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         if problem[r]:
             continue
         try:
-            row_totals, t, ph = _recipe_row(plan, values, r, tables, model, registry)
+            row_totals, t, ph = _recipe_row(plan, values, int(r), tables, model, registry)
         except IonwrightError as exc:
             problem[r] = _row_message(exc, plan)
             continue
@@ -293,7 +293,7 @@ def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: Ta
     from ..inputs._recipe import read_recipe
 
     cells = {c.header: float(values[c.header][r]) for c in plan.columns if c.header in values}
-    analysis = {c.key: f"{cells[c.header]!r} {c.unit}" for c in plan.columns
+    analysis: dict[str, Any] = {c.key: f"{cells[c.header]!r} {c.unit}" for c in plan.columns
                 if c.kind == "analysis" and cells[c.header] > 0}
     dissolve = {c.key: (float(cells[c.header]) if c.kind == "ingredient"
                         else f"{cells[c.header]!r} {c.unit}")
@@ -421,10 +421,10 @@ def _saturation(system: ChemicalSystem, tables: TableSet, eq: solver.Equilibrium
         res = tables.resolve(name, "solids")
         if not set(res.stoichiometry) <= allowed:
             continue
-        log_iap = 0
+        log_iap: float | np.ndarray = 0.0
         for comp, nu in res.stoichiometry.items():
             log_iap = log_iap + nu * log_a[comp]
-        log10_k = 0
+        log10_k: float | np.ndarray = 0.0
         for _, mult, logk in res.terms:
             log10_k = log10_k + mult * log10_k_at(logk, t[ok])
         target[good, j] = log_iap - log10_k
@@ -510,8 +510,8 @@ def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
     if engine not in ENGINES:
         raise UnknownNameError("engine", engine, ENGINES, f"engines: {', '.join(ENGINES)}")
     _check_frame(frame)
-    options = dict(species=None if species is None else list(species), model=model,
-                   tables=list(tables), labels=list(labels))
+    options: dict[str, Any] = dict(species=None if species is None else list(species),
+                                   model=model, tables=list(tables), labels=list(labels))
     if engine == "dask":
         return _dask_batch(frame, {**options, "threads": 1}, address, partition_rows)
     return _solve_frame(frame, registry=registry, threads=threads, **options)

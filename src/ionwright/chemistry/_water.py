@@ -71,7 +71,7 @@ def density(t_C: ArrayOrFloat) -> ArrayOrFloat:
 
 def _malmberg_maryott(t_C: npt.NDArray[np.float64]) -> npt.NDArray[np.float64]:
     """Malmberg & Maryott (1956), J. Res. NBS 56, 1: cubic in t/°C, 0–100 °C."""
-    return np.polynomial.polynomial.polyval(t_C, _MALMBERG_MARYOTT)
+    return np.asarray(np.polynomial.polynomial.polyval(t_C, _MALMBERG_MARYOTT), dtype=float)
 
 
 def _bradley_pitzer(t_C: npt.NDArray[np.float64]) -> npt.NDArray[np.float64]:

@@ -32,7 +32,7 @@ import math
 import re
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from typing import Any
+from typing import Any, cast
 
 import numpy as np
 
@@ -196,7 +196,7 @@ def log10_pressure(value: Any, where: str = "pressure") -> float:
         if not match:
             raise RecipeError(where, f"cannot read the partial pressure {value!r}", hint)
         exponent = match["exp"]
-        number = None if exponent is not None else float(match["num"])
+        number = math.nan if exponent is not None else float(match["num"])
         unit = match["unit"] or "atm"
     if unit not in ATM_PER_UNIT:
         near = [u for u in ATM_PER_UNIT if u.lower() == unit.lower()]
@@ -253,8 +253,10 @@ class PhaseReaction:
         formation constant: :meth:`TableSet.resolve` gives those terms negative multipliers.
         """
         t_C = np.atleast_1d(np.asarray(t_C, dtype=float))
-        return sum(mult * np.asarray(log10_k_at(logk, t_C), dtype=float)
-                   for _, mult, logk in self.resolved.terms)
+        out = np.zeros(t_C.shape)
+        for _, mult, logk in self.resolved.terms:
+            out = out + mult * np.asarray(log10_k_at(logk, t_C), dtype=float)
+        return out
 
 
 def phase_reaction(system: ChemicalSystem, tables: TableSet, name: str, kind: str
@@ -431,7 +433,9 @@ def equilibrate(system: ChemicalSystem, tables: TableSet, totals: np.ndarray, bo
     t_C = np.broadcast_to(np.asarray(t_C, dtype=float), (n,)).copy()
     fixed = (np.full((n, c), np.nan) if fixed_log10_activity is None
              else np.array(np.broadcast_to(fixed_log10_activity, (n, c)), dtype=float))
-    gases = [phase_reaction(system, tables, g.name, "gas") for g in choice.gases]
+    # a gas's components are in the system (components_needed), so none is None
+    gases = [cast(PhaseReaction, phase_reaction(system, tables, g.name, "gas"))
+             for g in choice.gases]
     basis = gas_basis(system, gases, ~np.isnan(fixed[0]))
     for gas, col in zip(choice.gases, basis.pivots):
         fixed[:, col] = gas.log10_pressure_atm
@@ -523,8 +527,8 @@ class _Work:
         fixed_columns = ~self.free
         new_totals[:, fixed_columns] = np.maximum(np.abs(new_totals[:, fixed_columns]),
                                                   FIXED_COLUMN_ALLOWANCE)
-        eq = solver.solve(self.basis, new_totals, bound_slice(self.bound, rows),
-                          self.fixed[rows])
+        eq = solver.solve(cast(ChemicalSystem, self.basis),  # a basis reads as a system
+                          new_totals, bound_slice(self.bound, rows), self.fixed[rows])
         return eq, self.saturation(eq, rows)
 
     def saturation(self, eq: Equilibrium, rows: np.ndarray) -> np.ndarray:
@@ -763,7 +767,7 @@ def describe(state: PhaseEquilibrium, k: int) -> dict[str, dict[str, Any]]:
             "kind": "solid", "mode": mode.mode, "state": _solid_state(state, k, j),
             "into_solution_mol_per_kg": xi, "into_solution_g_per_kg": xi * solid.molar_mass,
             "saturation_index": float(state.saturation_index[k, j])}
-        if mode.mode == AMOUNT:
+        if mode.amount_mol_per_kg is not None:  # given as an amount
             entry["available_mol_per_kg"] = mode.amount_mol_per_kg
             entry["left_mol_per_kg"] = mode.amount_mol_per_kg - xi
         out[solid.name] = entry

@@ -144,7 +144,8 @@ class _ParameterReader:
     }
 
     def __init__(self, data: dict[str, Any], origin: str) -> None:
-        self.data, self.origin, self.problems = data, origin, []
+        self.data, self.origin = data, origin
+        self.problems: list[str] = []
         self.sources: dict[str, str] = {}
 
     def read(self) -> PitzerParameters:
@@ -247,9 +248,10 @@ class _ParameterReader:
             self.problems.append(f"{where}: ions must list {count} species names")
             return None
         charges = [self._charge(i, where) for i in ions]
-        if None in charges:
+        known = [z for z in charges if z is not None]
+        if len(known) != len(charges):
             return None
-        return list(zip(ions, charges))
+        return list(zip(ions, known))
 
     # -- entry builders ---------------------------------------------------------------
     def _binary(self, e: dict, where: str) -> CationAnion | None:

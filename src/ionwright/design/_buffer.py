@@ -269,7 +269,7 @@ def design_buffer(buffer: str, pH: float, concentration: str, *, temperature_C: 
     extras = [split_name_and_quantity(w, "with_") for w in with_]
     base = {"temperature_C": t_use, "activity_model": activity_model, "tables": list(tables),
             "volume": volume}
-    titrant_name = titrant_stock = None
+    titrant_name = titrant_stock = ""
     cation = "Na+"
     if titrant is not None:
         titrant_name, titrant_stock = split_name_and_quantity(titrant, "titrant")

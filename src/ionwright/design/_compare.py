@@ -72,7 +72,7 @@ def _significant_ions(result: Result) -> list[int]:
     strength = share.sum()
     if strength <= 0:
         return []
-    return [i for i in np.flatnonzero(z2 > 0) if share[i] >= SIGNIFICANT_SHARE * strength]
+    return [int(i) for i in np.flatnonzero(z2 > 0) if share[i] >= SIGNIFICANT_SHARE * strength]
 
 
 # ---------------------------------------------------------------------------------------
@@ -219,7 +219,7 @@ class PhSpread:
 
     @property
     def spread(self) -> float | None:
-        return None if self.low is None else self.high - self.low
+        return None if self.low is None or self.high is None else self.high - self.low
 
     def sentence(self, strength: str) -> str:
         """The spread in words; *strength* is the ionic strength as text (mol/kg)."""
@@ -253,7 +253,7 @@ def ph_spread(outcomes: list[ModelOutcome] | tuple[ModelOutcome, ...]) -> PhSpre
     within = [o for o in outcomes if o.converged and o.valid]
     if not within:
         return PhSpread((), None, None)
-    values = [o.result.pH for o in within]
+    values = [o.result.pH for o in within if o.result is not None]
     return PhSpread(tuple(o.name for o in within), min(values), max(values))
 
 

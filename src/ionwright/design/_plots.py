@@ -15,6 +15,7 @@ import numpy as np
 from ..errors import names_its_arguments
 
 if TYPE_CHECKING:  # pragma: no cover
+    from matplotlib.axes import Axes
     from matplotlib.figure import Figure
 
     from ._sweep import Sweep
@@ -31,7 +32,7 @@ RELEVANT_SI = -4.0      # solids never above this SI are left out unless asked f
 SUFFIXES = (".png", ".svg")
 
 
-def _figure() -> tuple[Figure, object]:
+def _figure() -> tuple[Figure, Axes]:
     from matplotlib.figure import Figure
 
     fig = Figure(figsize=SIZE, layout="constrained")

@@ -287,6 +287,7 @@ def _finish(bench: CompiledRecipe, kind: str, variable: str, values: np.ndarray,
         if s not in bench.system.species:
             _unknown_species(bench, s)
     notes = list(state.notes)
+    outside = np.asarray(outside)
     if beyond_range and outside[:kept].any():
         first = values[np.flatnonzero(outside[:kept])[0]]
         notes.append(Notice(
@@ -393,9 +394,9 @@ def _diluted(bench: CompiledRecipe, factor: float) -> np.ndarray:
     for name, m in recipe.components:
         entries.append(Entry(component_solute(name, bench.tables), "component", name, "",
                              absolute=m * solution.water_kg))
-    made = mix(entries, recipe.temperature_C, volume_L=factor * solution.volume_L,
-               where="dilution")
-    return bench.base * solution.water_kg / made.solution.water_kg
+    diluted = mix(entries, recipe.temperature_C, volume_L=factor * solution.volume_L,
+                  where="dilution")
+    return bench.base * solution.water_kg / diluted.solution.water_kg
 
 
 def _range(text: str, where: str) -> tuple[float, float]:

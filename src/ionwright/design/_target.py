@@ -100,7 +100,7 @@ class TargetResult:
             "amount_mol_per_kg": self.amount_mol_per_kg, "pH": self.pH,
             "temperature_C": self.result.temperature_C,
             "grams_per_kg_water": self.amount_mol_per_kg * self.molar_mass}
-        if self.stock is not None:
+        if self.stock is not None and self.stock_mL_per_kg_water is not None:
             out["stock"] = self.stock.label
             out["stock_mL_per_kg_water"] = self.stock_mL_per_kg_water
             out["stock_mL_for_recipe"] = self.stock_mL_per_kg_water * self.recipe_water_kg
@@ -119,7 +119,7 @@ class TargetResult:
         lines = [f"dose to pH {self.target_pH:g} at {r.temperature_C:g} °C",
                  (f"  {self.ingredient:<18}{1000 * self.amount_mol_per_kg:12.5g} mmol per kg "
                   f"of water ({grams:.5g} g/kg)")]
-        if self.stock is not None:
+        if self.stock is not None and self.stock_mL_per_kg_water is not None:
             lines.append(f"  as {self.stock.label:<15}{self.stock_mL_per_kg_water:12.5g} mL per "
                          f"kg of the recipe's water ({self.stock_mL_per_kg_water * self.recipe_water_kg:.5g} "
                          f"mL for the recipe as written)")

@@ -136,7 +136,7 @@ def _residuals(molality: np.ndarray, weights: np.ndarray, charge: np.ndarray,
 def _first_guess(component: str, totals: Mapping[str, float], alkalinity: float | None,
                  system: ChemicalSystem, t_C: float, ph: float) -> float:
     """Start: carbonate from ideal carbonic-acid fractions; the balancing ion as given."""
-    if component != CARBONATE:
+    if component != CARBONATE or alkalinity is None:
         return max(totals.get(component, 0.0), 1e-6)
     formation = system.log10_k(np.array([t_C]))[0]
     weights = alkalinity_weights(system, t_C)

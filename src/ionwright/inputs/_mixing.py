@@ -169,12 +169,13 @@ def mix(entries: Iterable[Entry], t_C: float, *, water_kg: float | None = None,
     else:
         water = 1.0
     volume = volume_L if volume_L is not None else water / rho_w
+    moles: tuple[float, ...] = ()
     for _ in range(MAX_ROUNDS):
         try:
             fixed_mass = 1000.0 * water + sum(
                 e.solute.molar_mass * (e.moles(water, volume, 0.0)) for e in entries)
             mass = fixed_mass / (1.0 - fraction)
-            moles = [e.moles(water, volume, mass) for e in entries]
+            moles = tuple(e.moles(water, volume, mass) for e in entries)
             if density is not None:
                 made = mass / (1000.0 * density)
             else:

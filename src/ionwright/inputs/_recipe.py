@@ -193,12 +193,12 @@ def _from_mapping(data: dict[str, Any], origin: str, base_dir: Path,
         if "temperature_C" in data:
             raise RecipeError(f"{origin} temperature_C", "an analysis gives its "
                               "temperature in [analysis]", "move temperature_C there")
-        tables = _tables(recipe, registry)
-        fit = read_analysis(data["analysis"], origin, tables)
+        table_set = _tables(recipe, registry)
+        fit = read_analysis(data["analysis"], origin, table_set)
         if fit.needs_engine:
             return replace(recipe, temperature_C=fit.t_C, pending=fit)
-        mixture = analysis_mixture(fit, {}, tables)
-        return plausible(replace(recipe, **finish_analysis(fit, mixture, {}, {}, tables)))
+        mixture = analysis_mixture(fit, {}, table_set)
+        return plausible(replace(recipe, **finish_analysis(fit, mixture, {}, {}, table_set)))
     return plausible(_composed(data, recipe, registry, chain))
 
 

@@ -100,7 +100,8 @@ def override_warnings(result: Speciation) -> list[Notice]:
     used = set(_used_entries(result))
     used |= {("components", c) for c in result.system.components}
     used |= {("reagents", m.name) for m in result.makeups if m.how == "reagent"}
-    out, unused = [], {}
+    out: list[Notice] = []
+    unused: dict[tuple[str, str], list[str]] = {}
     for ov in result.tables.overrides:
         if (ov.kind, ov.name) in used:
             out.append(Notice(CONSTANTS, "override", describe_override(ov),

@@ -203,7 +203,7 @@ def plugin_manager(problems: list[PluginProblem] | None = None,
         trace(f"entry point {ep.name!r} = {ep.value}: {failure or 'registered'}")
         if failure and problems is None:
             raise PluginError(ep.name, failure)
-        if failure:
+        if failure and problems is not None:
             problems.append(PluginProblem(ep.name, failure))
     return manager
 

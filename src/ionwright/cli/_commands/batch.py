@@ -24,7 +24,7 @@ import time
 from collections import deque
 from contextlib import contextmanager
 from pathlib import Path
-from typing import Any, Iterator
+from typing import Any, Iterator, Sequence
 
 from ...errors import RecipeError
 from ...inputs._recipe import DEFAULT_TABLES
@@ -152,7 +152,7 @@ def _text_columns(frame) -> list[str]:
             and pd.to_numeric(frame[c], errors="coerce").isna().all() and frame[c].notna().any()]
 
 
-def _read_chunks(path: Path, rows: int, labels: list[str] = ()) -> Iterator[Any]:
+def _read_chunks(path: Path, rows: int, labels: Sequence[str] = ()) -> Iterator[Any]:
     """The table at *path* in chunks of *rows*, always at least one (perhaps empty) chunk.
 
     Problems of the file itself (encoding, shape, quotes, separators) are refused with the
@@ -186,7 +186,7 @@ _FIELDS = re.compile(r"Expected (\d+) fields in line (\d+), saw (\d+)")
 _OPEN_QUOTE = re.compile(r"EOF inside string starting at row (\d+)")
 
 
-def _csv_chunks(path: Path, rows: int, labels: list[str], where: str) -> Iterator[Any]:
+def _csv_chunks(path: Path, rows: int, labels: Sequence[str], where: str) -> Iterator[Any]:
     import pandas as pd
 
     from ...data._text import NOT_UTF8_HINT, first_not_utf8
@@ -278,12 +278,12 @@ class _Writer:
     Columns named in *text* (labels) are always written as text.
     """
 
-    def __init__(self, path: Path, text: list[str] = ()) -> None:
+    def __init__(self, path: Path, text: Sequence[str] = ()) -> None:
         self.path = path
         self.partial = path.with_name(f".{path.name}.partial-{os.getpid()}{path.suffix}")
         self.parquet = path.suffix.lower() == ".parquet"
         self.started = False
-        self.writer = None
+        self.writer: Any = None             # pyarrow's Parquet or CSV writer, once opened
         self.schema = None
         self.text = set(text)
         self.numeric: dict[str, bool] = {}

@@ -18,6 +18,7 @@ import re
 import sys
 from collections.abc import Sequence
 from pathlib import Path
+from typing import Any
 
 SECTIONS = ("components", "species", "solids", "gases", "reagents")
 SINGULAR = {"components": "component", "species": "species", "solids": "solid",
@@ -377,7 +378,7 @@ def _valid_part(text: str, origin: str):
     from ...data._loader import tomllib
 
     data = tomllib.loads(text)
-    header = {k: data[k] for k in ("about", "sources") if k in data}
+    header: dict[str, Any] = {k: data[k] for k in ("about", "sources") if k in data}
     kept: dict[str, dict] = {}
     for section in SECTIONS:
         entries = data.get(section)

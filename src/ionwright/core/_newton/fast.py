@@ -54,6 +54,7 @@ def augmented(problem: Problem, bound: BoundModel, y: np.ndarray,
               u: np.ndarray) -> Linearised:
     """Residuals (mass balances, I − u²), their scales and Jacobian at (y (c, k), u)."""
     st, cp = problem.structure, problem.coupling
+    assert cp is not None  # the fast path always has one (coupling_for)
     nf = st.nf
     phi, dphi = model_terms(bound, cp, u)
     lnc = cp.nu @ np.concatenate((y, phi))                            # ln c − ln K
@@ -203,6 +204,7 @@ def augmented_one(problem: Problem, bound: BoundModel, y: list, u: float,
     its (ln K, free totals, scale floors) as lists. The same operations in the same
     order; the exponentials are numpy's, over the whole vector at once."""
     st, cp = problem.structure, problem.coupling
+    assert cp is not None  # the fast path always has one (coupling_for)
     nf = st.nf
     ln_k, totals, floor = given
     phi, dphi = model_terms_one(bound, cp, u)

@@ -23,11 +23,11 @@ def clip(x: np.ndarray, lo, hi) -> np.ndarray:
 
 
 def any_set(mask: np.ndarray) -> bool:
-    return np.count_nonzero(mask) > 0
+    return bool(np.count_nonzero(mask) > 0)
 
 
 def all_set(mask: np.ndarray) -> bool:
-    return np.count_nonzero(mask) == mask.size
+    return bool(np.count_nonzero(mask) == mask.size)
 
 
 def column_max(a: np.ndarray) -> np.ndarray:

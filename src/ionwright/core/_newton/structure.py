@@ -4,10 +4,11 @@ its coupling to an activity model's terms, and one chunk's per-sample data."""
 from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
+from typing import cast
 
 import numpy as np
 
-from ...activity._base import BoundModel
+from ...activity._base import BoundModel, TermsModel
 from .._sparse import SparseCholesky, SparseRows, weighted_sum
 from .._system import PROTON, ChemicalSystem
 from .numerics import IONIC_STRENGTH_CAP, LN10, LN_C_CEILING
@@ -222,7 +223,7 @@ def model_terms(bound: BoundModel, coupling: Coupling, u: np.ndarray
            ) -> tuple[np.ndarray, np.ndarray]:
     """(φ, ∂φ/∂u) of the coupled model at u, sample axis last."""
     if coupling.own_terms:
-        return bound.terms(u)
+        return cast(TermsModel, bound).terms(u)
     return (np.ascontiguousarray(bound.ln_gamma(u).T),
             np.ascontiguousarray(bound.d_ln_gamma_du(u).T))
 
@@ -235,7 +236,7 @@ def model_terms_one(bound: BoundModel, coupling: Coupling, u: float
         return bound.terms_one(u)
     at_u = np.array([u])
     if coupling.own_terms:
-        phi, dphi = bound.terms(at_u)
+        phi, dphi = cast(TermsModel, bound).terms(at_u)
         return phi[:, 0].tolist(), dphi[:, 0].tolist()
     return bound.ln_gamma(at_u)[0].tolist(), bound.d_ln_gamma_du(at_u)[0].tolist()
 
@@ -243,7 +244,7 @@ def model_terms_one(bound: BoundModel, coupling: Coupling, u: float
 def ln_gamma_at(coupling: "Coupling | None", bound: BoundModel, u: np.ndarray) -> np.ndarray:
     """ln γ (s, k) at u from the model's terms where it has them (γ at I alone)."""
     if coupling is not None and coupling.own_terms:
-        return coupling.gamma @ bound.terms(u)[0]
+        return coupling.gamma @ cast(TermsModel, bound).terms(u)[0]
     return np.ascontiguousarray(bound.ln_gamma(u).T)
 
 
