@@ -12,8 +12,8 @@ from dataclasses import dataclass, field, replace
 from typing import ClassVar, Protocol
 
 import numpy as np
+from ..chemistry._constants import LN10
 
-LN10 = np.log(10.0)
 
 
 @dataclass(frozen=True)

@@ -42,11 +42,14 @@ from ..errors import IonwrightError, RecipeError, UnknownNameError
 from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
 from ..activity._validity import TOLERANCE_PERCENT, exceeded_rows
 from ..core._system import (PROTON, WATER, ChemicalSystem, compile_system, constant_notice,
-                            constant_outside, log10_k_at)
+                            constant_outside)
 from ..inputs._recipe import DEFAULT_TABLES
 from ..engine._totals import negative_totals
 from ..core._newton.numerics import RESIDUAL_TOLERANCE
 from ..status import CONVERGED, INVALID
+from ..chemistry._constants import LN10
+from ..core._saturation import saturation_indices
+from ..inputs._checks import PLAUSIBLE_PH
 
 if TYPE_CHECKING:
     import pandas as pd
@@ -54,7 +57,6 @@ if TYPE_CHECKING:
     from ..plugins._registry import Registry
     from ..chemistry._tableset import TableSet
 
-LN10 = np.log(10.0)
 STATUS_COLUMN, MESSAGE_COLUMN = "status", "message"
 PH_COLUMN = "solved pH"
 IONIC_STRENGTH_COLUMN = "ionic strength [mol/kg]"
@@ -63,7 +65,6 @@ ENGINES = ("local", "dask")
 PARTITION_ROWS = 65_536        # rows per task when the work is spread over a cluster
 LOCAL_WORKERS = 2              # worker processes of the default local dask cluster
 DEFAULT_TEMPERATURE_C = 25.0
-PH_RANGE = (-2.0, 16.0)
 _HEADER_UNIT = re.compile(r"^(?P<name>.*?)\s*\[(?P<unit>[^\]]*)\]\s*$")
 
 
@@ -235,7 +236,7 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
             _flag(problem, ~empty & (numbers != 0), lambda r: f"column {col.header!r}: "
                   f"{col.problem}")
         if col.kind == "pH":
-            lo, hi = PH_RANGE
+            lo, hi = PLAUSIBLE_PH
             _flag(problem, np.isfinite(numbers) & ((numbers < lo) | (numbers > hi)),
                   lambda r: f"column {col.header!r}: {numbers[r]:g} is not a plausible pH")
             fixed_ph = np.where(np.isfinite(numbers), numbers, np.nan)
@@ -414,20 +415,11 @@ def _saturation(system: ChemicalSystem, tables: TableSet, eq: solver.Equilibrium
                 ok: np.ndarray, t: np.ndarray, plan: Plan, target: np.ndarray,
                 good: np.ndarray) -> None:
     """SI = log10(IAP/Ksp), added up in the order :class:`ionwright.Result` uses."""
-    allowed = set(system.components) | {WATER}
-    log_a = {c: eq.log_activity[ok, j] / LN10 for j, c in enumerate(system.components)}
-    log_a[WATER] = eq.ln_water_activity[ok] / LN10
+    found = saturation_indices(system, tables, eq.log_activity[ok], eq.ln_water_activity[ok],
+                               t[ok], plan.solids)
     for j, name in enumerate(plan.solids):
-        res = tables.resolve(name, "solids")
-        if not set(res.stoichiometry) <= allowed:
-            continue
-        log_iap: float | np.ndarray = 0.0
-        for comp, nu in res.stoichiometry.items():
-            log_iap = log_iap + nu * log_a[comp]
-        log10_k: float | np.ndarray = 0.0
-        for _, mult, logk in res.terms:
-            log10_k = log10_k + mult * log10_k_at(logk, t[ok])
-        target[good, j] = log_iap - log10_k
+        if name in found:
+            target[good, j] = found[name]
 
 
 def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: np.ndarray,

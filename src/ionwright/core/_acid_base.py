@@ -10,6 +10,7 @@ from __future__ import annotations
 import numpy as np
 
 from ._system import ChemicalSystem
+from ..chemistry._constants import LN10
 
 #: pH of the carbonic-acid end point that total alkalinity is titrated to; acids with pK
 #: above it count with their conjugate bases (Dickson 1981).
@@ -28,7 +29,7 @@ def ideal_shares(log10_k: np.ndarray, protons: np.ndarray, pH: float) -> np.ndar
     """Shares (summing to one) of the members of a series in an ideal solution at *pH*,
     from their formation constants from the component and their proton numbers."""
     weight = log10_k - protons * pH
-    w = np.exp((weight - weight.max()) * np.log(10.0))
+    w = np.exp((weight - weight.max()) * LN10)
     return w / w.sum()
 
 

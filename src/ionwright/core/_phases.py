@@ -45,8 +45,8 @@ from ._response import response
 from ._solver import Equilibrium, bound_slice
 from ._system import PROTON, WATER, ChemicalSystem, log10_k_at
 from ..chemistry._tableset import Resolved, TableSet
+from ..chemistry._constants import LN10
 
-LN10 = math.log(10.0)
 EQUILIBRATE = "equilibrate"
 MAY_FORM = "may-form"
 AMOUNT = "amount"

@@ -15,8 +15,8 @@ import numpy as np
 
 from ._phases import PhaseEquilibrium
 from ._response import response
+from ..chemistry._constants import LN10
 
-LN10 = np.log(10.0)
 
 
 def log_activity_change(state: PhaseEquilibrium, direction: np.ndarray) -> np.ndarray:

@@ -44,6 +44,7 @@ from ..core._acid_base import ideal_shares
 from ..core._sensitivity import buffer_capacity
 from ..core._system import PROTON, WATER, log10_k_at
 from ..inputs._units import expect, parse_quantity
+from ..chemistry._constants import LN10
 
 #: Buffer families named by their anion rather than by a reagent.
 FAMILIES = {"phosphate": "PO4^3-", "acetate": "CH3COO-", "citrate": "Cit^3-",
@@ -344,7 +345,7 @@ def plausibility(card: BufferCard, concentration: float, tables) -> list[str]:
                    f"(pKa {nearest:.2f} ± {USEFUL_RANGE:g} at {card.use_temperature_C:g} °C, "
                    f"common practice): it holds the pH poorly there; choose a buffer whose "
                    f"pKa is within {USEFUL_RANGE:g} of the target")
-    best = np.log(10.0) * concentration / 4.0 * 1000.0
+    best = LN10 * concentration / 4.0 * 1000.0
     if card.capacity_mmol_per_L_pH < LOW_CAPACITY_SHARE * best:
         out.append(f"buffer capacity {card.capacity_mmol_per_L_pH:.3g} mmol/(L·pH) is under "
                    f"{100 * LOW_CAPACITY_SHARE:g} % of the {best:.3g} this concentration gives "

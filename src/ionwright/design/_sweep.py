@@ -37,13 +37,14 @@ from ..engine._solve import compile_recipe
 from ._target import read_stock, split_name_and_quantity
 from ..errors import RecipeError, names_its_arguments
 from ..chemistry._ingredients import makeup
-from ..core._phases import PhaseEquilibrium, _take, phase_reaction
+from ..core._phases import PhaseEquilibrium, _take
 from ..plugins._registry import Registry
 from ..inputs._mixing import Entry, mix
 from ..inputs._recipe import Recipe, solution_of
-from ..core._sensitivity import LN10, buffer_capacity, pH_change
+from ..core._sensitivity import buffer_capacity, pH_change
 from ..inputs._units import expect, parse_quantity
 from ..chemistry._water import VALID_RANGE_C
+from ..core._saturation import saturation_indices
 
 DEFAULT_POINTS = 101
 DEFAULT_SPECIES = 6
@@ -328,16 +329,9 @@ def _unknown_species(bench: CompiledRecipe, name: str) -> None:
 
 def _saturation(bench: CompiledRecipe, state: PhaseEquilibrium) -> dict[str, np.ndarray]:
     """SI of every solid of the tables whose components the recipe has, per point."""
-    out = {}
     eq = state.equilibrium
-    for name in sorted(bench.tables.solids):
-        reaction = phase_reaction(bench.system, bench.tables, name, "solid")
-        if reaction is None:
-            continue
-        log_iap = (eq.log_activity @ reaction.stoichiometry
-                   + eq.ln_water_activity * reaction.water) / LN10
-        out[name] = log_iap - reaction.log10_k(state.t_C)
-    return out
+    return saturation_indices(bench.system, bench.tables, eq.log_activity,
+                              eq.ln_water_activity, state.t_C)
 
 
 def _equivalence_points(bench, volumes, slope, totals_at, slope_at) -> list[dict[str, float]]:

@@ -34,8 +34,8 @@ from ..plugins._table_sets import load_tables
 from ..notices import CONSTANTS, INPUT, Notice, wrap
 from ..status import succeeded
 from ._totals import check_totals, component_totals
+from ..chemistry._constants import LN10
 
-LN10 = np.log(10.0)
 #: Total (mol/kg) given to a component that some samples of a batch lack (the titrant's
 #: counter-ion before the first drop), so that every sample has the same components; at
 #: this level it changes no reported digit.

@@ -14,9 +14,14 @@ from ..errors import RecipeError, close_matches
 from ._units import Quantity, expect, parse_quantity
 
 
+#: pH values a recipe, a batch row or a tool may ask for; beyond them a value is a slip
+PLAUSIBLE_PH = (-2.0, 16.0)
+
+
 def check_ph(value: float, where: str) -> float:
     """*value* if it is a plausible pH, else an error naming *where*."""
-    if not -2.0 <= value <= 16.0:
+    low, high = PLAUSIBLE_PH
+    if not low <= value <= high:
         raise RecipeError(where, f"{value:g} is not a plausible pH",
                           "give a pH between about 0 and 14")
     return value

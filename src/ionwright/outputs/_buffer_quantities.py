@@ -21,7 +21,7 @@ from typing import Any
 import numpy as np
 
 from ..core._response import response
-from ..core._sensitivity import LN10
+from ..chemistry._constants import LN10
 
 
 def buffer_capacity_mol_per_kg(result) -> float | None:

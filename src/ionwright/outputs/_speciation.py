@@ -11,11 +11,12 @@ import numpy as np
 from ..chemistry._ingredients import Makeup
 from ..chemistry._tableset import TableSet
 from ..core._solver import Equilibrium
-from ..core._system import PROTON, WATER, ChemicalSystem, log10_k_at
+from ..core._system import PROTON, WATER, ChemicalSystem
 from ..inputs._recipe import Recipe
 from ..notices import Notice
+from ..chemistry._constants import LN10
+from ..core._saturation import saturation_indices
 
-LN10 = np.log(10.0)
 
 
 @dataclass
@@ -89,19 +90,10 @@ class Speciation:
     @cached_property
     def saturation_indices(self) -> dict[str, float]:
         """SI = log10(IAP/Ksp) for every solid whose components are all present."""
-        allowed = set(self.system.components) | {WATER}
-        log_a = dict(zip(self.system.components, self.equilibrium.log_activity[0] / LN10))
-        log_a[WATER] = self.log10_water_activity
-        out = {}
-        t = np.array([self.temperature_C])
-        for name in sorted(self.tables.solids):
-            res = self.tables.resolve(name, "solids")
-            if not set(res.stoichiometry) <= allowed:
-                continue
-            log_iap = sum(nu * log_a[c] for c, nu in res.stoichiometry.items())
-            log10_k = sum(m * float(log10_k_at(lk, t)[0]) for _, m, lk in res.terms)
-            out[name] = float(log_iap - log10_k)
-        return out
+        eq = self.equilibrium
+        found = saturation_indices(self.system, self.tables, eq.log_activity[:1],
+                                   eq.ln_water_activity[:1], np.array([self.temperature_C]))
+        return {name: float(si[0]) for name, si in found.items()}
 
     def distribution(self) -> dict[str, dict[str, float]]:
         """For each component but H+: fraction of its total in each species (≥ 1e-6)."""
