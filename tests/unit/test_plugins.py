@@ -109,7 +109,7 @@ def hook_specs():
 def test_every_hook_is_a_typed_stub_whose_docstring_says_when_what_and_returns():
     specs = hook_specs()
     assert {f.__name__ for f in specs} == {"register_tables", "register_activity_models",
-                                           "register_reagents"}
+                                           "register_reagents", "register_parameter_tables"}
     for spec in specs:
         doc = inspect.getdoc(spec) or ""
         assert "Called once" in doc, spec.__name__

@@ -10,8 +10,8 @@ from __future__ import annotations
 
 import math
 import sys
-from collections.abc import Mapping
-from dataclasses import dataclass
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, replace
 from functools import lru_cache
 from importlib.resources import files
 from types import MappingProxyType
@@ -117,6 +117,32 @@ def _canonical_entry(entry: dict[str, Any]) -> dict[str, Any]:
     if isinstance(out.get("ions"), list):
         out["ions"] = [canonical_name(i) if isinstance(i, str) else i for i in out["ions"]]
     return out
+
+
+def merged_parameters(tables: Sequence[PitzerParameters]) -> PitzerParameters:
+    """One parameter set from *tables* in order, later ones overriding earlier ones entry
+    by entry (a pair, a θ, a ψ, a λ); their reference temperatures must agree."""
+    first = tables[0]
+    for later in tables[1:]:
+        if later.reference_temperature_C != first.reference_temperature_C:
+            raise TableError(later.origin, [
+                f"reference_temperature_C = {later.reference_temperature_C:g} °C differs from "
+                f"{first.reference_temperature_C:g} °C of {first.origin}; parameter tables "
+                "of one model must share it"])
+    if len(tables) == 1:
+        return first
+
+    def merged(field: str) -> Mapping:
+        out: dict = {}
+        for table in tables:
+            out.update(getattr(table, field))
+        return MappingProxyType(out)
+
+    return replace(first, origin=" + ".join(t.origin for t in tables),
+                   derivative_range_C=tables[-1].derivative_range_C,
+                   sources=merged("sources"), binary=merged("binary"), theta=merged("theta"),
+                   psi=merged("psi"), lam=merged("lam"), zero_by_design=merged("zero_by_design"),
+                   not_formed=merged("not_formed"))
 
 
 @lru_cache(maxsize=1)
