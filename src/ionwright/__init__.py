@@ -26,6 +26,7 @@ from .inputs._recipe import Recipe, read_recipe
 from .notices import Notice
 from .outputs._provenance import constants_used, explain
 from .outputs._result import Result
+from .outputs._table_check import TableCheck, check_table
 from .plugins._table_sets import load_tables
 from .plugins.hookspecs import hookimpl
 
@@ -34,7 +35,7 @@ __version__ = "0.1.0"
 __all__ = [
     # speciation
     "solve", "solve_batch", "read_recipe", "load_tables", "Recipe", "Result",
-    "constants_used", "explain", "Notice", "notices", "status",
+    "constants_used", "explain", "Notice", "notices", "status", "check_table", "TableCheck",
     # design tools
     "target", "TargetResult", "design_buffer", "BufferCard", "titration", "dilution",
     "temperature_series", "pH_series", "Sweep", "compare_models", "Comparison",

@@ -82,3 +82,26 @@ def test_a_malformed_offer_is_a_plugin_problem():
     registry = registry_with(LabParameters({"x": "pitzer.toml"}))
     assert any("must be an ionwright.plugins.ParameterTable" in p.problem
                for p in registry.problems)
+
+
+def test_tables_check_is_callable_from_python(tmp_path):
+    """ionwright.check_table finds what `ionwright tables check` prints."""
+    good = tmp_path / "good.toml"
+    good.write_text(textwrap.dedent('''
+        [about]
+        name = "good"
+        format_version = 1
+        [sources]
+        s = "a citation"
+        [species."NaCl"]
+        from = { "Na+" = 1, "Cl-" = 1 }
+        log10_k = -0.5
+        source = "s"
+    '''), encoding="utf-8")
+    found = ionwright.check_table(good)
+    assert found.ok and found.notes[0].startswith("table 'good': 1 species")
+    bad = tmp_path / "bad.toml"
+    bad.write_text(good.read_text(encoding="utf-8").replace('"Cl-" = 1', '"Cl-" = 2'),
+                   encoding="utf-8")
+    found = ionwright.check_table(bad)
+    assert not found.ok and any("does not balance in charge" in p for p in found.problems)
