@@ -228,31 +228,11 @@ def model_terms(bound: BoundModel, coupling: Coupling, u: np.ndarray
             np.ascontiguousarray(bound.d_ln_gamma_du(u).T))
 
 
-def model_terms_one(bound: BoundModel, coupling: Coupling, u: float
-                    ) -> tuple[list, list]:
-    """:func:`model_terms` for one sample at u, as lists of Python floats. A model may
-    give ``terms_one(u)`` with the bits of its ``terms`` on floats (Davies does)."""
-    if coupling.own_terms and hasattr(bound, "terms_one"):
-        return bound.terms_one(u)
-    at_u = np.array([u])
-    if coupling.own_terms:
-        phi, dphi = cast(TermsModel, bound).terms(at_u)
-        return phi[:, 0].tolist(), dphi[:, 0].tolist()
-    return bound.ln_gamma(at_u)[0].tolist(), bound.d_ln_gamma_du(at_u)[0].tolist()
-
-
 def ln_gamma_at(coupling: "Coupling | None", bound: BoundModel, u: np.ndarray) -> np.ndarray:
     """ln γ (s, k) at u from the model's terms where it has them (γ at I alone)."""
     if coupling is not None and coupling.own_terms:
         return coupling.gamma @ cast(TermsModel, bound).terms(u)[0]
     return np.ascontiguousarray(bound.ln_gamma(u).T)
-
-
-def ln_gamma_one(coupling: "Coupling | None", bound: BoundModel, u: float) -> list:
-    """:func:`ln_gamma_at` for one sample at u, as a list of Python floats."""
-    if coupling is not None and coupling.own_terms:
-        return coupling.gamma.apply_one(model_terms_one(bound, coupling, u)[0])
-    return bound.ln_gamma(np.array([u]))[0].tolist()
 
 
 @dataclass
