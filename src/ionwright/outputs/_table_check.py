@@ -17,13 +17,14 @@ from ..chemistry._tableset import TableSet
 from ..data._loader import load_table, parse_table, tomllib
 from ..data._text import read_utf8
 from ..errors import TableError
+from ..inputs._recipe import DEFAULT_TABLES
 from ..plugins._registry import Registry, build_table, default_registry
 from ._provenance import describe_override
 
 SINGULAR = {"components": "component", "species": "species", "solids": "solid",
             "gases": "gas", "reagents": "reagent"}
-#: The tables a file is checked on top of, unless others are named.
-DEFAULT_CONTEXT = ("core",)
+#: The tables a file is checked on top of, unless others are named: a recipe's default.
+DEFAULT_CONTEXT = DEFAULT_TABLES
 
 
 @dataclass(frozen=True)
@@ -43,7 +44,7 @@ class TableCheck:
 def check_table(path: str | Path, context: Sequence[str] | None = None,
                 registry: Registry | None = None) -> TableCheck:
     """Check the table file *path*, alone and on top of the *context* tables (names the
-    registry knows, or paths; default ``core``). Raises :class:`TableError` when a
+    registry knows, or paths; default: a recipe's default tables). Raises :class:`TableError` when a
     context table itself cannot be read."""
     registry = registry or default_registry()
     tables = [_context_table(name, registry) for name in (context or DEFAULT_CONTEXT)]
