@@ -33,8 +33,8 @@ def test_calcite_si_is_log_iap_minus_log_k():
     assert dict(resolved.stoichiometry) == {"Ca2+": 1.0, "CO3^2-": 1.0}
     log_a = {c: np.log10(result.species_activity(c)) for c in ("Ca2+", "CO3^2-")}
     t = np.array([18.0])
-    log_k = sum(m * log10_k_at(lk, t)[0] for _, m, lk in resolved.terms)
-    by_hand = log_a["Ca2+"] + log_a["CO3^2-"] - log_k
+    log10_ksp = sum(m * log10_k_at(lk, t)[0] for _, m, lk in resolved.terms)
+    by_hand = log_a["Ca2+"] + log_a["CO3^2-"] - log10_ksp
     assert abs(result.saturation_indices["calcite"] - by_hand) < 1e-12
     si = saturation_index(resolved, {c: np.array([v]) for c, v in log_a.items()}, t)
     assert abs(si[0] - by_hand) < 1e-12
