@@ -345,7 +345,7 @@ def main(argv: list[str] | None = None) -> int:
           lines.index("## Throughput (natural waters, Davies; median of 3 runs)") - 1] = [
         f"- pace (a fixed numpy workload, `pace()` in this script): {start_pace:.0f} ms at "
         f"the start, {end_pace:.0f} ms at the end; lower is a faster machine state"]
-    args.results.write_text("\n".join(lines), encoding="utf^8-")
+    args.results.write_text("\n".join(lines), encoding="utf-8")
     print(f"written {args.results}")
     return 0
 

@@ -24,7 +24,7 @@ import numpy as np
 
 from ionwright.core import _solver as solver
 from ionwright.activity import DaviesModel, PitzerModel
-from ionwright.engine._solve import load_tables
+from ionwright import load_tables
 from ionwright.core._system import compile_system
 
 RUNS = 3
@@ -120,7 +120,7 @@ def main() -> None:
                    f"Pitzer / Davies on the same careful path: "
                    f"**{pit['solve'] / careful['solve']:.2f}×**."), ""]
     text = "\n".join(lines)
-    RESULTS.write_text(text, encoding="utf^8-")
+    RESULTS.write_text(text, encoding="utf-8")
     print(text)
 
 

@@ -29,7 +29,7 @@ PH_RANGE = (2.0, 12.0)
 def natural_water_recipes(n: int, seed: int = 0):
     """(amounts (n, len(INGREDIENTS)) mol/kg, temperatures (n,), target pH (n,))."""
     from ionwright.core import _solver as solver
-    from ionwright.engine._solve import load_tables
+    from ionwright import load_tables
     from ionwright.chemistry._ingredients import makeup
     from ionwright.plugins._registry import default_registry
     from ionwright.core._system import compile_system
@@ -71,7 +71,7 @@ def natural_water_frame(n: int, seed: int = 0):
 
 def natural_water_totals(n: int, seed: int = 0):
     """(system, totals (n, c), temperatures (n,)) of the same waters, for the solver."""
-    from ionwright.engine._solve import load_tables
+    from ionwright import load_tables
     from ionwright.chemistry._ingredients import makeup
     from ionwright.core._system import compile_system
 

@@ -10,7 +10,14 @@ between processes).
 from __future__ import annotations
 
 import difflib
-from collections.abc import Iterable
+import functools
+import inspect
+import re
+from collections.abc import Callable, Iterable
+from typing import ParamSpec, TypeVar
+
+P = ParamSpec("P")
+T = TypeVar("T")
 
 
 def close_matches(name: str, choices: Iterable[str], n: int = 3) -> list[str]:
@@ -22,23 +29,57 @@ def close_matches(name: str, choices: Iterable[str], n: int = 3) -> list[str]:
 
 
 class IonwrightError(Exception):
-    """Root of all errors raised by ionwright for bad input or unsolvable problems."""
+    """Root of all errors raised by ionwright for bad input or unsolvable problems.
+
+    :attr:`message` says what is wrong and where, :attr:`hint` how to fix it; both are
+    rendered when read, so that the command line can set :attr:`flags` (argument name →
+    option) and have the same error name the options the user typed.
+    """
 
     def __init__(self, message: str = "", hint: str = "") -> None:
         super().__init__(message, hint)
-        self.message = message
-        self.hint = hint
+        self._message = message
+        self._hint = hint
+        self.flags: dict[str, str] = {}
+
+    @property
+    def message(self) -> str:
+        return self._with_flags(self._what())
+
+    @property
+    def hint(self) -> str:
+        return self._with_flags(self._hint)
+
+    def _what(self) -> str:
+        return self._message
 
     def __str__(self) -> str:
-        return f"{self.message}\n  hint: {self.hint}" if self.hint else self.message
+        return f"{self.message}\n  hint: {self.hint}" if self._hint else self.message
 
-    def __reduce__(self):  # keep the subclass and both fields when pickled
+    def _with_flags(self, text: str) -> str:
+        """*text* with each argument written ``name=`` replaced by its command-line option,
+        when the command line has set :attr:`flags`."""
+        for name, flag in getattr(self, "flags", {}).items():
+            text = re.sub(rf"(?<![\w-]){re.escape(name)}=(True\b)?",
+                          functools.partial(_as_option, flag=flag), text)
+        return text
+
+    def __reduce__(self):  # keep the subclass and its fields when pickled
         return (_rebuild, (type(self), self.__dict__))
+
+
+def _as_option(match: re.Match[str], flag: str) -> str:
+    """``pair=True`` → ``--pair``; ``to="50 mL"`` → ``--to "50 mL"``; ``titrant=`` before a
+    space or the end → ``--titrant``."""
+    if match[1]:
+        return flag
+    rest = match.string[match.end():]
+    return flag if not rest or rest[0].isspace() or rest[0] in ").,;" else f"{flag} "
 
 
 def _rebuild(cls, state):
     obj = cls.__new__(cls)
-    Exception.__init__(obj, state.get("message", ""), state.get("hint", ""))
+    Exception.__init__(obj, state.get("_message", ""), state.get("_hint", ""))
     obj.__dict__.update(state)
     return obj
 
@@ -68,11 +109,49 @@ class TableError(IonwrightError, ValueError):
 
 
 class RecipeError(IonwrightError, ValueError):
-    """A recipe asks for something that cannot be done; names the key at fault."""
+    """A recipe or an argument asks for something that cannot be done; names the key or
+    the argument at fault.
 
-    def __init__(self, where: str, problem: str, hint: str = "") -> None:
-        super().__init__(f"recipe {where}: {problem}", hint)
-        self.where, self.problem = where, problem
+    *where* is the recipe key (with the recipe it is in) or, for an argument of a library
+    function, the argument's name (the :func:`argument` context sets *parameter*).
+    Messages write arguments as ``name=``; the command line sets :attr:`flags` (argument
+    name → option) so that the same error names its options instead.
+    """
+
+    def __init__(self, where: str, problem: str, hint: str = "",
+                 parameter: str | None = None) -> None:
+        super().__init__(problem, hint)
+        self.where, self.problem, self.parameter = where, problem, parameter
+
+    def _what(self) -> str:
+        flags = getattr(self, "flags", {})
+        if self.parameter is None:
+            place = f"recipe {self.where}"
+        elif self.parameter in flags:
+            place = flags[self.parameter] + self.where[len(self.parameter):]
+        else:
+            place = f"argument {self.where}"
+        return f"{place}: {self.problem}"
+
+
+def names_its_arguments(function: Callable[P, T]) -> Callable[P, T]:
+    """Decorate a library function so that a :class:`RecipeError` raised inside whose
+    ``where`` starts with one of its parameter names (``to``, ``titrant``) is marked as
+    about that argument: its message then says ``argument to: ...``, and the command line
+    names the option instead (:func:`ionwright.cli._flags.as_flags`)."""
+    names = set(inspect.signature(function).parameters)
+
+    @functools.wraps(function)
+    def wrapper(*args: P.args, **kwargs: P.kwargs) -> T:
+        try:
+            return function(*args, **kwargs)
+        except RecipeError as exc:
+            head = exc.where.partition(" ")[0]
+            if exc.parameter is None and head in names:
+                exc.parameter = head
+            raise
+
+    return wrapper
 
 
 class IonPairSetError(IonwrightError, ValueError):
@@ -101,18 +180,25 @@ class UnknownNameError(IonwrightError, KeyError):
 
 #: Relative mass-balance residual the solver accepts (core/_newton/numerics.py uses it).
 RESIDUAL_TOLERANCE = 1e-10
+MASS_BALANCE = "relative mass-balance residual"
 
 
 class ConvergenceError(IonwrightError, ArithmeticError):
-    """The solver did not reach the stated tolerances; carries the diagnostics."""
+    """The solver did not reach its tolerance; carries the diagnostics and the tolerance.
+
+    *status* is one of :data:`ionwright.status.SOLVER_STATUSES`; *residual* is the worst
+    relative residual of *what* was solved and *tolerance* the one it had to reach (the
+    solver's :data:`RESIDUAL_TOLERANCE` unless a fit says otherwise).
+    """
 
     def __init__(self, status: str, iterations: int, residual: float, detail: str = "",
-                 hint: str = "") -> None:
-        balanced = residual <= RESIDUAL_TOLERANCE   # NaN is not
-        found = (f"the mass balances converged (worst relative residual {residual:.3g}, "
-                 f"tolerance {RESIDUAL_TOLERANCE:g})" if balanced else
-                 f"worst relative mass-balance residual {residual:.3g} (tolerance "
-                 f"{RESIDUAL_TOLERANCE:g})")
+                 hint: str = "", tolerance: float = RESIDUAL_TOLERANCE,
+                 what: str = MASS_BALANCE) -> None:
+        balanced = residual <= tolerance   # NaN is not
+        converged = ("the mass balances" if what == MASS_BALANCE else f"the {what}")
+        found = (f"{converged} converged (worst {what} {residual:.3g}, tolerance "
+                 f"{tolerance:.3g})" if balanced else
+                 f"worst {what} {residual:.3g} (tolerance {tolerance:.3g})")
         super().__init__(
             f"solver stopped with status {status!r} after {iterations} iterations; {found}"
             + (f"; {detail}" if detail else ""),
@@ -121,6 +207,7 @@ class ConvergenceError(IonwrightError, ArithmeticError):
         )
         self.status, self.iterations, self.residual, self.detail = (
             status, iterations, residual, detail)
+        self.tolerance, self.what = tolerance, what
 
 
 class PluginError(IonwrightError, RuntimeError):

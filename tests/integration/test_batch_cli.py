@@ -22,7 +22,7 @@ too-hot,0.01,0.001,8,0,130
 
 def test_a_file_with_bad_rows_gives_output_for_every_row(tmp_path, capsys):
     source, target = tmp_path / "in.csv", tmp_path / "out.csv"
-    source.write_text(BAD_ROWS, encoding="utf^8-")
+    source.write_text(BAD_ROWS, encoding="utf-8")
     assert main(["batch", str(source), "-o", str(target), "--chunk-rows", "2"]) == 0
     out = pd.read_csv(target)
     assert list(out["sample"]) == ["good", "empty-cell", "text", "unknown-unit", "negative",
@@ -35,7 +35,7 @@ def test_a_file_with_bad_rows_gives_output_for_every_row(tmp_path, capsys):
     assert "column 'NaCl'" in named["negative"] and "negative" in named["negative"]
     assert "column 'temperature_C'" in named["too-hot"]
     summary = capsys.readouterr().out
-    assert "6 rows: 1 converged, 0 failed, 5 invalid" in summary
+    assert "6 rows: 1 converged, 0 not converged, 5 invalid" in summary
 
 
 def _waters(n: int) -> pd.DataFrame:
@@ -70,15 +70,15 @@ def test_exit_status_is_one_when_a_row_fails(tmp_path, monkeypatch, capsys):
     monkeypatch.setattr("ionwright.core._newton.careful.CAREFUL_OUTER_ITERATIONS", 1)
     monkeypatch.setattr("ionwright.core._newton.careful.CAREFUL_INNER_ITERATIONS", 1)
     source, target = tmp_path / "in.csv", tmp_path / "out.csv"
-    source.write_text("KH2PO4,CaCl2,NaHCO3\n0.5,0.2,0.3\n", encoding="utf^8-")
+    source.write_text("KH2PO4,CaCl2,NaHCO3\n0.5,0.2,0.3\n", encoding="utf-8")
     assert main(["batch", str(source), "-o", str(target)]) == 1
-    assert pd.read_csv(target)["status"].tolist() == ["failed"]  # written all the same
-    assert "1 row(s) failed" in capsys.readouterr().err
+    assert pd.read_csv(target)["status"].tolist() == ["max-iterations"]  # written all the same
+    assert "1 row(s) did not converge" in capsys.readouterr().err
 
 
 def test_a_wrong_suffix_is_a_user_error(tmp_path, capsys):
     source = tmp_path / "in.csv"
-    source.write_text("NaCl\n0.1\n", encoding="utf^8-")
+    source.write_text("NaCl\n0.1\n", encoding="utf-8")
     assert main(["batch", str(source), "-o", str(tmp_path / "out.xlsx")]) == 2
     assert "must end in .csv or .parquet" in capsys.readouterr().err
 

@@ -40,7 +40,7 @@ def test_the_benchmark_smoke_run_writes_its_results(tmp_path):
         assert bench.main(["--smoke", "--results", str(out)]) == 0
     finally:
         sys.path.remove(str(BENCH))
-    text = out.read_text(encoding="utf^8-")
+    text = out.read_text(encoding="utf-8")
     for heading in ("## Machine", "## Throughput", "scipy.optimize.root", "## Convergence",
                     "## Latency", "## Streaming"):
         assert heading in text

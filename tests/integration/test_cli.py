@@ -20,7 +20,7 @@ def run(*args, cwd=None):
 def phosphate(tmp_path):
     path = tmp_path / "phosphate.toml"
     path.write_text('temperature_C = 25.0\nactivity_model = "davies"\ntables = ["core"]\n'
-                    '[dissolve]\nKH2PO4 = 0.025\nNa2HPO4 = 0.025\n', encoding="utf^8-")
+                    '[dissolve]\nKH2PO4 = 0.025\nNa2HPO4 = 0.025\n', encoding="utf-8")
     return path
 
 
@@ -77,7 +77,7 @@ def test_demo_runs_and_tells_its_story():
 ])
 def test_bad_input_gives_one_clear_message_and_no_traceback(tmp_path, body, needle):
     path = tmp_path / "bad.toml"
-    path.write_text(body, encoding="utf^8-")
+    path.write_text(body, encoding="utf-8")
     proc = run("solve", str(path))
     assert proc.returncode == 2
     assert "Traceback" not in proc.stderr

@@ -19,7 +19,7 @@ def brine(tmp_path):
     path = tmp_path / "brine.toml"
     path.write_text('title = "Saltmarsh pickle brine (a scenario of our own)"\n'
                     '[dissolve]\nNaCl = 3.0\nNaHCO3 = 0.01\nCaCl2 = 0.001\n',
-                    encoding="utf^8-")
+                    encoding="utf-8")
     return path
 
 

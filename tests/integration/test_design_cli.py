@@ -19,7 +19,7 @@ NaCl = 0.15
 @pytest.fixture
 def rinse(tmp_path):
     path = tmp_path / "rinse.toml"
-    path.write_text(RINSE, encoding="utf^8-")
+    path.write_text(RINSE, encoding="utf-8")
     return path
 
 
@@ -69,6 +69,6 @@ def test_sweep_stopped_keeps_the_rows_and_says_why(rinse, capsys):
 
 def test_unknown_gas_in_a_recipe_is_a_clear_error(tmp_path, capsys):
     path = tmp_path / "bad.toml"
-    path.write_text('[gases]\nC02 = "420 uatm"\n', encoding="utf^8-")
+    path.write_text('[gases]\nC02 = "420 uatm"\n', encoding="utf-8")
     assert main(["solve", str(path)]) == 2
     assert "unknown gas 'C02'" in capsys.readouterr().err

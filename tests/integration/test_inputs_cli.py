@@ -39,7 +39,7 @@ BAD = {
 def test_bad_input_is_a_clear_message_without_traceback(tmp_path, case):
     text, expected = BAD[case]
     path = tmp_path / "recipe.toml"
-    path.write_text(text, encoding="utf^8-")
+    path.write_text(text, encoding="utf-8")
     proc = run("solve", str(path))
     assert proc.returncode == 2, proc.stderr
     assert "Traceback" not in proc.stderr
@@ -49,12 +49,12 @@ def test_bad_input_is_a_clear_message_without_traceback(tmp_path, case):
 
 def test_recipe_with_units_stock_and_pour(tmp_path):
     (tmp_path / "acid-rinse.toml").write_text('volume = "1 L"\n[dissolve]\n'
-                                              '"citric acid" = "20 g/L"\n', encoding="utf^8-")
+                                              '"citric acid" = "20 g/L"\n', encoding="utf-8")
     (tmp_path / "buffer.toml").write_text(
         'water = "1.000 kg"\n[dissolve]\nKH2PO4 = "3.40 g"\n"Na2HPO4·7H2O" = "6.70 g"\n'
         '"citric acid" = "12 mmol"\n[[add]]\nstock = "NaOH"\nconcentration = "1.0 mol/L"\n'
         'volume = "12.5 mL"\n[[pour]]\nrecipe = "acid-rinse.toml"\nvolume = "250 mL"\n',
-        encoding="utf^8-")
+        encoding="utf-8")
     proc = run("solve", str(tmp_path / "buffer.toml"), "--json")
     assert proc.returncode == 0, proc.stderr
     data = json.loads(proc.stdout)
@@ -74,7 +74,7 @@ def test_analysis_report_and_json(tmp_path):
                     'Mg = "11 mg/L"\nNa = "20 mg/L"\nK = "3 mg/L"\nCl = "35 mg/L"\n'
                     'SO4 = "40 mg/L"\nNO3 = "2.1 mg/L as N"\n'
                     'alkalinity = "160 mg/L as CaCO3"\nammonia = "0.8 mg/L as N"\n',
-                    encoding="utf^8-")
+                    encoding="utf-8")
     proc = run("solve", str(path), "--json")
     assert proc.returncode == 0, proc.stderr
     derived = json.loads(proc.stdout)["derived"]

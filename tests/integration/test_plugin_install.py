@@ -152,7 +152,7 @@ def test_command_line_sees_the_installed_plugins_and_can_exclude_them(installed,
         "potassium sorbelate" = 0.002
         CaCl2 = 0.0015
         "corvelic acid" = 0.001
-    '''), encoding="utf^8-")
+    '''), encoding="utf-8")
     solved = run_cli(installed, "solve", str(recipe), "--json")
     assert solved.returncode == 0, solved.stderr
     data = json.loads(solved.stdout)

@@ -61,7 +61,7 @@ def run(capsys, *argv: str) -> tuple[int, str, str]:
 
 def write(tmp_path, name: str, text: str) -> str:
     path = tmp_path / name
-    path.write_text(text, encoding="utf^8-")
+    path.write_text(text, encoding="utf-8")
     return str(path)
 
 
@@ -210,13 +210,13 @@ def test_show_reagents_lists_table_and_plugin_reagents(tmp_path, capsys, monkeyp
         def register_reagents():
             return {"stock 9": {"formula": "C3H5O3Na", "makes": {"Na+": 1, "Lac-": 1},
                                 "source": "stock list (demo)"}}
-    '''), encoding="utf^8-")
+    '''), encoding="utf-8")
     info = tmp_path / "ionwright_test_stockroom-0.1.dist-info"
     info.mkdir()
     (info / "METADATA").write_text("Metadata-Version: 2.1\nName: ionwright-test-stockroom\n"
-                                   "Version: 0.1\n", encoding="utf^8-")
+                                   "Version: 0.1\n", encoding="utf-8")
     (info / "entry_points.txt").write_text("[ionwright]\nstockroom = ionwright_test_stockroom\n",
-                                           encoding="utf^8-")
+                                           encoding="utf-8")
     monkeypatch.syspath_prepend(str(tmp_path))
     monkeypatch.setenv("IONWRIGHT_TABLES", write(tmp_path, "bench.toml", CLEAN))
     code, out, _ = run(capsys, "tables", "show", "reagents")

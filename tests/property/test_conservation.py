@@ -9,7 +9,7 @@ from hypothesis import strategies as st
 
 import ionwright
 from ionwright.core import _solver as solver
-from ionwright.engine._solve import component_totals
+from ionwright.engine._totals import component_totals
 from ionwright.chemistry._formula import parse_formula
 from ionwright.inputs._recipe import read_recipe
 from ionwright.core._system import compile_system

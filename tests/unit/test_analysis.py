@@ -10,7 +10,7 @@ import pytest
 
 import ionwright
 from ionwright.outputs._derived import charge_balance_error_percent, water_kg_per_L
-from ionwright.engine._solve import load_tables
+from ionwright import load_tables
 from ionwright.errors import RecipeError
 from ionwright.chemistry._formula import molar_mass
 from ionwright.core._system import log10_k_at

@@ -50,7 +50,7 @@ EXTRA = textwrap.dedent('''
 @pytest.fixture
 def extra(tmp_path):
     path = tmp_path / "oxidants.toml"
-    path.write_text(EXTRA, encoding="utf^8-")
+    path.write_text(EXTRA, encoding="utf-8")
     return str(path)
 
 

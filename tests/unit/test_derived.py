@@ -6,9 +6,9 @@ import numpy as np
 import pytest
 
 import ionwright
-from ionwright.outputs._derived import (KEYS, alkalinity_weights, charge_balance_error_percent,
-                               water_kg_per_L)
-from ionwright.engine._solve import load_tables
+from ionwright.core._acid_base import alkalinity_weights
+from ionwright.outputs._derived import KEYS, charge_balance_error_percent, water_kg_per_L
+from ionwright import load_tables
 from ionwright.chemistry._formula import molar_mass
 from ionwright.core._system import compile_system, log10_k_at
 

@@ -8,7 +8,7 @@ import numpy as np
 import pytest
 
 import ionwright
-from ionwright.engine._solve import load_tables
+from ionwright import load_tables
 from ionwright.errors import PhaseRuleError, RecipeError, UnknownNameError
 from ionwright.core._phases import log10_pressure, read_phases
 

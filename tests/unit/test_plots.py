@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 
-from ionwright.outputs import _plots as plots
+from ionwright.design import _plots as plots
 from ionwright.design import _sweep as sweep
 from ionwright.errors import RecipeError
 

@@ -49,11 +49,11 @@ def acetic(tables):
 
 def test_ionwright_tables_registers_files_and_folders_by_their_about_name(tmp_path, monkeypatch):
     single = tmp_path / "one.toml"
-    single.write_text(house_table("house-a"), encoding="utf^8-")
+    single.write_text(house_table("house-a"), encoding="utf-8")
     folder = tmp_path / "shared"
     folder.mkdir()
-    (folder / "b.toml").write_text(house_table("house-b", 4.70), encoding="utf^8-")
-    (folder / "readme.txt").write_text("not a table", encoding="utf^8-")
+    (folder / "b.toml").write_text(house_table("house-b", 4.70), encoding="utf-8")
+    (folder / "readme.txt").write_text("not a table", encoding="utf-8")
     monkeypatch.setenv("IONWRIGHT_TABLES", os.pathsep.join([str(single), str(folder)]))
     registry = default_registry()
     assert registry.owner("table", "house-a") == str(single)
@@ -66,7 +66,7 @@ def test_ionwright_tables_registers_files_and_folders_by_their_about_name(tmp_pa
 def test_the_per_user_folder_registers_tables_and_no_plugins_turns_it_off(user_folder,
                                                                           monkeypatch):
     user_folder.mkdir(parents=True)
-    (user_folder / "mine.toml").write_text(house_table("mine"), encoding="utf^8-")
+    (user_folder / "mine.toml").write_text(house_table("mine"), encoding="utf-8")
     assert ionwright.solve(acetic(["core", "mine"])).converged
     monkeypatch.setenv("IONWRIGHT_NO_PLUGINS", "1")
     default_registry.cache_clear()
@@ -77,9 +77,9 @@ def test_the_per_user_folder_registers_tables_and_no_plugins_turns_it_off(user_f
 def test_same_name_in_folder_and_environment_is_a_conflict_and_the_later_wins(
         user_folder, tmp_path, monkeypatch):
     user_folder.mkdir(parents=True)
-    (user_folder / "house.toml").write_text(house_table("house", 4.80), encoding="utf^8-")
+    (user_folder / "house.toml").write_text(house_table("house", 4.80), encoding="utf-8")
     later = tmp_path / "house-v2.toml"
-    later.write_text(house_table("house", 4.79), encoding="utf^8-")
+    later.write_text(house_table("house", 4.79), encoding="utf-8")
     monkeypatch.setenv("IONWRIGHT_TABLES", str(later))
     with pytest.warns(PluginConflictWarning, match=r"table 'house' is registered by both "
                       r"table file .*house.toml and table file .*house-v2.toml"):
@@ -90,7 +90,7 @@ def test_same_name_in_folder_and_environment_is_a_conflict_and_the_later_wins(
 def test_a_missing_or_broken_in_house_file_blocks_solves_until_excluded(tmp_path, monkeypatch):
     broken = tmp_path / "broken.toml"
     broken.write_text(house_table("broken").replace("log10_k = 4.8", "log10_k = 4.8 4.9"),
-                      encoding="utf^8-")
+                      encoding="utf-8")
     missing = tmp_path / "gone.toml"
     monkeypatch.setenv("IONWRIGHT_TABLES", os.pathsep.join([str(broken), str(missing)]))
     with pytest.raises(BrokenPluginError) as info:
@@ -105,7 +105,7 @@ def test_a_missing_or_broken_in_house_file_blocks_solves_until_excluded(tmp_path
 
 def test_recipe_paths_need_no_registration(tmp_path):
     path = tmp_path / "bench.toml"
-    path.write_text(house_table("bench"), encoding="utf^8-")
+    path.write_text(house_table("bench"), encoding="utf-8")
     result = ionwright.solve(acetic(["core", str(path)]))
     assert any("from table 'bench' overrides table 'core'" in w for w in result.warnings)
 
@@ -113,7 +113,7 @@ def test_recipe_paths_need_no_registration(tmp_path):
 def test_in_house_files_are_listed_in_registration_order(user_folder, tmp_path):
     user_folder.mkdir(parents=True)
     for name in ("b.toml", "a.toml"):
-        (user_folder / name).write_text(house_table(name[0]), encoding="utf^8-")
+        (user_folder / name).write_text(house_table(name[0]), encoding="utf-8")
     env_file = tmp_path / "z.toml"
     env = {"IONWRIGHT_TABLES": str(env_file)}
     files = [p.name for p, _ in in_house_table_files(env)]

@@ -28,15 +28,15 @@ def constant_tables() -> list[Path]:
     """TOML files shaped like constant tables (other TOML, e.g. parameter sets, is skipped)."""
     found = []
     for path in sorted([*ROOT.glob("constants/*.toml"), *ROOT.glob("plugins/**/*.toml")]):
-        data = tomllib.loads(path.read_text(encoding="utf^8-"))
+        data = tomllib.loads(path.read_text(encoding="utf-8"))
         if set(data) <= TABLE_SECTIONS and "format_version" in data.get("about", {}):
             found.append(path)
     return found
 
 
-CORE = tomllib.loads((ROOT / "constants" / "core.toml").read_text(encoding="utf^8-"))
+CORE = tomllib.loads((ROOT / "constants" / "core.toml").read_text(encoding="utf-8"))
 #: organics sits on core and metals (their metal ions)
-METALS = tomllib.loads((ROOT / "constants" / "metals.toml").read_text(encoding="utf^8-"))
+METALS = tomllib.loads((ROOT / "constants" / "metals.toml").read_text(encoding="utf-8"))
 
 
 def formulas(*tables: dict) -> dict[str, str]:
@@ -61,7 +61,7 @@ def test_the_walk_finds_the_bundled_and_both_example_tables():
 
 @pytest.mark.parametrize("path", constant_tables(), ids=lambda p: str(p.relative_to(ROOT)))
 def test_every_reaction_balances(path):
-    data = tomllib.loads(path.read_text(encoding="utf^8-"))
+    data = tomllib.loads(path.read_text(encoding="utf-8"))
     known = formulas(CORE, METALS, data)
     problems = []
     for section, key in REACTION_KEY.items():

@@ -109,7 +109,7 @@ def hook_specs():
 def test_every_hook_is_a_typed_stub_whose_docstring_says_when_what_and_returns():
     specs = hook_specs()
     assert {f.__name__ for f in specs} == {"register_tables", "register_activity_models",
-                                           "register_reagents"}
+                                           "register_reagents", "register_parameter_tables"}
     for spec in specs:
         doc = inspect.getdoc(spec) or ""
         assert "Called once" in doc, spec.__name__
@@ -239,7 +239,7 @@ def test_malformed_hook_results_name_the_plugin_and_the_entry(offers, expected):
 def test_an_unbalanced_plugin_table_is_refused_when_used_and_names_plugin_and_entry(tmp_path):
     bad = tmp_path / "bench-acid.toml"
     bad.write_text(ACID_TABLE.replace('from = { "Bz-" = 1, "H+" = 1 }',
-                                      'from = { "Bz-" = 1, "H+" = 2 }'), encoding="utf^8-")
+                                      'from = { "Bz-" = 1, "H+" = 2 }'), encoding="utf-8")
     registry = registry_with(Offers("bench-lab", tables={"bench-acid": bad}))
     assert not registry.problems  # read lazily: nothing is broken until the table is used
     ionwright.solve({"dissolve": {"NaCl": 0.01}}, registry=registry)  # core alone still works
@@ -254,7 +254,7 @@ def test_an_unbalanced_plugin_table_is_refused_when_used_and_names_plugin_and_en
 
 def test_a_table_whose_about_name_differs_from_the_offered_name_is_refused(tmp_path):
     path = tmp_path / "t.toml"
-    path.write_text(ACID_TABLE, encoding="utf^8-")
+    path.write_text(ACID_TABLE, encoding="utf-8")
     registry = registry_with(Offers("bench-lab", tables={"house": path}))
     with pytest.raises(PluginError, match="offers table 'house' but the file calls itself "
                        "'bench-acid'"):
@@ -263,12 +263,12 @@ def test_a_table_whose_about_name_differs_from_the_offered_name_is_refused(tmp_p
 
 def write_entry_point(folder, name: str, module: str, code: str) -> None:
     """A minimal installed distribution with an `ionwright` entry point, on disk."""
-    (folder / f"{module}.py").write_text(code, encoding="utf^8-")
+    (folder / f"{module}.py").write_text(code, encoding="utf-8")
     info = folder / f"{module}-0.1.dist-info"
     info.mkdir()
     (info / "METADATA").write_text(f"Metadata-Version: 2.1\nName: {module}\nVersion: 0.1\n",
-                                   encoding="utf^8-")
-    (info / "entry_points.txt").write_text(f"[ionwright]\n{name} = {module}\n", encoding="utf^8-")
+                                   encoding="utf-8")
+    (info / "entry_points.txt").write_text(f"[ionwright]\n{name} = {module}\n", encoding="utf-8")
 
 
 def test_a_plugin_that_raises_on_import_blocks_solves_until_excluded(tmp_path, monkeypatch):

@@ -94,9 +94,9 @@ def test_stock_added_by_volume_brings_its_moles_and_water():
 
 def test_poured_solution_brings_its_molarity_times_volume(tmp_path):
     (tmp_path / "acid.toml").write_text('volume = "1 L"\n[dissolve]\nHCl = "0.1 mol/L"\n'
-                                        'NaCl = "0.05 mol/L"\n', encoding="utf^8-")
+                                        'NaCl = "0.05 mol/L"\n', encoding="utf-8")
     (tmp_path / "mix.toml").write_text('water = "1 kg"\n[[pour]]\nrecipe = "acid.toml"\n'
-                                       'volume = "100 mL"\n', encoding="utf^8-")
+                                       'volume = "100 mL"\n', encoding="utf-8")
     recipe = read_recipe(tmp_path / "mix.toml")
     water = recipe.solution.water_kg
     assert molality(recipe, "HCl") * water == pytest.approx(0.010, rel=1e-10)
@@ -107,7 +107,7 @@ def test_poured_solution_brings_its_molarity_times_volume(tmp_path):
 def test_pouring_a_whole_solution_reproduces_it(tmp_path):
     (tmp_path / "buffer.toml").write_text(
         'water = "1 kg"\n[dissolve]\nKH2PO4 = "3.40 g"\n"Na2HPO4·7H2O" = "6.70 g"\n',
-        encoding="utf^8-")
+        encoding="utf-8")
     alone = ionwright.solve(tmp_path / "buffer.toml")
     sol = alone.recipe.solution
     (tmp_path / "copy.toml").write_text(f'[[pour]]\nrecipe = "buffer.toml"\n'
@@ -154,16 +154,16 @@ def test_a_hydrate_stock_brings_its_water_once():
 
 def test_pour_cycle_is_reported_with_the_loop(tmp_path):
     (tmp_path / "a.toml").write_text('water = "1 kg"\n[[pour]]\nrecipe = "b.toml"\n'
-                                     'volume = "1 mL"\n', encoding="utf^8-")
+                                     'volume = "1 mL"\n', encoding="utf-8")
     (tmp_path / "b.toml").write_text('water = "1 kg"\n[[pour]]\nrecipe = "a.toml"\n'
-                                     'volume = "1 mL"\n', encoding="utf^8-")
+                                     'volume = "1 mL"\n', encoding="utf-8")
     with pytest.raises(RecipeError, match=r"a\.toml → b\.toml → a\.toml"):
         read_recipe(tmp_path / "a.toml")
 
 
 def test_recipe_pouring_itself(tmp_path):
     (tmp_path / "self.toml").write_text('water = "1 kg"\n[[pour]]\nrecipe = "self.toml"\n'
-                                        'volume = "1 mL"\n', encoding="utf^8-")
+                                        'volume = "1 mL"\n', encoding="utf-8")
     with pytest.raises(RecipeError, match="self.toml → self.toml"):
         read_recipe(tmp_path / "self.toml")
 

@@ -5,13 +5,14 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from ionwright.design._target import Workbench
+from ionwright.engine._compiled import CompiledRecipe
+from ionwright.engine._solve import compile_recipe
 from ionwright.core._sensitivity import buffer_capacity, pH_change
 
 LN10 = np.log(10.0)
 
 
-def _fd_beta(bench: Workbench, direction: np.ndarray, h: float) -> float:
+def _fd_beta(bench: CompiledRecipe, direction: np.ndarray, h: float) -> float:
     """Central difference of the pH over ±h mol/kg along *direction* (two solves)."""
     totals = bench.base[None, :] + np.array([[-h], [h]]) * direction[None, :]
     ph = bench.pH(bench.solve(totals))
@@ -33,7 +34,7 @@ RECIPES = {
 
 @pytest.mark.parametrize("name", list(RECIPES))
 def test_buffer_capacity_from_the_jacobian_matches_a_finite_difference(name):
-    bench = Workbench.of(RECIPES[name])
+    bench = compile_recipe(RECIPES[name])
     base = np.zeros(bench.system.n_components)
     base[0] = -1.0          # strong base: protons removed
     analytic = float(buffer_capacity(bench.solve(bench.base))[0])
@@ -44,7 +45,7 @@ def test_buffer_capacity_from_the_jacobian_matches_a_finite_difference(name):
 
 
 def test_ph_response_to_an_ingredient_matches_a_finite_difference():
-    bench = Workbench.of({"dissolve": {"HEPES": 0.05, "NaCl": 0.15, "NaOH": 0.02}})
+    bench = compile_recipe({"dissolve": {"HEPES": 0.05, "NaCl": 0.15, "NaOH": 0.02}})
     step = bench.direction("NaOH")
     state = bench.solve(bench.base)
     analytic = float(pH_change(state, step)[0])
@@ -55,7 +56,7 @@ def test_ph_response_to_an_ingredient_matches_a_finite_difference():
 
 def test_ideal_buffer_capacity_matches_van_slykes_formula():
     # Van Slyke (1922): β = ln10 (H + OH + C Ka H / (Ka + H)²) for one weak acid, ideal
-    bench = Workbench.of({"activity_model": "ideal",
+    bench = compile_recipe({"activity_model": "ideal",
                           "dissolve": {"acetic acid": 0.0005, "sodium acetate": 0.0003}})
     state = bench.solve(bench.base)
     h = 10 ** -bench.pH(state)[0]
@@ -67,5 +68,5 @@ def test_ideal_buffer_capacity_matches_van_slykes_formula():
 
 
 def test_fixed_ph_has_no_buffer_capacity():
-    bench = Workbench.of({"dissolve": {"NaCl": 0.01}, "fix": {"pH": 7.0}})
+    bench = compile_recipe({"dissolve": {"NaCl": 0.01}, "fix": {"pH": 7.0}})
     assert np.isnan(buffer_capacity(bench.solve(bench.base))[0])

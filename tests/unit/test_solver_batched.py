@@ -12,7 +12,7 @@ from ionwright.core._newton import fast
 from ionwright.core._newton import numerics
 from ionwright.core._newton import structure as newton_structure
 from ionwright.activity import DaviesModel
-from ionwright.engine._solve import component_totals
+from ionwright.engine._totals import component_totals
 from ionwright.inputs._recipe import read_recipe
 from ionwright.core._system import compile_system
 
@@ -220,6 +220,7 @@ def test_waters_at_a_fixed_pH_alone_have_the_bits_they_have_together():
 def test_the_guess_alone_has_the_bits_it_has_together_even_at_extremes():
     """The one-sample guess runs on floats; totals down to 1e-300 (members that
     underflow, NaN shares) and strong acid or base must not part it from the batch's."""
+    from ionwright.core._newton import one_sample
     from ionwright.core._newton.guess import initial_guess
     from ionwright.core._newton.structure import Problem, coupling_for, structure_of
 
@@ -239,6 +240,6 @@ def test_the_guess_alone_has_the_bits_it_has_together_even_at_extremes():
         y, u = initial_guess(Problem.build(st, totals, ln_k, fixed, coupling), bound)
         for k in range(200):
             one = Problem.build(st, totals[k:k + 1], ln_k[:, k:k + 1], fixed[k:k + 1], coupling)
-            yk, uk = initial_guess(one, bound.take(np.array([k])))
+            yk, uk = one_sample.initial_guess(one, bound.take(np.array([k])))
             assert np.array_equal(yk[:, 0], y[:, k], equal_nan=True), k
             assert np.array_equal(uk, u[k:k + 1], equal_nan=True), k

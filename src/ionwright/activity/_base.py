@@ -9,11 +9,11 @@ respect to u = √I, which lets the solver keep ionic strength inside the Newton
 from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
-from typing import Protocol
+from typing import ClassVar, Protocol
 
 import numpy as np
+from ..chemistry._constants import LN10
 
-LN10 = np.log(10.0)
 
 
 @dataclass(frozen=True)
@@ -48,6 +48,16 @@ class BoundModel(Protocol):
         """The model restricted to samples *rows*."""
 
 
+class TermsModel(BoundModel, Protocol):
+    """A bound model of ionic strength alone that gives γ as weighted terms
+    (:class:`IonicStrengthModel`): ln γ = ``weights`` @ φ(u)."""
+
+    weights: np.ndarray
+
+    def terms(self, u: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """(φ, ∂φ/∂u), each (p, n), at u of shape (n,)."""
+
+
 class ActivityModel(Protocol):
     """A named activity model with a stated range of validity.
 
@@ -64,6 +74,12 @@ class ActivityModel(Protocol):
         """Prepare the model for *species* at temperatures *t_C* (°C, shape (n,))."""
 
 
+def unset_array() -> np.ndarray:
+    """The empty array a bound model's array fields hold until :meth:`bind` sets them
+    (fields without defaults cannot follow the defaulted ones of the base class)."""
+    return np.empty(0)
+
+
 @dataclass
 class IonicStrengthModel:
     """Base for models of the form ln γ_i = Σ_p w_ip φ_p(√I, T).
@@ -78,8 +94,9 @@ class IonicStrengthModel:
     t_C: np.ndarray
     notes: list[str] = field(default_factory=list)
     depends_on_ionic_strength_only: bool = True
-    weights: np.ndarray = field(default=None)  # (s, p)
-    per_sample = ("t_C",)  # fields sliced by take(); subclasses add theirs
+    weights: np.ndarray = field(default_factory=unset_array)  # (s, p)
+    #: fields sliced by take(); subclasses add theirs
+    per_sample: ClassVar[tuple[str, ...]] = ("t_C",)
 
     def terms(self, u: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """(φ, ∂φ/∂u), each of shape (p, n), at u = √I of shape (n,)."""

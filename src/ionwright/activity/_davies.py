@@ -17,7 +17,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..chemistry._water import debye_huckel_A
-from ._base import LN10, IonicStrengthModel, SpeciesProperties, neutral_weights
+from ._base import LN10, IonicStrengthModel, SpeciesProperties, neutral_weights, unset_array
 from ._ion_association import ION_ASSOCIATION_PAIRS
 from ._measured_ranges import DAVIES_LIMITS, DAVIES_MAX_IONIC_STRENGTH
 from ._validity import StatedValidity
@@ -29,7 +29,7 @@ DAVIES_LINEAR_TERM = 0.3
 class _BoundDavies(IonicStrengthModel):
     """ln γ = −ln10 z² · A (u/(1+u) − 0.3u²) + ln10 b u²: two terms for every species."""
 
-    A: np.ndarray = field(default=None)  # (n,)
+    A: np.ndarray = field(default_factory=unset_array)  # (n,)
     per_sample = ("t_C", "A")
 
     def terms(self, u: np.ndarray) -> tuple[np.ndarray, np.ndarray]:

@@ -19,7 +19,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..chemistry._water import debye_huckel_A, debye_huckel_B
-from ._base import LN10, IonicStrengthModel, SpeciesProperties, neutral_weights
+from ._base import LN10, IonicStrengthModel, SpeciesProperties, neutral_weights, unset_array
 from ._ion_association import ION_ASSOCIATION_PAIRS
 from ._measured_ranges import (EXTENDED_DEBYE_HUCKEL_LIMITS,
                                EXTENDED_DEBYE_HUCKEL_MAX_IONIC_STRENGTH,
@@ -33,9 +33,9 @@ DEFAULT_ION_SIZE = 4.0  # Å, a middling Kielland value; used only with a note
 class _BoundSized(IonicStrengthModel):
     """One term A u / (1 + B å u) per distinct ion size å, and one term u² for b I."""
 
-    A: np.ndarray = field(default=None)      # (n,)
-    B: np.ndarray = field(default=None)      # (n,)
-    sizes: np.ndarray = field(default=None)  # (p − 1,) the distinct å of charged species
+    A: np.ndarray = field(default_factory=unset_array)      # (n,)
+    B: np.ndarray = field(default_factory=unset_array)      # (n,)
+    sizes: np.ndarray = field(default_factory=unset_array)  # (p − 1,) the distinct å of charged species
     per_sample = ("t_C", "A", "B")
 
     def terms(self, u: np.ndarray) -> tuple[np.ndarray, np.ndarray]:

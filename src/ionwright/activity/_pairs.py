@@ -67,7 +67,8 @@ class LeftOut:
         if not self.made_of:
             return False
         parts = [components_of(ion) for ion in self.made_of]
-        return None not in parts and made_of == frozenset().union(*parts)
+        known = [p for p in parts if p is not None]
+        return len(known) == len(parts) and made_of == frozenset[str]().union(*known)
 
 
 @dataclass(frozen=True)

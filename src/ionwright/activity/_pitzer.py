@@ -29,6 +29,7 @@ Harvie, C.E., Møller, N. & Weare, J.H. (1984) Geochim. Cosmochim. Acta 48, 723�
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass, field, replace
 from functools import cached_property
 
@@ -37,7 +38,9 @@ import numpy as np
 from ..chemistry._water import WATER_MOLAR_MASS_G, osmotic_A_phi
 from ._base import LN10, SpeciesProperties
 from ._pairs import IonPairSet, LeftOut
-from ..data._pitzer_table import DERIVATIVE_KEYS, PitzerParameters, bundled_parameters
+from ..data._parameter_tables import ParameterTable
+from ..data._pitzer_table import (DERIVATIVE_KEYS, PitzerParameters, bundled_parameters,
+                                  merged_parameters, parse_parameters)
 
 PITZER_B = 1.2                      # kg^½ mol^-½, Pitzer (1973)
 # J(x) ≈ x / (4 + C1 x^-C2 exp(−C3 x^C4)), Pitzer (1975); within about 1 % for x ≥ 0.1
@@ -464,6 +467,14 @@ class PitzerModel:
 
     def __init__(self, parameters: PitzerParameters | None = None) -> None:
         self._parameters = parameters
+        self._tables: list[ParameterTable] = []
+
+    def use_parameter_tables(self, tables: Sequence[ParameterTable]) -> None:
+        """The parameter tables offered for this model (``register_parameter_tables``),
+        read when first needed; later ones override earlier ones entry by entry."""
+        self._tables = list(tables)
+        self._parameters = None
+        self.__dict__.pop("ion_pairs", None)
 
     @cached_property
     def ion_pairs(self) -> IonPairSet:
@@ -477,9 +488,16 @@ class PitzerModel:
 
     @property
     def parameters(self) -> PitzerParameters:
-        """The parameter table in use (the bundled one unless another was given)."""
+        """The parameters in use: those given, else the tables the registry handed over
+        (merged in order), else, for a model made by hand outside a registry, the bundled
+        table."""
         if self._parameters is None:
-            self._parameters = bundled_parameters()
+            if not self._tables:
+                self._parameters = bundled_parameters()
+            else:
+                self._parameters = merged_parameters([
+                    parse_parameters(t.text(), t.origin) if t.is_file else t.source
+                    for t in self._tables])
         return self._parameters
 
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> BoundPitzer:

@@ -39,8 +39,9 @@ class ValidityLimit:
         return f"{self.cation} with {self.anion}"
 
 
-def within(ionic_strength: float, limit: float) -> bool:
-    """Whether *ionic_strength* is within *limit* (with :data:`RANGE_TOLERANCE`)."""
+def within(ionic_strength: float | np.ndarray, limit: float) -> bool | np.ndarray:
+    """Whether *ionic_strength* (one or many) is within *limit* (with
+    :data:`RANGE_TOLERANCE`)."""
     return ionic_strength <= limit * (1.0 + RANGE_TOLERANCE)
 
 

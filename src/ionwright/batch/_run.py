@@ -15,8 +15,9 @@ One row is one sample. Columns are read by their header:
 * a column of text that names no ingredient (a sample id, a site) is carried through.
 
 The output holds every input column first, then the solved pH, the ionic strength, the
-molality of the chosen species, saturation indices, ``status`` (converged / failed /
-invalid) and ``message``; rows keep their order and index and none is dropped. Rows
+molality of the chosen species, saturation indices, ``status`` (a word of
+:mod:`ionwright.status`: converged, a solver status such as max-iterations, or invalid)
+and ``message``; rows keep their order and index and none is dropped. Rows
 that share a chemical system (the same components present and the same fixed pH or not)
 are solved together by one batched solve, with temperature and totals per row; a row
 that fails there is retried alone with the careful path before it is marked failed. A
@@ -35,12 +36,20 @@ from typing import TYPE_CHECKING, Any, Iterable, Iterator, Mapping, Sequence
 import numpy as np
 
 from ..core import _solver as solver
-from ..outputs._cautions import CORROSIVE_HIGH_PH, CORROSIVE_LOW_PH, DEFER
+from ..outputs._cautions import corrosive_notice, is_corrosive
+from ..outputs._model_numbers import beyond_model_range, model_range_notice
 from ..errors import IonwrightError, RecipeError, UnknownNameError
 from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
-from ..activity._validity import RANGE_TOLERANCE, TOLERANCE_PERCENT, exceeded_rows
-from ..core._system import PROTON, WATER, ChemicalSystem, compile_system, log10_k_at
+from ..activity._validity import TOLERANCE_PERCENT, exceeded_rows
+from ..core._system import (PROTON, WATER, ChemicalSystem, compile_system, constant_notice,
+                            constant_outside)
 from ..inputs._recipe import DEFAULT_TABLES
+from ..engine._totals import negative_totals
+from ..core._newton.numerics import RESIDUAL_TOLERANCE
+from ..status import CONVERGED, INVALID
+from ..chemistry._constants import LN10
+from ..core._saturation import saturation_indices
+from ..inputs._checks import PLAUSIBLE_PH
 
 if TYPE_CHECKING:
     import pandas as pd
@@ -48,8 +57,6 @@ if TYPE_CHECKING:
     from ..plugins._registry import Registry
     from ..chemistry._tableset import TableSet
 
-LN10 = np.log(10.0)
-CONVERGED, FAILED, INVALID = "converged", "failed", "invalid"
 STATUS_COLUMN, MESSAGE_COLUMN = "status", "message"
 PH_COLUMN = "solved pH"
 IONIC_STRENGTH_COLUMN = "ionic strength [mol/kg]"
@@ -58,7 +65,6 @@ ENGINES = ("local", "dask")
 PARTITION_ROWS = 65_536        # rows per task when the work is spread over a cluster
 LOCAL_WORKERS = 2              # worker processes of the default local dask cluster
 DEFAULT_TEMPERATURE_C = 25.0
-PH_RANGE = (-2.0, 16.0)
 _HEADER_UNIT = re.compile(r"^(?P<name>.*?)\s*\[(?P<unit>[^\]]*)\]\s*$")
 
 
@@ -154,8 +160,8 @@ def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Colu
             if text:
                 return Column(header, "label")
             return Column(header, "ingredient", header,
-                          problem=f"{_first_line(exc)} (a column to carry through unread "
-                          "goes in labels=[...], or --label on the command line)")
+                          problem=f"{_first_line(exc)} (name a column to carry through "
+                          "unread as a label)")
         return Column(header, "ingredient", header, components=tuple(made.per_mole))
     name, unit = match["name"].strip(), match["unit"].strip()
     where = f"column {header!r}"
@@ -214,8 +220,8 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         raw = frame.iloc[:, k]
         if pd.api.types.is_bool_dtype(raw):  # yes/no values are no amount
             _flag(problem, raw.notna().to_numpy(), lambda r: f"column {col.header!r}: "
-                  f"{raw.iloc[r]!r} is a yes/no value, not a number (a column to carry "
-                  "through unread goes in labels=[...], or --label)")
+                  f"{raw.iloc[r]!r} is a yes/no value, not a number (name a column to carry "
+                  "through unread as a label)")
         numbers = pd.to_numeric(raw, errors="coerce").to_numpy(dtype=float)
         empty = raw.isna().to_numpy().copy()
         if not pd.api.types.is_numeric_dtype(raw):
@@ -230,7 +236,7 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
             _flag(problem, ~empty & (numbers != 0), lambda r: f"column {col.header!r}: "
                   f"{col.problem}")
         if col.kind == "pH":
-            lo, hi = PH_RANGE
+            lo, hi = PLAUSIBLE_PH
             _flag(problem, np.isfinite(numbers) & ((numbers < lo) | (numbers > hi)),
                   lambda r: f"column {col.header!r}: {numbers[r]:g} is not a plausible pH")
             fixed_ph = np.where(np.isfinite(numbers), numbers, np.nan)
@@ -252,7 +258,7 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         by_recipe |= np.nan_to_num(values[col.header]) > 0
     from ..chemistry._ingredients import makeup
 
-    for col in plain:  # the same additions, in the same order, as engine.component_totals
+    for col in plain:  # the same additions, in the same order, as component_totals
         amount = np.nan_to_num(values[col.header])
         for comp, nu in makeup(col.key, tables).per_mole.items():
             if comp in col_of:
@@ -261,15 +267,15 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         if problem[r]:
             continue
         try:
-            row_totals, t, ph = _recipe_row(plan, values, r, tables, model, registry)
+            row_totals, t, ph = _recipe_row(plan, values, int(r), tables, model, registry)
         except IonwrightError as exc:
             problem[r] = _row_message(exc, plan)
             continue
         totals[r] = [row_totals.get(c, 0.0) for c in comps]
         temperature[r] = t
         fixed_ph[r] = ph
-    negative = np.any(np.delete(totals, col_of[PROTON], axis=1) < 0, axis=1)
-    _flag(problem, negative, lambda r: "the ingredients give a negative total of a component")
+    _flag(problem, negative_totals(comps, totals),
+          lambda r: "the ingredients give a negative total of a component")
     return Samples(totals, temperature, fixed_ph, problem)
 
 
@@ -283,11 +289,12 @@ def _flag(problem: list[str], mask: np.ndarray, message) -> None:
 def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: TableSet,
                 model: str, registry: Registry) -> tuple[dict[str, float], float, float]:
     """(totals, temperature, fixed pH or NaN) of row *r* read as a recipe or an analysis."""
-    from ..engine._solve import component_totals
+    from ..engine._resolve import resolve
+    from ..engine._totals import component_totals
     from ..inputs._recipe import read_recipe
 
     cells = {c.header: float(values[c.header][r]) for c in plan.columns if c.header in values}
-    analysis = {c.key: f"{cells[c.header]!r} {c.unit}" for c in plan.columns
+    analysis: dict[str, Any] = {c.key: f"{cells[c.header]!r} {c.unit}" for c in plan.columns
                 if c.kind == "analysis" and cells[c.header] > 0}
     dissolve = {c.key: (float(cells[c.header]) if c.kind == "ingredient"
                         else f"{cells[c.header]!r} {c.unit}")
@@ -309,7 +316,7 @@ def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: Ta
         data.update(temperature_C=t, dissolve=dissolve)
         if math.isfinite(ph):
             data["fix"] = {"pH": float(ph)}
-    recipe = read_recipe(data, registry)
+    recipe = resolve(read_recipe(data, registry), registry)
     totals, _ = component_totals(recipe, tables)
     return totals, recipe.temperature_C, recipe.fix.get("pH", math.nan)
 
@@ -393,13 +400,14 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, pla
     for j, name in enumerate(plan.species):
         out.molality[good, j] = eq.molality[ok, index[name]] if name in index else 0.0
     _saturation(system, tables, eq, ok, t, plan, out.saturation, good)
-    out.status[rows] = np.where(ok, CONVERGED, FAILED)
+    out.status[rows] = status  # the solver's own word where it did not converge
     out.message[rows] = _notes(system, model, out.ph[rows], out.ionic_strength[rows], t, ok,
                                eq.molality)
     for k in np.flatnonzero(~ok):
         out.message[rows[k]] = (f"the solver stopped with status {status[k]!r} after "
                                 f"{int(eq.iterations[k])} iterations (worst relative "
-                                f"residual {eq.residual[k]:.3g}), also when retried alone "
+                                f"residual {eq.residual[k]:.3g}, tolerance "
+                                f"{RESIDUAL_TOLERANCE:.3g}), also when retried alone "
                                 "with the careful path; check that the totals are possible")
 
 
@@ -407,20 +415,11 @@ def _saturation(system: ChemicalSystem, tables: TableSet, eq: solver.Equilibrium
                 ok: np.ndarray, t: np.ndarray, plan: Plan, target: np.ndarray,
                 good: np.ndarray) -> None:
     """SI = log10(IAP/Ksp), added up in the order :class:`ionwright.Result` uses."""
-    allowed = set(system.components) | {WATER}
-    log_a = {c: eq.log_activity[ok, j] / LN10 for j, c in enumerate(system.components)}
-    log_a[WATER] = eq.ln_water_activity[ok] / LN10
+    found = saturation_indices(system, tables, eq.log_activity[ok], eq.ln_water_activity[ok],
+                               t[ok], plan.solids)
     for j, name in enumerate(plan.solids):
-        res = tables.resolve(name, "solids")
-        if not set(res.stoichiometry) <= allowed:
-            continue
-        log_iap = 0
-        for comp, nu in res.stoichiometry.items():
-            log_iap = log_iap + nu * log_a[comp]
-        log10_k = 0
-        for _, mult, logk in res.terms:
-            log10_k = log10_k + mult * log10_k_at(logk, t[ok])
-        target[good, j] = log_iap - log10_k
+        if name in found:
+            target[good, j] = found[name]
 
 
 def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: np.ndarray,
@@ -434,10 +433,8 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
     """
     texts: list[str] = []
     flags: list[np.ndarray] = []
-    limit = model.max_ionic_strength
-    texts.append(f"ionic strength beyond the range of the {model.name} model (up to about "
-                 f"{limit:g} mol/kg)")
-    flags.append(ok & (ionic > limit * (1.0 + RANGE_TOLERANCE)))
+    texts.append(model_range_notice(model).text)
+    flags.append(ok & beyond_model_range(model, ionic))
     limits = getattr(model, "validity", ())
     if limits:
         hits = exceeded_rows(limits, system.species, system.charge, molality)
@@ -446,23 +443,11 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
                          f"{rule.max_ionic_strength:g} mol/kg where {rule.label} are main "
                          f"ions ({rule.evidence})")
             flags.append(ok & hits[:, r])
-    texts.append(f"CAUTION: corrosive pH (≤ {CORROSIVE_LOW_PH:g} or ≥ {CORROSIVE_HIGH_PH:g}, "
-                 f"US EPA 40 CFR 261.22); wear eye and skin protection and {DEFER}")
-    flags.append(ok & ((ph <= CORROSIVE_LOW_PH) | (ph >= CORROSIVE_HIGH_PH)))
-    for res in system.resolved:
-        for name, _, logk in res.terms:
-            if logk.range_C is not None:
-                outside = (t < logk.range_C[0]) | (t > logk.range_C[1])
-                text = (f"log K of {name!r} is known for {logk.range_C[0]:g}–"
-                        f"{logk.range_C[1]:g} °C")
-            elif logk.method.startswith("none"):
-                outside = np.abs(t - 25.0) > 5.0
-                text = f"log K of {name!r} has no temperature dependence (25 °C value used)"
-            else:
-                continue
-            if text not in texts:
-                texts.append(text)
-                flags.append(ok & outside)
+    texts.append(corrosive_notice().text)
+    flags.append(ok & is_corrosive(ph))
+    for name, logk in system.temperature_checks():
+        texts.append(constant_notice(name, logk).text)
+        flags.append(ok & constant_outside(logk, t))
     matrix = np.stack(flags, axis=1)
     _, first, which = np.unique(_row_codes(matrix), return_index=True, return_inverse=True)
     joined = np.array(["; ".join(t for t, f in zip(texts, matrix[r]) if f) for r in first],
@@ -517,8 +502,8 @@ def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
     if engine not in ENGINES:
         raise UnknownNameError("engine", engine, ENGINES, f"engines: {', '.join(ENGINES)}")
     _check_frame(frame)
-    options = dict(species=None if species is None else list(species), model=model,
-                   tables=list(tables), labels=list(labels))
+    options: dict[str, Any] = dict(species=None if species is None else list(species),
+                                   model=model, tables=list(tables), labels=list(labels))
     if engine == "dask":
         return _dask_batch(frame, {**options, "threads": 1}, address, partition_rows)
     return _solve_frame(frame, registry=registry, threads=threads, **options)
@@ -543,7 +528,7 @@ def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: s
                  registry: Registry | None = None) -> pd.DataFrame:
     import pandas as pd
 
-    from ..engine._solve import load_tables
+    from ..plugins._table_sets import load_tables
     from ..plugins._registry import default_registry
 
     registry = registry or default_registry()

@@ -116,7 +116,7 @@ def dissolved_forms(per_mole: Mapping[str, float], tables: TableSet
         match = _protonated_form(parts, protons, tables)
         if match is not None:
             component, species, water = match
-            count = parts.pop(component, None) or abs(protons)
+            count = (parts.pop(component, None) if component else None) or abs(protons)
             forms.append((parse_formula(tables.entry(species).formula), count))
             water_used = water * count
             protons = 0.0
@@ -129,7 +129,8 @@ def dissolved_forms(per_mole: Mapping[str, float], tables: TableSet
 def _protonated_form(parts: Mapping[str, float], protons: float, tables: TableSet
                      ) -> tuple[str | None, str, float] | None:
     """(component, species, its H2O coefficient) that takes all *protons*, or None."""
-    wanted = [(c, {c: 1.0, PROTON: protons / n}) for c, n in parts.items()]
+    wanted: list[tuple[str | None, dict[str, float]]] = [
+        (c, {c: 1.0, PROTON: protons / n}) for c, n in parts.items()]
     wanted.append((None, {PROTON: 1.0 if protons > 0 else -1.0}))
     for component, stoichiometry in wanted:
         for name in tables.species:

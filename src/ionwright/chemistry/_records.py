@@ -9,7 +9,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 from types import MappingProxyType
-from typing import Mapping
+from typing import Mapping, TypeVar
 
 from ..errors import TableError
 from ._temperature import FUNCTIONS, T_REF
@@ -25,7 +25,10 @@ FUNCTION_MISMATCH = 0.002  # log10 K: a named function must reproduce the table 
 LOG10_K_LIMIT = 200.0
 
 
-def frozen_map(mapping: Mapping[str, float] | None) -> Mapping[str, float]:
+V = TypeVar("V")
+
+
+def frozen_map(mapping: Mapping[str, V] | None) -> Mapping[str, V]:
     """A read-only copy of *mapping* (empty when None)."""
     return MappingProxyType(dict(mapping or {}))
 

@@ -62,8 +62,8 @@ def formula_from_name(name: str) -> str | None:
     water = 0
     if words[-1] == ANHYDROUS:
         words = words[:-1]
-    elif HYDRATE.match(words[-1]):
-        water = COUNTS[HYDRATE.match(words[-1]).group(1)]
+    elif (hydrate := HYDRATE.match(words[-1])) is not None:
+        water = COUNTS[hydrate.group(1)]
         words = words[:-1]
     if len(words) > 1 and words[0] == ANHYDROUS:
         words = words[1:]
@@ -129,7 +129,7 @@ def _compose(symbol: str, z: int, n_cation: int | None, group: str, q: int, take
         common = gcd(z, -charge)
         n_cation, n_anion = -charge // common, z // common
     elif n_cation is None:
-        n_cation = -charge * n_anion // z
+        n_cation = -charge * (n_anion or 1) // z
     n_anion = n_anion or 1
     if n_cation * z + n_anion * charge != 0:
         return None

@@ -8,13 +8,15 @@ checked for known references and element and charge balance once the set is merg
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Mapping, Sequence
+from typing import Mapping, Sequence, Union
 
 from ..errors import TableError, UnknownNameError
 from ._names import canonical_name
 from ._records import Component, ConstantTable, LogK, Phase, Reagent, Species
 
 KINDS = ("components", "species", "solids", "gases", "reagents")
+#: An entry of a constant table.
+Record = Union[Component, Species, Phase, Reagent]
 BALANCE_TOLERANCE = 1e-9
 
 
@@ -24,8 +26,8 @@ class Override:
 
     kind: str
     name: str
-    new: object
-    old: object
+    new: Record
+    old: Record
 
 
 @dataclass(frozen=True)
@@ -117,7 +119,9 @@ class TableSet:
     def _resolve(self, name: str, kind: str, chain: tuple[str, ...]) -> Resolved:
         if kind == "species" and name in self.components:
             return Resolved(name, {name: 1.0}, ())
-        record = {"species": self.species, "solids": self.solids, "gases": self.gases}[kind].get(name)
+        by_kind: dict[str, Mapping[str, Species] | Mapping[str, Phase]] = {
+            "species": self.species, "solids": self.solids, "gases": self.gases}
+        record = by_kind[kind].get(name)
         if record is None:
             raise UnknownNameError(kind.rstrip("s"), name, getattr(self, kind))
         if name in chain:
@@ -145,7 +149,7 @@ class TableSet:
                 f"{name!r} (table {self.components[name].table!r}), which would hide it: "
                 "give the species a name of its own" for name, record in self.species.items()
                 if name in self.components]
-        known = {**self.components, **self.species}
+        known: dict[str, Component | Species] = {**self.components, **self.species}
         for kind, records, key in (("species", self.species, "from"),
                                    ("solid", self.solids, "dissolves_to"),
                                    ("gas", self.gases, "dissolves_to")):

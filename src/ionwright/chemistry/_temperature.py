@@ -17,6 +17,7 @@ import numpy.typing as npt
 
 from ..errors import TableError
 from ._water import KELVIN_OFFSET, log10_kw
+from ._constants import LN10
 
 ArrayOrFloat = float | npt.NDArray[np.float64]
 
@@ -26,7 +27,6 @@ T_REF = 298.15
 R = 8.314462618
 """Molar gas constant, J mol⁻¹ K⁻¹ (CODATA 2018: N_A·k, exact, here to 10 digits)."""
 
-_LN10 = np.log(10.0)
 _ANALYTIC_TERMS = 5  # a, b, c, d, e
 BASIS_SIZE = 6       # the analytic terms and log10 Kw of water
 
@@ -62,7 +62,7 @@ def van_t_hoff(log_k25: ArrayOrFloat, enthalpy_kJ: ArrayOrFloat, T: ArrayOrFloat
     """
     T = np.asarray(T, dtype=float)
     enthalpy_J = np.asarray(enthalpy_kJ, dtype=float) * 1000.0
-    return log_k25 - enthalpy_J / (R * _LN10) * (1.0 / T - 1.0 / T_REF)
+    return log_k25 - enthalpy_J / (R * LN10) * (1.0 / T - 1.0 / T_REF)
 
 
 def van_t_hoff_cp(log_k25: ArrayOrFloat, enthalpy_kJ: ArrayOrFloat, heat_capacity_J: ArrayOrFloat,
@@ -80,7 +80,7 @@ def van_t_hoff_cp(log_k25: ArrayOrFloat, enthalpy_kJ: ArrayOrFloat, heat_capacit
     """
     T = np.asarray(T, dtype=float)
     heat_capacity = np.asarray(heat_capacity_J, dtype=float)
-    heat_capacity_term = heat_capacity / (R * _LN10) * (T_REF / T - 1.0 + np.log(T / T_REF))
+    heat_capacity_term = heat_capacity / (R * LN10) * (T_REF / T - 1.0 + np.log(T / T_REF))
     return van_t_hoff(log_k25, enthalpy_kJ, T) + heat_capacity_term
 
 
@@ -131,7 +131,7 @@ def delta_h_from_analytic(coeffs: Sequence[float], T: ArrayOrFloat) -> ArrayOrFl
     """
     _, b, c, d, e = _analytic_coefficients(coeffs)
     T = np.asarray(T, dtype=float)
-    return R * _LN10 * (b * T**2 - c + d * T / _LN10 - 2.0 * e / T) / 1000.0
+    return R * LN10 * (b * T**2 - c + d * T / LN10 - 2.0 * e / T) / 1000.0
 
 
 def basis(T: ArrayOrFloat) -> npt.NDArray[np.float64]:
@@ -170,12 +170,12 @@ def basis_coefficients(log_k25: float, enthalpy_kJ: float | None = None,
         return out
     out[0] = log_k25
     if enthalpy_kJ is not None:
-        h = enthalpy_kJ * 1000.0 / (R * _LN10)
+        h = enthalpy_kJ * 1000.0 / (R * LN10)
         out[0] += h / T_REF
         out[2] -= h
     if heat_capacity_J is not None:
-        g = heat_capacity_J / (R * _LN10)
+        g = heat_capacity_J / (R * LN10)
         out[0] -= g * (1.0 + np.log(T_REF))
         out[2] += g * T_REF
-        out[3] += g * _LN10
+        out[3] += g * LN10
     return out

@@ -15,6 +15,7 @@ import numpy as np
 import numpy.typing as npt
 
 from ..errors import UnknownNameError
+from ._constants import LN10
 
 ArrayOrFloat = float | npt.NDArray[np.float64]
 
@@ -71,7 +72,7 @@ def density(t_C: ArrayOrFloat) -> ArrayOrFloat:
 
 def _malmberg_maryott(t_C: npt.NDArray[np.float64]) -> npt.NDArray[np.float64]:
     """Malmberg & Maryott (1956), J. Res. NBS 56, 1: cubic in t/°C, 0–100 °C."""
-    return np.polynomial.polynomial.polyval(t_C, _MALMBERG_MARYOTT)
+    return np.asarray(np.polynomial.polynomial.polyval(t_C, _MALMBERG_MARYOTT), dtype=float)
 
 
 def _bradley_pitzer(t_C: npt.NDArray[np.float64]) -> npt.NDArray[np.float64]:
@@ -149,7 +150,7 @@ def debye_huckel_A(t_C: ArrayOrFloat, method: str = "malmberg-maryott") -> Array
     Electrolyte Solutions, 2nd ed., ch. 9.
     """
     bjerrum_length, kappa = _screening_factors(t_C, method)
-    return bjerrum_length * kappa / (2.0 * np.log(10.0))
+    return bjerrum_length * kappa / (2.0 * LN10)
 
 
 def debye_huckel_B(t_C: ArrayOrFloat, method: str = "malmberg-maryott") -> ArrayOrFloat:

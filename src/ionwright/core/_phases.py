@@ -10,7 +10,7 @@ condition SI = 0 while it is present. Swapping a solid into the basis as well wo
 totals such as m(SO4) − m(Ca), which are zero for gypsum in pure water, and the solver
 rightly refuses non-positive totals; so the amounts are found by Newton's method on SI(ξ)
 instead, whose Jacobian Pᵀ (∂y/∂T) P comes from the implicit-function theorem on the
-converged mass balances (:mod:`ionwright.sensitivity`). It is symmetric positive definite
+converged mass balances (:mod:`._response`). It is symmetric positive definite
 when the solids present are linearly independent: the phase rule. The active set follows
 DESIGN.md: ``"equilibrate"`` solids are present in excess; ``"may-form"`` solids
 join when supersaturated and leave when their precipitated amount would turn negative; a
@@ -32,19 +32,21 @@ import math
 import re
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from typing import Any
+from typing import Any, cast
 
 import numpy as np
 
 from . import _solver as solver
 from ..errors import RESIDUAL_TOLERANCE, PhaseRuleError, RecipeError, UnknownNameError
+from ..notices import INPUT, SOLVER, Notice
+from ..status import CONVERGED, MAX_ITERATIONS, succeeded
 from ..chemistry._formula import parse_formula
-from ._sensitivity import response
+from ._response import response
 from ._solver import Equilibrium, bound_slice
 from ._system import PROTON, WATER, ChemicalSystem, log10_k_at
 from ..chemistry._tableset import Resolved, TableSet
+from ..chemistry._constants import LN10
 
-LN10 = math.log(10.0)
 EQUILIBRATE = "equilibrate"
 MAY_FORM = "may-form"
 AMOUNT = "amount"
@@ -106,7 +108,7 @@ class PhaseChoice:
 
     solids: tuple[SolidChoice, ...] = ()
     gases: tuple[GasChoice, ...] = ()
-    notes: tuple[str, ...] = ()       # renamed words read, for the result's warnings
+    notes: tuple[Notice, ...] = ()    # renamed words read, for the result's notices
 
     def __bool__(self) -> bool:
         return bool(self.solids or self.gases)
@@ -120,7 +122,8 @@ def read_phases(raw: Mapping[str, Any], tables: TableSet, origin: str = "(mappin
     gases = [_gas_choice(name, value, tables, origin)
              for name, value in _table(raw, "gases", origin).items()]
     notes = tuple(dict.fromkeys(
-        f"solid mode {old!r} is now called {new!r}; the old word is still read"
+        Notice(INPUT, "renamed-word", f"solid mode {old!r} is now called {new!r}; the old "
+               "word is still read", {"old": old, "new": new})
         for old, new in RENAMED_SOLID_WORDS.items()
         for value in _table(raw, "solids", origin).values()
         if isinstance(value, str) and value.strip().lower() == old))
@@ -193,7 +196,7 @@ def log10_pressure(value: Any, where: str = "pressure") -> float:
         if not match:
             raise RecipeError(where, f"cannot read the partial pressure {value!r}", hint)
         exponent = match["exp"]
-        number = None if exponent is not None else float(match["num"])
+        number = math.nan if exponent is not None else float(match["num"])
         unit = match["unit"] or "atm"
     if unit not in ATM_PER_UNIT:
         near = [u for u in ATM_PER_UNIT if u.lower() == unit.lower()]
@@ -250,8 +253,10 @@ class PhaseReaction:
         formation constant: :meth:`TableSet.resolve` gives those terms negative multipliers.
         """
         t_C = np.atleast_1d(np.asarray(t_C, dtype=float))
-        return sum(mult * np.asarray(log10_k_at(logk, t_C), dtype=float)
-                   for _, mult, logk in self.resolved.terms)
+        out = np.zeros(t_C.shape)
+        for _, mult, logk in self.resolved.terms:
+            out = out + mult * np.asarray(log10_k_at(logk, t_C), dtype=float)
+        return out
 
 
 def phase_reaction(system: ChemicalSystem, tables: TableSet, name: str, kind: str
@@ -402,7 +407,7 @@ class PhaseEquilibrium:
     bound: Any = None
     skipped: dict[str, list[str]] = field(default_factory=dict)  # solid → missing components
     traced: np.ndarray | None = None  # (n, c) components carried at a trace (design.TRACE)
-    notes: list[str] = field(default_factory=list)
+    notes: list[Notice] = field(default_factory=list)
 
     @property
     def status(self) -> np.ndarray:
@@ -428,7 +433,9 @@ def equilibrate(system: ChemicalSystem, tables: TableSet, totals: np.ndarray, bo
     t_C = np.broadcast_to(np.asarray(t_C, dtype=float), (n,)).copy()
     fixed = (np.full((n, c), np.nan) if fixed_log10_activity is None
              else np.array(np.broadcast_to(fixed_log10_activity, (n, c)), dtype=float))
-    gases = [phase_reaction(system, tables, g.name, "gas") for g in choice.gases]
+    # a gas's components are in the system (components_needed), so none is None
+    gases = [cast(PhaseReaction, phase_reaction(system, tables, g.name, "gas"))
+             for g in choice.gases]
     basis = gas_basis(system, gases, ~np.isnan(fixed[0]))
     for gas, col in zip(choice.gases, basis.pivots):
         fixed[:, col] = gas.log10_pressure_atm
@@ -520,8 +527,8 @@ class _Work:
         fixed_columns = ~self.free
         new_totals[:, fixed_columns] = np.maximum(np.abs(new_totals[:, fixed_columns]),
                                                   FIXED_COLUMN_ALLOWANCE)
-        eq = solver.solve(self.basis, new_totals, bound_slice(self.bound, rows),
-                          self.fixed[rows])
+        eq = solver.solve(cast(ChemicalSystem, self.basis),  # a basis reads as a system
+                          new_totals, bound_slice(self.bound, rows), self.fixed[rows])
         return eq, self.saturation(eq, rows)
 
     def saturation(self, eq: Equilibrium, rows: np.ndarray) -> np.ndarray:
@@ -530,7 +537,7 @@ class _Work:
         old = self.basis.old_log_activity(eq.log_activity, eq.ln_water_activity, self.t_C[rows])
         log_iap = (old @ self.p_old.T + eq.ln_water_activity[:, None] * self.water) / LN10
         si = log_iap - self.log10_k[rows]
-        return np.where(eq.status[:, None] == "converged", si, np.nan)
+        return np.where(succeeded(eq.status)[:, None], si, np.nan)
 
     # -- the whole iteration -----------------------------------------------------------------
     def run(self) -> PhaseEquilibrium:
@@ -543,7 +550,7 @@ class _Work:
             xi = np.where(absent, np.minimum(START_AMOUNT, self.ceiling), 0.0)
             present = np.broadcast_to(supply, (n, m)).copy()
         eq, si = self.inner(xi, np.arange(n))
-        failed = eq.status != "converged"
+        failed = ~succeeded(eq.status)
         if m:
             eq, si, present, failed = self.iterate(xi, present, eq, si, ~failed)
         return self.finish(eq, xi, present, si, failed)
@@ -583,7 +590,7 @@ class _Work:
             xi[rows], present[rows] = new_xi, new_present
             eq = _merge(eq, sub_eq, rows)
             si[rows] = sub_si
-            bad = sub_eq.status != "converged"
+            bad = ~succeeded(sub_eq.status)
             failed[rows[bad]] = True
             pending[rows[bad]] = False
         failed |= pending
@@ -604,7 +611,7 @@ class _Work:
         eq, new_si = self.inner(new_xi, rows)
         for _ in range(LINE_SEARCH_HALVINGS):
             after = _violation(new_si, new_present)
-            worse = (eq.status == "converged") & ~(after <= (1.0 - ARMIJO * alpha) * before)
+            worse = succeeded(eq.status) & ~(after <= (1.0 - ARMIJO * alpha) * before)
             if not worse.any():
                 break
             alpha[worse] *= 0.5
@@ -674,14 +681,16 @@ class _Work:
     def finish(self, eq, xi, present, si, failed) -> PhaseEquilibrium:
         n = xi.shape[0]
         status = eq.status.astype(object)
-        status[failed & (status == "converged")] = "max-iterations"
-        capped = _capped_ionic_strength(eq, self.basis.charge) & (status == "converged")
-        status[capped] = "max-iterations"
+        status[failed & (status == CONVERGED)] = MAX_ITERATIONS
+        capped = _capped_ionic_strength(eq, self.basis.charge) & (status == CONVERGED)
+        status[capped] = MAX_ITERATIONS
         notes = list(eq.notes)
         if capped.any():
-            notes.append(f"{int(capped.sum())} sample(s) reached the solver's ceiling on "
-                         "ionic strength (a fixed pH or gas can hold more ions than the totals "
-                         "bound) and are reported as not converged rather than wrong")
+            notes.append(Notice(
+                SOLVER, "ionic-strength-ceiling", f"{int(capped.sum())} sample(s) reached the "
+                "solver's ceiling on ionic strength (a fixed pH or gas can hold more ions than "
+                "the totals bound) and are reported as not converged rather than wrong",
+                {"samples": int(capped.sum())}))
         old_y = self.basis.old_log_activity(eq.log_activity, eq.ln_water_activity, self.t_C)
         with_solids = self.totals + xi @ self.p_old
         new_with_solids = self.basis.new_totals(with_solids)
@@ -758,7 +767,7 @@ def describe(state: PhaseEquilibrium, k: int) -> dict[str, dict[str, Any]]:
             "kind": "solid", "mode": mode.mode, "state": _solid_state(state, k, j),
             "into_solution_mol_per_kg": xi, "into_solution_g_per_kg": xi * solid.molar_mass,
             "saturation_index": float(state.saturation_index[k, j])}
-        if mode.mode == AMOUNT:
+        if mode.amount_mol_per_kg is not None:  # given as an amount
             entry["available_mol_per_kg"] = mode.amount_mol_per_kg
             entry["left_mol_per_kg"] = mode.amount_mol_per_kg - xi
         out[solid.name] = entry
@@ -798,30 +807,3 @@ def _solid_state(state: PhaseEquilibrium, k: int, j: int) -> str:
     if state.modes[j].mode == AMOUNT:
         return "all dissolved"
     return "not formed"
-
-
-def phase_summary(result) -> dict[str, dict[str, Any]]:
-    """The ``phases`` entry of a result's JSON (empty for a recipe without phases)."""
-    return dict(getattr(result, "phases", {}) or {})
-
-
-def phase_lines(result) -> list[str]:
-    """Lines of the text report on solids and gases (none for a recipe without phases)."""
-    phases = phase_summary(result)
-    if not phases:
-        return []
-    lines = ["", "solids and gases (per kg of water; + into solution, − out of it)"]
-    for name, p in phases.items():
-        amount = f"{p['into_solution_mol_per_kg']:+11.4e} mol/kg"
-        if p["kind"] == "gas":
-            lines.append(f"  {name:<18}{p['partial_pressure_atm']:10.3e} atm {amount}  "
-                         f"{'taken up' if p['into_solution_mol_per_kg'] >= 0 else 'released'}")
-            continue
-        grams = f"({p['into_solution_g_per_kg']:+.4g} g/kg)"
-        detail = p["state"]
-        if "saturation_index" in p and p["state"] != "saturated":
-            detail += f", SI {p['saturation_index']:.2f}"
-        if "needs" in p:
-            detail += f" (needs {', '.join(p['needs'])})"
-        lines.append(f"  {name:<18}{p['mode']:<17}{amount} {grams:<16} {detail}")
-    return lines

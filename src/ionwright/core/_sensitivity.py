@@ -1,66 +1,22 @@
-"""Exact derivatives of a converged equilibrium with respect to the totals.
+"""The pH response of an equilibrium to an addition, and the buffer capacity β = dC_b/dpH.
 
-At a solution the mass balances r(y, u; T) = Σ_i ν_i c_i(y, u) − T = 0 and the ionic
-strength condition ½ Σ z_i² c_i − u² = 0 hold, so by the implicit-function theorem
-dz/dT = J⁻¹ with J the Jacobian of (r, I − u²) in z = (ln a of the free components, √I):
-the solver's own Newton matrix, evaluated once at the answer. From it come the pH
-response to any addition, the buffer capacity β = dC_b/dpH, and the saturation Jacobian
-that the solid-phase Newton uses. Solids held at equilibrium take part through a Schur
-complement: the amounts they dissolve adjust so that their SI stays zero.
-
-For activity models whose γ depend on composition and not only on ionic strength, γ is
-held at its converged value in J (the derivative is then that of the γ-frozen problem,
-and :func:`is_exact` says so).
+Both come from the exact derivative of the converged equilibrium (:mod:`._response`).
+Solids held at equilibrium take part through a Schur complement: the amounts they
+dissolve adjust so that their SI stays zero; gases stay at their pressures.
 
 References
 ----------
-Krantz, S.G. & Parks, H.R. (2002) The Implicit Function Theorem, Birkhäuser, ch. 1.
 Van Slyke, D.D. (1922) J. Biol. Chem. 52, 525–570 (buffer value β = dB/dpH).
 """
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING
-
 import numpy as np
 
-from ._solver import Equilibrium
+from ._phases import PhaseEquilibrium
+from ._response import response
+from ..chemistry._constants import LN10
 
-if TYPE_CHECKING:  # pragma: no cover
-    from ._phases import PhaseEquilibrium
-
-LN10 = np.log(10.0)
-
-
-def is_exact(bound) -> bool:
-    """Whether the derivatives include the activity coefficients' own change."""
-    return bool(bound.depends_on_ionic_strength_only)
-
-
-def response(system, equilibrium: Equilibrium, bound, free: np.ndarray) -> np.ndarray:
-    """d ln a(free components) / d T(free components) at the solution, shape (n, f, f).
-
-    *system* is anything with ``nu`` and ``charge`` (a ChemicalSystem or a gas basis);
-    *free* marks the components that have a mass balance.
-    """
-    conc = equilibrium.molality
-    u = np.sqrt(np.maximum(equilibrium.ionic_strength, 0.0))
-    nu_f = system.nu[:, free]
-    z2 = system.charge ** 2
-    n, nf = conc.shape[0], nu_f.shape[1]
-    jac = np.zeros((n, nf + 1, nf + 1))
-    jac[:, :nf, :nf] = np.einsum("si,ns,sj->nij", nu_f, conc, nu_f, optimize=True)
-    if is_exact(bound):
-        dg = bound.d_ln_gamma_du(u)
-        cdg = conc * dg
-        jac[:, :nf, nf] = -cdg @ nu_f
-        jac[:, nf, :nf] = 0.5 * (conc * z2) @ nu_f
-        jac[:, nf, nf] = -0.5 * cdg @ z2 - 2.0 * u
-    else:
-        jac[:, nf, nf] = -1.0
-    rhs = np.zeros((n, nf + 1, nf))
-    rhs[:, :nf, :] = np.eye(nf)
-    return np.linalg.solve(jac, rhs)[:, :nf, :]
 
 
 def log_activity_change(state: PhaseEquilibrium, direction: np.ndarray) -> np.ndarray:

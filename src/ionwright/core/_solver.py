@@ -37,7 +37,6 @@ and §3.2.10 (block elimination by a Schur complement).
 
 from __future__ import annotations
 
-import math
 import os
 from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, field
@@ -45,20 +44,22 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..activity._base import BoundModel
+from ..notices import VALIDITY, Notice, wrap
+from ..status import SOLVER_STATUSES, succeeded
 from ..errors import UnknownNameError
 from ._newton import fast as _fast
+from ._newton import one_sample
 from ._newton.careful import careful_path
 from ._newton.fast import fast_path
-from ._newton.guess import initial_guess
+from ._newton.guess import guess_plan, initial_guess
 from ._newton.numerics import LN10, LN_C_CEILING, RESIDUAL_TOLERANCE, all_set, any_set, column_max
-from ._newton.floats import largest_magnitude
-from ._newton.structure import (Problem, bound_slice, coupling_for, ln_gamma_at, ln_gamma_one,
-                               samples_infeasible, structure_of)
+from ._newton.structure import (Problem, bound_slice, coupling_for, ln_gamma_at,
+                                samples_infeasible, structure_of)
 from ._system import ChemicalSystem
 
 CHUNK_SIZE = 8192              # samples per chunk: amortises numpy's per-call cost
 MAX_THREADS = 4                # most threads a batch uses by default
-STATUSES = ("converged", "max-iterations", "non-finite", "infeasible")
+STATUSES = SOLVER_STATUSES
 CONVERGED, MAX_ITERATIONS, NON_FINITE, INFEASIBLE = range(len(STATUSES))  # codes while solving
 _STATUS_NAMES = np.array(STATUSES)
 METHODS = ("auto", "careful")
@@ -77,11 +78,11 @@ class Equilibrium:
     residual: np.ndarray            # (n,) worst relative mass-balance residual
     iterations: np.ndarray          # (n,)
     status: np.ndarray              # (n,) of str, one of STATUSES
-    notes: list[str] = field(default_factory=list)
+    notes: list[Notice] = field(default_factory=list)
 
     @property
     def success(self) -> np.ndarray:
-        return self.status == "converged"
+        return succeeded(self.status)
 
 
 def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
@@ -133,7 +134,7 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     chunks = [todo[start:start + CHUNK_SIZE] for start in range(0, todo.size, CHUNK_SIZE)]
     workers = min(threads or default_threads(), len(chunks)) if len(chunks) > 1 else 1
     if workers > 1:  # chunks are independent and write disjoint rows of `out`
-        structure.guess_plan  # noqa: B018 - built once, before the threads share it
+        guess_plan(structure)  # built once, before the threads share it
         with ThreadPoolExecutor(workers) as pool:
             for done in [pool.submit(run, rows) for rows in chunks]:
                 done.result()
@@ -155,7 +156,7 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
                        ionic_strength=out.u * out.u, ln_water_activity=out.ln_aw,
                        residual=out.residual, iterations=out.iterations,
                        status=_STATUS_NAMES[out.status],
-                       notes=list(getattr(bound, "notes", [])))
+                       notes=wrap(getattr(bound, "notes", ()), VALIDITY, "activity-model"))
 
 
 def _as_table(values) -> np.ndarray:
@@ -208,13 +209,14 @@ def _solve_chunk(problem: Problem, bound: BoundModel, fast: bool, out: _Outputs,
     st = problem.structure
     iterations = np.zeros(k, dtype=int)
     done = np.zeros(k, dtype=bool)
-    y, u = initial_guess(problem, bound)
+    y, u = one_sample.initial_guess(problem, bound) if k == 1 else initial_guess(problem, bound)
     ln_g = np.zeros((problem.ln_k.shape[0], k))
     ln_aw = np.zeros(k)
     if fast:
-        done = fast_path(problem, bound, y, u, iterations)
+        done = (one_sample.fast_path(problem, bound, y, u, iterations) if k == 1
+                else fast_path(problem, bound, y, u, iterations))
         if k == 1 and done[0]:
-            ln_g = np.array(ln_gamma_one(problem.coupling, bound, float(u[0])))[:, None]
+            ln_g = np.array(one_sample.ln_gamma(problem.coupling, bound, float(u[0])))[:, None]
         elif all_set(done):
             ln_g = ln_gamma_at(problem.coupling, bound, u)
         elif any_set(done):
@@ -225,14 +227,15 @@ def _solve_chunk(problem: Problem, bound: BoundModel, fast: bool, out: _Outputs,
     careful = rest.size > 0
     if careful:
         sub, sub_bound = problem.take(rest), bound_slice(bound, rest)
-        y0, u0 = initial_guess(sub, sub_bound)
+        y0, u0 = (one_sample.initial_guess(sub, sub_bound) if rest.size == 1
+                  else initial_guess(sub, sub_bound))
         its = np.zeros(rest.size, dtype=int)
         ok, g0, aw0 = careful_path(sub, sub_bound, y0, u0, its)
         y[:, rest], u[rest], ln_g[:, rest], ln_aw[rest] = y0, u0, g0, aw0
         iterations[rest] += its
         done[rest] = ok
     if k == 1:
-        conc = _concentrations_one(problem, y, ln_g, ln_aw if careful else None)
+        conc = one_sample.concentrations(problem, y, ln_g, ln_aw if careful else None)
     else:
         lnc = st.nu @ y
         lnc += problem.ln_k
@@ -251,31 +254,9 @@ def _store(out: _Outputs, rows: np.ndarray, problem: Problem, y: np.ndarray,
     out.y[rows], out.u[rows], out.ln_g[rows], out.ln_aw[rows] = y.T, u, ln_g.T, ln_aw
     out.conc[rows] = conc.T
     if conc.shape[1] == 1:  # one sample: the same operations on Python floats
-        c = conc[:, 0].tolist()
-        residual = largest_magnitude([
-            (v - t) / (a + f) for v, t, a, f in zip(
-                st.nu_free.apply_one(c), problem.totals[:, 0].tolist(),
-                st.abs_nu_free.apply_one(c), problem.scale_floor[:, 0].tolist())])
-        out.residual[rows] = residual
-        out.finite[rows] = math.isfinite(residual) and all(map(math.isfinite, c))
+        out.residual[rows], out.finite[rows] = one_sample.residual(problem, conc)
         return
     r = st.nu_free @ conc - problem.totals
     scale = st.abs_nu_free @ conc + problem.scale_floor
     out.residual[rows] = column_max(np.abs(r) / scale)
     out.finite[rows] = np.isfinite(conc).all(axis=0) & np.isfinite(out.residual[rows])
-
-
-def _concentrations_one(problem: Problem, y: np.ndarray, ln_g: np.ndarray,
-                        ln_aw: np.ndarray | None) -> np.ndarray:
-    """exp(ln K + ν·y [+ ν_w ln a_w] − ln γ), capped, for one sample on Python floats
-    (the batch's operations in its order); (s, 1)."""
-    st = problem.structure
-    lnc = [v + k for v, k in zip(st.nu.apply_one(y[:, 0].tolist()), problem.ln_k[:, 0].tolist())]
-    if ln_aw is not None:
-        aw = float(ln_aw[0])
-        lnc = [v + aw * w for v, w in zip(lnc, st.nu_water.tolist())]
-    capped = [LN_C_CEILING if (v := a - g) > LN_C_CEILING else v
-              for a, g in zip(lnc, ln_g[:, 0].tolist())]
-    return np.exp(capped)[:, None]
-
-

@@ -185,7 +185,10 @@ class SparseCholesky:
             pattern[np.ix_(below, below)] = True
         entries = [(min(i, j), max(i, j)) for i in range(f) for j in range(i, f) if meet[i, j]]
         row_of = {e: first_row + n for n, e in enumerate(entries)}
-        index, source, columns, lower = {}, [], [], []
+        index: dict[tuple[int, int], int] = {}
+        source: list[int] = []
+        columns: list[tuple[int, int]] = []
+        lower: list[tuple[tuple[int, int], ...]] = []
         for j in range(f):
             rows = [j, *(i for i in range(j + 1, f) if pattern[i, j])]
             start = len(source)
@@ -197,16 +200,16 @@ class SparseCholesky:
             lower.append(tuple((index[i, j], i) for i in rows[1:]))
         updates = []
         for j in range(f):
-            ops = []
+            ops: list[tuple[int, int, int]] = []
             for p in range(j):
                 if (j, p) in index:
                     ops.extend((index[i, j], index[i, p], index[j, p])
                                for i in range(j, f) if (i, p) in index)
             updates.append(tuple(ops))
         zero_row = first_row + len(entries)
-        source = np.array([zero_row if r < 0 else r for r in source], dtype=int)
+        sources = np.array([zero_row if r < 0 else r for r in source], dtype=int)
         return cls(tuple(order), tuple(int(i) for i in np.argsort(order)), tuple(entries),
-                   source, tuple(columns),
+                   sources, tuple(columns),
                    tuple(updates), tuple(lower))
 
     @cached_property

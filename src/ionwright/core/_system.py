@@ -19,10 +19,13 @@ from ..activity._pairs import FORMS_EVERY_SPECIES, IGNORED_COMPONENTS, IonPairSe
 from ._sparse import SparseRows
 from ..chemistry._records import LogK
 from ..chemistry._tableset import Resolved, TableSet
+from ..notices import VALIDITY, Notice
 
 WATER = "H2O"
 PROTON = "H+"
 KELVIN = 273.15
+#: A constant without temperature dependence used further than this from 25 °C is noted.
+FLAT_CONSTANT_SPAN_C = 5.0
 
 
 def log10_k_at(logk: LogK, t_C: np.ndarray) -> np.ndarray:
@@ -105,29 +108,59 @@ class ChemicalSystem:
                 out[i] += mult * basis_coefficients(logk)
         return out
 
-    def temperature_notes(self, t_C: np.ndarray) -> list[str]:
-        """A warning for each constant used outside the temperature range it is known for."""
+    def temperature_notes(self, t_C: np.ndarray) -> list[Notice]:
+        """A notice for each constant used outside the temperature range it is known for
+        (at any of the temperatures *t_C*)."""
         if t_C.size == 1:
             lo = hi = float(t_C.reshape(-1)[0])
         else:
             lo, hi = float(np.min(t_C)), float(np.max(t_C))
         return list(self._remember(("notes", lo, hi), lambda: tuple(self._notes(lo, hi))))
 
-    def _notes(self, lo: float, hi: float) -> list[str]:
-        notes: dict[str, None] = {}
+    def temperature_checks(self) -> list[tuple[str, LogK]]:
+        """(entry name, its log K) of every constant whose use can be outside what it is
+        known for: with a stated range, or without temperature dependence. Each once."""
+        seen: dict[str, LogK] = {}
         for res in self.resolved:
             for name, _, logk in res.terms:
-                if logk.range_C is not None and (lo < logk.range_C[0] or hi > logk.range_C[1]):
-                    notes[f"log K of {name!r} is known for {logk.range_C[0]:g}–"
-                          f"{logk.range_C[1]:g} °C; used at {_span(lo, hi)} °C"] = None
-                elif logk.range_C is None and logk.method.startswith("none") and (
-                        abs(lo - 25) > 5 or abs(hi - 25) > 5):
-                    notes[f"log K of {name!r} has no temperature dependence in its table; "
-                          f"the 25 °C value was used at {_span(lo, hi)} °C"] = None
-        return list(notes)
+                if name not in seen and (logk.range_C is not None
+                                         or logk.method.startswith("none")):
+                    seen[name] = logk
+        return list(seen.items())
+
+    def _notes(self, lo: float, hi: float) -> list[Notice]:
+        span = np.array([lo, hi])
+        return [constant_notice(name, logk, _span(lo, hi))
+                for name, logk in self.temperature_checks()
+                if constant_outside(logk, span).any()]
 
     def index(self, species: str) -> int:
         return self.species.index(species)
+
+
+def constant_outside(logk: LogK, t_C: np.ndarray) -> np.ndarray:
+    """Where (at which temperatures of *t_C*) *logk* is used outside what it is known for:
+    beyond its stated range, or, without temperature dependence, more than
+    :data:`FLAT_CONSTANT_SPAN_C` from 25 °C. The one rule for results, sweeps and batches."""
+    if logk.range_C is not None:
+        return (t_C < logk.range_C[0]) | (t_C > logk.range_C[1])
+    if logk.method.startswith("none"):
+        return np.abs(t_C - 25.0) > FLAT_CONSTANT_SPAN_C
+    return np.zeros(np.shape(t_C), dtype=bool)
+
+
+def constant_notice(name: str, logk: LogK, used: str = "") -> Notice:
+    """The notice for entry *name* used outside what its log K is known for; *used* says at
+    which temperatures (°C), when they are known."""
+    at = f"; used at {used} °C" if used else ""
+    if logk.range_C is not None:
+        lo, hi = logk.range_C
+        return Notice(VALIDITY, "temperature-range",
+                      f"log K of {name!r} is known for {lo:g}–{hi:g} °C{at}",
+                      {"entry": name, "range_C": [lo, hi]})
+    return Notice(VALIDITY, "no-temperature-dependence",
+                  f"log K of {name!r} has no temperature dependence in its table; the 25 °C "
+                  f"value was used{' at ' + used + ' °C' if used else ''}", {"entry": name})
 
 
 def _span(lo: float, hi: float) -> str:

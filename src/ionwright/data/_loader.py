@@ -71,9 +71,10 @@ class _Builder:
     """Turns the parsed TOML mapping into records, gathering problems as it goes."""
 
     def __init__(self, data: dict[str, Any], origin: str) -> None:
-        self.data, self.origin, self.problems = data, origin, []
+        self.data, self.origin = data, origin
+        self.problems: list[str] = []
         about = data.get("about", {})
-        self.name = about.get("name") if isinstance(about, dict) else None
+        self.name: str = about.get("name", "") if isinstance(about, dict) else ""
         self.sources: dict[str, str] = {}
 
     def build(self) -> ConstantTable:
@@ -220,7 +221,8 @@ class _Builder:
         if function is not None and not isinstance(function, str):
             self.problems.append(f"{where}: function must be a name such as \"water ionization\"")
             function = None
-        record = LogK(log10_k, dh, dcp, analytic, range_c, unc, function)
+        span = None if range_c is None else (range_c[0], range_c[1])
+        record = LogK(log10_k, dh, dcp, analytic, span, unc, function)
         problems = record.problems(where)
         self.problems.extend(problems)
         return None if problems else record

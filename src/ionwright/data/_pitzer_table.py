@@ -10,8 +10,8 @@ from __future__ import annotations
 
 import math
 import sys
-from collections.abc import Mapping
-from dataclasses import dataclass
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, replace
 from functools import lru_cache
 from importlib.resources import files
 from types import MappingProxyType
@@ -119,6 +119,32 @@ def _canonical_entry(entry: dict[str, Any]) -> dict[str, Any]:
     return out
 
 
+def merged_parameters(tables: Sequence[PitzerParameters]) -> PitzerParameters:
+    """One parameter set from *tables* in order, later ones overriding earlier ones entry
+    by entry (a pair, a θ, a ψ, a λ); their reference temperatures must agree."""
+    first = tables[0]
+    for later in tables[1:]:
+        if later.reference_temperature_C != first.reference_temperature_C:
+            raise TableError(later.origin, [
+                f"reference_temperature_C = {later.reference_temperature_C:g} °C differs from "
+                f"{first.reference_temperature_C:g} °C of {first.origin}; parameter tables "
+                "of one model must share it"])
+    if len(tables) == 1:
+        return first
+
+    def merged(field: str) -> Mapping:
+        out: dict = {}
+        for table in tables:
+            out.update(getattr(table, field))
+        return MappingProxyType(out)
+
+    return replace(first, origin=" + ".join(t.origin for t in tables),
+                   derivative_range_C=tables[-1].derivative_range_C,
+                   sources=merged("sources"), binary=merged("binary"), theta=merged("theta"),
+                   psi=merged("psi"), lam=merged("lam"), zero_by_design=merged("zero_by_design"),
+                   not_formed=merged("not_formed"))
+
+
 @lru_cache(maxsize=1)
 def bundled_parameters() -> PitzerParameters:
     """The parameter table shipped with ionwright (read once, on first use)."""
@@ -144,7 +170,8 @@ class _ParameterReader:
     }
 
     def __init__(self, data: dict[str, Any], origin: str) -> None:
-        self.data, self.origin, self.problems = data, origin, []
+        self.data, self.origin = data, origin
+        self.problems: list[str] = []
         self.sources: dict[str, str] = {}
 
     def read(self) -> PitzerParameters:
@@ -247,9 +274,10 @@ class _ParameterReader:
             self.problems.append(f"{where}: ions must list {count} species names")
             return None
         charges = [self._charge(i, where) for i in ions]
-        if None in charges:
+        known = [z for z in charges if z is not None]
+        if len(known) != len(charges):
             return None
-        return list(zip(ions, charges))
+        return list(zip(ions, known))
 
     # -- entry builders ---------------------------------------------------------------
     def _binary(self, e: dict, where: str) -> CationAnion | None:

@@ -185,6 +185,6 @@ def _stock(entry: Any, sources: Mapping[str, str], where: str,
     return StockDensityTable(
         solute=solute, label=str(entry.get("label", solute.hill())), temperature_C=t,
         fractions=(0.0, *(p / 100.0 for p in percent)), densities=(water, *map(float, rho)),
-        source=str(entry.get("source")), citation=str(sources.get(entry.get("source"), "")),
+        source=str(entry.get("source")), citation=str(sources.get(str(entry.get("source")), "")),
         read_in=str(entry.get("read_in", "")),
         recalled=frozenset(r / 100.0 for r in recalled))

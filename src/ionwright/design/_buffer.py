@@ -26,18 +26,25 @@ from typing import Any
 import numpy as np
 
 from ..chemistry._density import ingredient_solute
-from ._target import Workbench, find_dose, read_stock, split_name_and_quantity, stock_cautions
-from ..engine._solve import load_tables
-from ..errors import IonwrightError, RecipeError, UnknownNameError, UnreachableTargetError
+from ..engine._compiled import CompiledRecipe
+from ..engine._solve import compile_recipe
+from ._target import find_dose, read_stock, split_name_and_quantity, stock_cautions
+from ..plugins._table_sets import load_tables
+from ..notices import CAUTION, of_category, texts
+from ..errors import (IonwrightError, RecipeError, UnknownNameError, UnreachableTargetError,
+                      names_its_arguments)
 from ..chemistry._ingredients import Makeup, makeup
 from ..chemistry._names import split_name
 from ..plugins._registry import Registry, default_registry
-from ..inputs._recipe import (DEFAULT_TABLES, DISSOLVE_DIMENSIONS, as_number, check_ph,
-                              check_temperature, entry_for, mix, positive, read_recipe)
+from ..inputs._checks import as_number, check_ph, check_temperature, positive
+from ..inputs._mixing import entry_for, mix
+from ..inputs._recipe import DEFAULT_TABLES, DISSOLVE_DIMENSIONS, read_recipe
 from ..outputs._result import Result
+from ..core._acid_base import ideal_shares
 from ..core._sensitivity import buffer_capacity
 from ..core._system import PROTON, WATER, log10_k_at
 from ..inputs._units import expect, parse_quantity
+from ..chemistry._constants import LN10
 
 #: Buffer families named by their anion rather than by a reagent.
 FAMILIES = {"phosphate": "PO4^3-", "acetate": "CH3COO-", "citrate": "Cit^3-",
@@ -140,9 +147,7 @@ def mean_protons(component: str, tables, pH: float, t_C: float) -> float:
     species = _protonated(component, tables)
     k = np.array([0.0, *species])
     log10_k = np.array([0.0, *(float(_log10_k_total(tables, s, t_C)) for s in species.values())])
-    weight = log10_k - k * pH
-    w = np.exp((weight - weight.max()) * np.log(10.0))
-    return float((k * w).sum() / w.sum())
+    return float(k @ ideal_shares(log10_k, k, pH))
 
 
 def _log10_k_total(tables, species: str, t_C: float) -> float:
@@ -225,8 +230,8 @@ class BufferCard:
                   f"  buffer capacity    {self.capacity_mmol_per_L_pH:8.2f} mmol/(L·pH)",
                   f"  pH drift           {self.drift_per_C:+8.4f} per °C",
                   f"  meter at {bench:<9} {self.bench_pH:8.3f} (same solution)"]
-        notes = [*self.cautions, *self.warnings, *(w for w in self.result.warnings
-                                                   if not w.startswith("CAUTION"))]
+        notes = [*self.cautions, *self.warnings, *(n.text for n in self.result.notices
+                                                   if n.category != CAUTION)]
         lines += ["", "cautions and notes"] + [f"  - {n}" for n in notes]
         lines.append("  - the meter reading assumes a meter calibrated at the bench "
                      "temperature; temperature compensation corrects the electrode, not "
@@ -238,6 +243,7 @@ def _volume_text(volume_L: float) -> str:
     return f"{volume_L:g} L" if volume_L >= 1 else f"{1000 * volume_L:g} mL"
 
 
+@names_its_arguments
 def design_buffer(buffer: str, pH: float, concentration: str, *, temperature_C: float = 25.0,
                   with_: Sequence[str] = (), volume: str = "1 L", titrant: str | None = None,
                   bench_temperature_C: float | None = None, pair: bool = False,
@@ -264,7 +270,7 @@ def design_buffer(buffer: str, pH: float, concentration: str, *, temperature_C: 
     extras = [split_name_and_quantity(w, "with_") for w in with_]
     base = {"temperature_C": t_use, "activity_model": activity_model, "tables": list(tables),
             "volume": volume}
-    titrant_name = titrant_stock = None
+    titrant_name = titrant_stock = ""
     cation = "Na+"
     if titrant is not None:
         titrant_name, titrant_stock = split_name_and_quantity(titrant, "titrant")
@@ -339,7 +345,7 @@ def plausibility(card: BufferCard, concentration: float, tables) -> list[str]:
                    f"(pKa {nearest:.2f} ± {USEFUL_RANGE:g} at {card.use_temperature_C:g} °C, "
                    f"common practice): it holds the pH poorly there; choose a buffer whose "
                    f"pKa is within {USEFUL_RANGE:g} of the target")
-    best = np.log(10.0) * concentration / 4.0 * 1000.0
+    best = LN10 * concentration / 4.0 * 1000.0
     if card.capacity_mmol_per_L_pH < LOW_CAPACITY_SHARE * best:
         out.append(f"buffer capacity {card.capacity_mmol_per_L_pH:.3g} mmol/(L·pH) is under "
                    f"{100 * LOW_CAPACITY_SHARE:g} % of the {best:.3g} this concentration gives "
@@ -364,7 +370,7 @@ def pka_values(component: str, tables, t_C: float) -> list[float]:
 class _Batch:
     """A batch made up to volume: its ingredients mixed for the water, at any amounts."""
 
-    bench: Workbench
+    bench: CompiledRecipe
     base: dict
     volume_L: float
     solutes: dict
@@ -373,7 +379,7 @@ class _Batch:
     def of(cls, base: dict, names: Sequence[str], tables, volume_L: float,
            registry: Registry) -> _Batch:
         plain = {k: v for k, v in base.items() if k != "volume"}
-        bench = Workbench.of({**plain, "dissolve": {n: 1e-3 for n in names}}, registry)
+        bench = compile_recipe({**plain, "dissolve": {n: 1e-3 for n in names}}, registry)
         solutes = {}
         for name in names:
             made = makeup(name, tables)
@@ -519,7 +525,7 @@ def _card(batch: _Batch, amounts: dict[str, str], buffer, component, pH, concent
     for name in weigh_names:
         made = makeup(name, bench.tables)
         weigh.append(Weighed(made.name, made.formula, made.molar_mass, molal[name] * water_kg))
-    cautions = [w for w in result.warnings if w.startswith("CAUTION")]
+    cautions = texts(of_category(result.notices, CAUTION))
     return BufferCard(buffer, component, pH, t_use, t_bench, batch.volume_L, concentration,
                       weigh, method, result, result.ionic_strength, 1000.0 * beta,
                       float((ph[2] - ph[1]) / (2 * DRIFT_STEP_C)), float(ph[3]),

@@ -1,7 +1,7 @@
 """Which activity model to trust: one recipe solved with every model, side by side.
 
-Also the model-level numbers a single result reports: water activity and osmotic
-coefficient where the model provides them, and the model's own validity warnings.
+The model-level numbers a single result reports (water activity, osmotic coefficient,
+the model's own validity warnings) are in :mod:`ionwright.outputs._model_numbers`.
 
 A model is *valid* for a solution when its ionic strength is within the model's stated
 range (and, for a model with fitted parameters, within their fits); it is *complete*
@@ -23,12 +23,14 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from ..errors import ConvergenceError
+from ..notices import CAUTION, of_category, texts
 from ..inputs._recipe import Recipe, read_recipe
-from ..chemistry._water import WATER_MOLAR_MASS_G
+from ..outputs._model_numbers import osmotic_coefficient, water_activity
 
-if TYPE_CHECKING:  # imported for annotations only: result imports this module
+from ..outputs._result import Result
+
+if TYPE_CHECKING:
     from ..plugins._registry import Registry
-    from ..outputs._result import Result
 
 SIGNIFICANT_SHARE = 0.01     # a species matters if it carries ≥ 1 % of the ionic strength
 KEY_COMPONENTS = 6           # free-ion activities shown, largest totals first
@@ -43,29 +45,6 @@ SIZE_PARAMETERS = {
 # ---------------------------------------------------------------------------------------
 # What a single result reports about its model
 # ---------------------------------------------------------------------------------------
-
-def water_activity(result: Result) -> float | None:
-    """a(H2O) of *result*, or None when its model takes a(H2O) = 1."""
-    if not getattr(result.model, "provides_water_activity", False):
-        return None
-    return float(np.exp(result.equilibrium.ln_water_activity[0]))
-
-
-def osmotic_coefficient(result: Result) -> float | None:
-    """φ = −ln a(H2O) / (M_w Σ m) of *result*, or None when its model has no a(H2O)."""
-    if not getattr(result.model, "provides_water_activity", False):
-        return None
-    total = float(np.sum(result.molality))
-    if total <= 0:
-        return 1.0
-    return float(-result.equilibrium.ln_water_activity[0] / (WATER_MOLAR_MASS_G / 1000 * total))
-
-
-def model_validity_notes(result: Result) -> list[str]:
-    """Warnings the model itself gives about the solved composition (e.g. Pitzer fits)."""
-    check = getattr(result.model, "validity_notes", None)
-    return list(check(result.system.properties, result.molality)) if check else []
-
 
 def missing_parameters(model: Any, result: Result) -> list[str]:
     """Species (or pairs) that matter in *result* but lack *model*'s parameters."""
@@ -93,7 +72,7 @@ def _significant_ions(result: Result) -> list[int]:
     strength = share.sum()
     if strength <= 0:
         return []
-    return [i for i in np.flatnonzero(z2 > 0) if share[i] >= SIGNIFICANT_SHARE * strength]
+    return [int(i) for i in np.flatnonzero(z2 > 0) if share[i] >= SIGNIFICANT_SHARE * strength]
 
 
 # ---------------------------------------------------------------------------------------
@@ -240,7 +219,7 @@ class PhSpread:
 
     @property
     def spread(self) -> float | None:
-        return None if self.low is None else self.high - self.low
+        return None if self.low is None or self.high is None else self.high - self.low
 
     def sentence(self, strength: str) -> str:
         """The spread in words; *strength* is the ionic strength as text (mol/kg)."""
@@ -274,7 +253,7 @@ def ph_spread(outcomes: list[ModelOutcome] | tuple[ModelOutcome, ...]) -> PhSpre
     within = [o for o in outcomes if o.converged and o.valid]
     if not within:
         return PhSpread((), None, None)
-    values = [o.result.pH for o in within]
+    values = [o.result.pH for o in within if o.result is not None]
     return PhSpread(tuple(o.name for o in within), min(values), max(values))
 
 
@@ -359,8 +338,8 @@ def _report(c: Comparison) -> str:
     if details:
         lines += ["", "why some models are not trusted"] + [f"  - {d}" for d in details]
     shown = [c.outcome(c.trusted)] if c.trusted else list(c.outcomes)
-    cautions = list(dict.fromkeys(w for o in shown if o.result is not None
-                                  for w in o.result.warnings if w.startswith("CAUTION")))
+    cautions = texts(n for o in shown if o.result is not None
+                     for n in of_category(o.result.notices, CAUTION))
     if cautions:
         lines += [""] + cautions
     return "\n".join(lines)

@@ -28,17 +28,23 @@ from typing import Any
 
 import numpy as np
 
-from ..activity._validity import RANGE_TOLERANCE
+from ..notices import VALIDITY, Notice, texts
+from ..outputs._model_numbers import beyond_model_range
+from ..status import succeeded
 from ..chemistry._density import component_solute, ingredient_solute
-from ._target import Workbench, read_stock, split_name_and_quantity
-from ..errors import RecipeError
+from ..engine._compiled import CompiledRecipe
+from ..engine._solve import compile_recipe
+from ._target import read_stock, split_name_and_quantity
+from ..errors import RecipeError, names_its_arguments
 from ..chemistry._ingredients import makeup
-from ..core._phases import PhaseEquilibrium, _take, phase_reaction
+from ..core._phases import PhaseEquilibrium, _take
 from ..plugins._registry import Registry
-from ..inputs._recipe import Entry, Recipe, mix, solution_of
-from ..core._sensitivity import LN10, buffer_capacity, pH_change
+from ..inputs._mixing import Entry, mix
+from ..inputs._recipe import Recipe, solution_of
+from ..core._sensitivity import buffer_capacity, pH_change
 from ..inputs._units import expect, parse_quantity
 from ..chemistry._water import VALID_RANGE_C
+from ..core._saturation import saturation_indices
 
 DEFAULT_POINTS = 101
 DEFAULT_SPECIES = 6
@@ -56,15 +62,20 @@ class Sweep:
     kind: str                         # "titration", "dilution", "temperature", "pH"
     variable: str                     # column name of the swept quantity, with its unit
     values: np.ndarray                # (n,) the swept quantity at the points kept
-    bench: Workbench
+    bench: CompiledRecipe
     state: PhaseEquilibrium           # the points kept
     species: tuple[str, ...]
     beta: np.ndarray                  # (n,) mol/kg per pH
     slope: np.ndarray | None = None   # (n,) dpH per unit of the variable (titrations)
     equivalence: list[dict[str, float]] = field(default_factory=list)
     saturation: dict[str, np.ndarray] = field(default_factory=dict)
-    warnings: list[str] = field(default_factory=list)
+    notices: list[Notice] = field(default_factory=list)
     stopped: str = ""                 # why the sweep ended early ("" if complete)
+
+    @property
+    def warnings(self) -> list[str]:
+        """The texts of :attr:`notices`."""
+        return texts(self.notices)
 
     @property
     def complete(self) -> bool:
@@ -126,10 +137,12 @@ class Sweep:
         return {"kind": self.kind, "variable": self.variable, "complete": self.complete,
                 "stopped": self.stopped, "activity_model": self.bench.model.name,
                 "equivalence_points": self.equivalence, "warnings": self.warnings,
+                "notices": [n.to_dict() for n in self.notices],
                 "rows": self.rows()}
 
 
 # -- the four kinds --------------------------------------------------------------------------
+@names_its_arguments
 def titration(recipe: str | Path | Mapping[str, Any] | Recipe, titrant: str, to: str, *,
               sample: str | None = None, points: int = DEFAULT_POINTS,
               species: Sequence[str] = (), beyond_range: bool = False,
@@ -140,7 +153,7 @@ def titration(recipe: str | Path | Mapping[str, Any] | Recipe, titrant: str, to:
     (``"25 mL"``) of it; the titrant's water dilutes it.
     """
     name, strength = split_name_and_quantity(titrant, "titrant")
-    bench = Workbench.of(recipe, registry, also=(name,))
+    bench = compile_recipe(recipe, registry, also=(name,))
     t = bench.recipe.temperature_C
     stock = read_stock(name, strength, bench.tables, t, "titrant")
     final = expect(parse_quantity(to, "to"), ("volume",), "to").value
@@ -174,6 +187,7 @@ def titration(recipe: str | Path | Mapping[str, Any] | Recipe, titrant: str, to:
     return sweep
 
 
+@names_its_arguments
 def dilution(recipe: str | Path | Mapping[str, Any] | Recipe, ratio: str, *,
              points: int = DEFAULT_POINTS, species: Sequence[str] = (),
              beyond_range: bool = False, registry: Registry | None = None) -> Sweep:
@@ -181,19 +195,20 @@ def dilution(recipe: str | Path | Mapping[str, Any] | Recipe, ratio: str, *,
     lo, hi = _range(ratio, "ratio")
     if lo <= 0 or hi <= lo:
         raise RecipeError("ratio", f"{ratio!r} must be 1:N with N > 1", 'e.g. "1:1000"')
-    bench = Workbench.of(recipe, registry)
+    bench = compile_recipe(recipe, registry)
     factors = np.logspace(0.0, math.log10(hi / lo), _points(points))
     totals = np.array([_diluted(bench, f) for f in factors])
     return _finish(bench, "dilution", "dilution_factor", factors, bench.solve(totals), species,
                    beyond_range)
 
 
+@names_its_arguments
 def temperature_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: str, *,
                        points: int = DEFAULT_POINTS, species: Sequence[str] = (),
                        beyond_range: bool = False, registry: Registry | None = None) -> Sweep:
     """The recipe as made, from one temperature to another (``"5:60"``, °C)."""
     lo, hi = _range(span, "span")
-    bench = Workbench.of(recipe, registry)
+    bench = compile_recipe(recipe, registry)
     temps = np.linspace(lo, hi, _points(points))
     low, high = VALID_RANGE_C
     inside = (temps >= low) & (temps <= high)
@@ -214,6 +229,7 @@ def temperature_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: st
     return sweep
 
 
+@names_its_arguments
 def pH_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: str, *,
               points: int = DEFAULT_POINTS, species: Sequence[str] = (),
               beyond_range: bool = False, registry: Registry | None = None) -> Sweep:
@@ -223,7 +239,7 @@ def pH_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: str, *,
     that of the solution brought to that pH.
     """
     lo, hi = _range(span, "span")
-    bench = Workbench.of(recipe, registry)
+    bench = compile_recipe(recipe, registry)
     values = np.linspace(lo, hi, _points(points))
     fixed = np.repeat(bench.fixed()[None, :], values.size, axis=0)
     fixed[:, 0] = -values
@@ -238,7 +254,7 @@ def pH_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: str, *,
 
 
 # -- shared steps ----------------------------------------------------------------------------
-def _finish(bench: Workbench, kind: str, variable: str, values: np.ndarray,
+def _finish(bench: CompiledRecipe, kind: str, variable: str, values: np.ndarray,
             state: PhaseEquilibrium, species: Sequence[str], beyond_range: bool = False
             ) -> Sweep:
     """Keep the points up to the first failure or the first beyond the model's range.
@@ -246,8 +262,8 @@ def _finish(bench: Workbench, kind: str, variable: str, values: np.ndarray,
     With *beyond_range* the points past the model's range are kept, with a warning.
     """
     limit = bench.model.max_ionic_strength
-    bad = state.status != "converged"
-    outside = state.equilibrium.ionic_strength > limit * (1.0 + RANGE_TOLERANCE)
+    bad = ~succeeded(state.status)
+    outside = beyond_model_range(bench.model, state.equilibrium.ionic_strength)
     beyond = outside & ~beyond_range
     stop = np.flatnonzero(bad | beyond)
     stopped = ""
@@ -272,14 +288,17 @@ def _finish(bench: Workbench, kind: str, variable: str, values: np.ndarray,
         if s not in bench.system.species:
             _unknown_species(bench, s)
     notes = list(state.notes)
+    outside = np.asarray(outside)
     if beyond_range and outside[:kept].any():
         first = values[np.flatnonzero(outside[:kept])[0]]
-        notes.append(f"from {variable.replace('_', ' ')} {first:.6g} on, the ionic strength "
-                     f"is beyond the {bench.model.name} model's range (up to about {limit:g}); "
-                     "those points are less certain")
+        notes.append(Notice(
+            VALIDITY, "model-range", f"from {variable.replace('_', ' ')} {first:.6g} on, the "
+            f"ionic strength is beyond the {bench.model.name} model's range (up to about "
+            f"{limit:g}); those points are less certain",
+            {"model": bench.model.name, "from": float(first), "limit": limit}))
     return Sweep(kind, variable, values[:kept], bench, kept_state, chosen,
                  buffer_capacity(kept_state) if kept else np.zeros(0),
-                 saturation=_saturation(bench, kept_state), warnings=notes, stopped=stopped)
+                 saturation=_saturation(bench, kept_state), notices=notes, stopped=stopped)
 
 
 def _take_state(state: PhaseEquilibrium, rows: np.ndarray) -> PhaseEquilibrium:
@@ -293,7 +312,7 @@ def _take_state(state: PhaseEquilibrium, rows: np.ndarray) -> PhaseEquilibrium:
                    else state.bound)
 
 
-def _default_species(bench: Workbench, state: PhaseEquilibrium) -> tuple[str, ...]:
+def _default_species(bench: CompiledRecipe, state: PhaseEquilibrium) -> tuple[str, ...]:
     if not state.equilibrium.molality.shape[0]:
         return ()
     peak = state.equilibrium.molality.max(axis=0)
@@ -301,25 +320,18 @@ def _default_species(bench: Workbench, state: PhaseEquilibrium) -> tuple[str, ..
     return tuple(bench.system.species[i] for i in order[:DEFAULT_SPECIES])
 
 
-def _unknown_species(bench: Workbench, name: str) -> None:
+def _unknown_species(bench: CompiledRecipe, name: str) -> None:
     from ..errors import UnknownNameError
 
     raise UnknownNameError("species in this recipe", name, bench.system.species,
                            "the recipe's species are listed by `ionwright solve RECIPE`")
 
 
-def _saturation(bench: Workbench, state: PhaseEquilibrium) -> dict[str, np.ndarray]:
+def _saturation(bench: CompiledRecipe, state: PhaseEquilibrium) -> dict[str, np.ndarray]:
     """SI of every solid of the tables whose components the recipe has, per point."""
-    out = {}
     eq = state.equilibrium
-    for name in sorted(bench.tables.solids):
-        reaction = phase_reaction(bench.system, bench.tables, name, "solid")
-        if reaction is None:
-            continue
-        log_iap = (eq.log_activity @ reaction.stoichiometry
-                   + eq.ln_water_activity * reaction.water) / LN10
-        out[name] = log_iap - reaction.log10_k(state.t_C)
-    return out
+    return saturation_indices(bench.system, bench.tables, eq.log_activity,
+                              eq.ln_water_activity, state.t_C)
 
 
 def _equivalence_points(bench, volumes, slope, totals_at, slope_at) -> list[dict[str, float]]:
@@ -349,7 +361,7 @@ def _equivalence_points(bench, volumes, slope, totals_at, slope_at) -> list[dict
             for v, p, s in zip(centres, ph, slopes)]
 
 
-def _sample_water(bench: Workbench, sample: str | None) -> float:
+def _sample_water(bench: CompiledRecipe, sample: str | None) -> float:
     """kg of water in the titrated sample."""
     solution = solution_of(bench.recipe, bench.tables)
     if sample is None:
@@ -363,7 +375,7 @@ def _sample_water(bench: Workbench, sample: str | None) -> float:
     return q.value / solution.mass_g * solution.water_kg
 
 
-def _diluted(bench: Workbench, factor: float) -> np.ndarray:
+def _diluted(bench: CompiledRecipe, factor: float) -> np.ndarray:
     """Totals (mol/kg) after making the recipe's solution up to *factor* times its volume."""
     recipe = bench.recipe
     solution = solution_of(recipe, bench.tables)
@@ -376,9 +388,9 @@ def _diluted(bench: Workbench, factor: float) -> np.ndarray:
     for name, m in recipe.components:
         entries.append(Entry(component_solute(name, bench.tables), "component", name, "",
                              absolute=m * solution.water_kg))
-    made = mix(entries, recipe.temperature_C, volume_L=factor * solution.volume_L,
-               where="dilution")
-    return bench.base * solution.water_kg / made.solution.water_kg
+    diluted = mix(entries, recipe.temperature_C, volume_L=factor * solution.volume_L,
+                  where="dilution")
+    return bench.base * solution.water_kg / diluted.solution.water_kg
 
 
 def _range(text: str, where: str) -> tuple[float, float]:

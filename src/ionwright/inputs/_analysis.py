@@ -11,27 +11,28 @@ engine's own speciation (constants, activity coefficients and ion pairs), so tha
 solved sample reproduces the measured alkalinity. ``balance_on = "Cl"`` adjusts that
 ion until the sample is electroneutral instead of reporting the imbalance. Without a
 pH, the pH follows from electroneutrality.
+
+Reading an analysis never solves: what needs fitting is kept as an :class:`AnalysisFit`
+that the engine resolves (:mod:`ionwright.engine._fits`), calling back
+:func:`analysis_mixture` and :func:`finish_analysis` here.
 """
 
 from __future__ import annotations
 
-from dataclasses import replace
-from typing import TYPE_CHECKING, Any, Mapping
+from dataclasses import dataclass, replace
+from typing import Any, Mapping
 
 import numpy as np
 
 from ..chemistry._density import component_solute
-from ..outputs._derived import ALKALINITY_END_POINT_PH, alkalinity_weights
-from ..errors import ConvergenceError, FormulaError, RecipeError
 from ..chemistry._formula import Formula, parse_formula
-from ._recipe import (Conversion, Entry, Recipe, as_number, check_temperature,
-                     given_density, mix)
+from ..chemistry._tableset import TableSet
+from ..core._acid_base import ALKALINITY_END_POINT_PH
+from ..errors import FormulaError, RecipeError
+from ._checks import as_number, check_temperature, given_density
+from ._mixing import Conversion, Entry, Mixture, mix
 from ._units import (CALCIUM_CARBONATE, CALCIUM_CARBONATE_EQUIVALENTS, Quantity,
-                    basis_moles_per_mole, expect, parse_quantity)
-
-if TYPE_CHECKING:
-    from ..plugins._registry import Registry
-    from ..chemistry._tableset import TableSet
+                     basis_moles_per_mole, expect, parse_quantity)
 
 NAMED_KEYS = {"temperature_C", "pH", "alkalinity", "balance_on", "density"}
 #: pH a meter reads in a water sample; beyond it a value is a slip (a conductivity, a unit)
@@ -44,17 +45,32 @@ ALKALINITY_DIMENSIONS = ("equivalents", "mass_per_volume", "molarity")
 CARBONATE = "CO3^2-"
 PROTON = "H+"
 LIGHT = {"H", "O"}
-FIT_TOLERANCE = 1e-12
-FIT_ROUNDS = 60
-DENSITY_ROUNDS = 8
-STEP = 1e-7
-FLOOR = 1e-4  # smallest fitted total relative to its scale; below it there is no solution
 
 
-def read_analysis(section: Any, recipe: Recipe, tables: TableSet,
-                  registry: Registry | None) -> Recipe:
-    """*recipe* with the component totals, pH and solution of the ``[analysis]`` *section*."""
-    origin = recipe.origin
+@dataclass(frozen=True)
+class AnalysisFit:
+    """An ``[analysis]`` as read: its analytes as entries, and what the engine must fit.
+
+    ``alkalinity`` is (eq per litre, as given) or None; ``balance`` (key, component) the
+    ion adjusted for electroneutrality, or None. Without either, nothing needs the engine.
+    """
+
+    where: str
+    t_C: float
+    ph: float | None
+    density: float | None
+    given: tuple[Entry, ...]
+    alkalinity: tuple[float, str] | None
+    balance: tuple[str, str] | None
+    balance_given: str = "not given"
+
+    @property
+    def needs_engine(self) -> bool:
+        return self.alkalinity is not None or self.balance is not None
+
+
+def read_analysis(section: Any, origin: str, tables: TableSet) -> AnalysisFit:
+    """The :class:`AnalysisFit` of the ``[analysis]`` *section* of recipe *origin*."""
     if not isinstance(section, dict):
         raise RecipeError(f"{origin} [analysis]", "must be a table of analyte = amount",
                           'e.g. [analysis] then Ca = "48 mg/L"')
@@ -85,53 +101,52 @@ def read_analysis(section: Any, recipe: Recipe, tables: TableSet,
                                     quantity, f"{where} {key}", f"[analysis] {key}"))
     alkalinity = _alkalinity(section, ph, where)
     balance = _balance_target(section, ph, keys, tables, where)
-    fitting = alkalinity is not None or balance is not None
-    fitted: dict[str, float] = {}
-    as_given: dict[str, float] | None = None
-    for _ in range(DENSITY_ROUNDS):
-        kept = [e for e in given if e.solute.name not in fitted]
-        extra = [Entry(component_solute(c, tables), "component", "", "", per_kg_water=m)
-                 for c, m in fitted.items()]
-        mixture = mix([*kept, *extra], t, volume_L=1.0, density=density, where=where)
-        totals = dict(mixture.molalities("component"))
-        as_given = dict(totals) if as_given is None else as_given
-        if not fitting:
-            break
-        litres_per_kg = mixture.solution.volume_L / mixture.solution.water_kg
-        new = fit_carbonate_and_balance(
-            tables, registry, recipe.activity_model, t, ph, totals,
-            None if alkalinity is None else alkalinity[0] * litres_per_kg,
-            None if balance is None else balance[1], where, fitted)
-        settled = fitted and all(abs(new[c] - fitted[c]) <= 1e-12 * abs(new[c]) for c in new)
-        fitted = new
-        if settled:
-            break
+    return AnalysisFit(where, t, ph, density, tuple(given), alkalinity, balance,
+                       str(section.get(balance[0], "not given")) if balance else "not given")
+
+
+def analysis_mixture(fit: AnalysisFit, fitted: Mapping[str, float],
+                     tables: TableSet) -> Mixture:
+    """The analysed sample made up to one litre, with the *fitted* totals (mol/kg water)
+    in place of the analytes they replace."""
+    kept = [e for e in fit.given if e.solute.name not in fitted]
+    extra = [Entry(component_solute(c, tables), "component", "", "", per_kg_water=m)
+             for c, m in fitted.items()]
+    return mix([*kept, *extra], fit.t_C, volume_L=1.0, density=fit.density, where=fit.where)
+
+
+def finish_analysis(fit: AnalysisFit, mixture: Mixture, fitted: Mapping[str, float],
+                    as_given: Mapping[str, float], tables: TableSet) -> dict[str, Any]:
+    """The recipe fields (temperature, fixed pH, component totals, solution) of the
+    analysis made up as *mixture* with the *fitted* totals; *as_given* are the totals
+    before fitting (for the report)."""
+    totals = dict(mixture.molalities("component"))
     totals.update(fitted)
     conversions = list(mixture.solution.conversions)
-    if alkalinity is not None:
-        conversions.append(Conversion("[analysis] alkalinity", alkalinity[1], fitted[CARBONATE],
-                                      note=f"total carbonate ({CARBONATE}) that gives this "
-                                      "alkalinity at the measured pH"))
-    if balance is not None:
-        key, component = balance
+    if fit.alkalinity is not None:
+        conversions.append(Conversion("[analysis] alkalinity", fit.alkalinity[1],
+                                      fitted[CARBONATE], note=f"total carbonate ({CARBONATE}) "
+                                      "that gives this alkalinity at the measured pH"))
+    if fit.balance is not None:
+        key, component = fit.balance
         before = (f"as given {as_given[component]:.5g} mol/kg water" if component in as_given
                   else "not given")
-        conversions.append(Conversion(f"[analysis] {key}", str(section.get(key, "not given")),
-                                      fitted[component], note=f"balanced for electroneutrality; "
-                                      f"{before}"))
+        conversions.append(Conversion(f"[analysis] {key}", fit.balance_given,
+                                      fitted[component], note=f"balanced for "
+                                      f"electroneutrality; {before}"))
     fix = {}
-    if ph is None:
-        _one_sided(totals, tables, where)
+    if fit.ph is None:
+        _one_sided(totals, tables, fit.where)
         protons = -sum(tables.entry(c).charge * m for c, m in totals.items())
         totals[PROTON] = protons
         conversions.append(Conversion("[analysis] pH", "not measured", protons,
                                       note="protons set so that the sample is electroneutral; "
                                       "the pH follows"))
     else:
-        fix = {"pH": ph}
+        fix = {"pH": fit.ph}
     solution = replace(mixture.solution, conversions=tuple(conversions))
-    return replace(recipe, temperature_C=t, fix=fix, components=tuple(totals.items()),
-                   solution=solution)
+    return {"temperature_C": fit.t_C, "fix": fix, "components": tuple(totals.items()),
+            "solution": solution, "pending": None}
 
 
 def _one_sided(totals: Mapping[str, float], tables: TableSet, where: str) -> None:
@@ -268,112 +283,3 @@ def _balance_target(section: Mapping[str, Any], ph: float | None, keys: Mapping[
         raise RecipeError(here, f"{key!r} ({component}) carries no charge",
                           "balance on a major ion such as Cl or Na")
     return key, component
-
-
-def fit_carbonate_and_balance(tables: TableSet, registry: Registry | None, model_name: str,
-                              t_C: float, ph: float, totals: Mapping[str, float],
-                              alkalinity: float | None, balance: str | None,
-                              where: str, guess: Mapping[str, float] | None = None
-                              ) -> dict[str, float]:
-    """Carbonate total and/or balancing-ion total (mol/kg) that reproduce the analysis.
-
-    At the fixed pH, the unknowns (total CO3-2 for *alkalinity* in eq/kg, the total of
-    component *balance* for zero charge) are found by Newton's method with
-    finite-difference derivatives; each iteration solves the sample and its perturbed
-    copies as one batch, so constants, activity coefficients and ion pairs are the
-    engine's own. *guess* (a previous fit) is the starting point where given.
-    """
-    from ..core import _solver as solver
-    from ..plugins._registry import default_registry
-    from ..activity._pairs import ion_pairs_of
-    from ..core._system import compile_system
-
-    unknowns = ([CARBONATE] if alkalinity is not None else []) + ([balance] if balance else [])
-    start = dict(totals)
-    model = (registry or default_registry()).model(model_name)
-    system = compile_system(tables, [c for c, v in start.items() if v > 0] + unknowns,
-                            ion_pairs_of(model))
-    weights = alkalinity_weights(system, t_C)
-    base = np.array([start.get(c, 0.0) for c in system.components])
-    cols = [system.components.index(c) for c in unknowns]
-    scale = np.array(([alkalinity] if alkalinity is not None else [])
-                     + ([sum(abs(tables.entry(c).charge) * v for c, v in start.items())
-                         + (alkalinity or 0.0)] if balance else []))
-    floor = FLOOR * scale
-    # which way each residual moves as its unknown grows: +1 alkalinity, z for the ion
-    direction = np.array([1.0] * (alkalinity is not None)
-                         + ([float(np.sign(tables.entry(balance).charge))] if balance else []))
-
-    def residuals(rows: np.ndarray) -> np.ndarray:
-        """Scaled residuals for each row of unknowns, all solved as one batch."""
-        batch = np.repeat(base[None, :], len(rows), axis=0)
-        batch[:, cols] = rows
-        fixed = np.full(batch.shape, np.nan)
-        fixed[:, 0] = -ph
-        bound = model.bind(system.properties, np.full(len(rows), t_C))
-        eq = solver.solve(system, batch, bound, fixed)
-        if not eq.success.all():
-            bad = int(np.flatnonzero(~eq.success)[0])
-            raise ConvergenceError(str(eq.status[bad]), int(eq.iterations[bad]),
-                                   float(eq.residual[bad]), f"fitting {where}")
-        return _residuals(eq.molality, weights, system.charge, alkalinity,
-                          balance is not None) / scale
-
-    x = np.array([(guess or {}).get(c) or _first_guess(c, start, alkalinity, system, t_C, ph)
-                  for c in unknowns])
-    x = np.maximum(x, floor)
-    k = len(x)
-    lowest = residuals(np.where(np.eye(k, dtype=bool), floor, x))  # each unknown at its floor
-    for i in range(k):
-        if direction[i] * lowest[i, i] >= 0:
-            _infeasible(unknowns[i], lowest[i] * scale, alkalinity, balance, where)
-    for _ in range(FIT_ROUNDS):
-        res = residuals(np.vstack([x, x * (1.0 + STEP * np.eye(k))]))
-        if np.all(np.abs(res[0]) <= FIT_TOLERANCE):
-            return dict(zip(unknowns, x.tolist()))
-        jac = (res[1:] - res[0]).T / (x * STEP)
-        trial = x + np.linalg.lstsq(jac, -res[0], rcond=None)[0]
-        x = np.where(trial > floor, trial, np.maximum(0.1 * x, floor))
-    raise ConvergenceError("max-iterations", FIT_ROUNDS, float(np.max(np.abs(res[0]))),
-                           f"fitting carbonate or balance for {where}")
-
-
-def _residuals(molality: np.ndarray, weights: np.ndarray, charge: np.ndarray,
-               alkalinity: float | None, balancing: bool) -> np.ndarray:
-    """Residuals (alkalinity − given, Σ z·m) in mol/kg, per sample of the batch."""
-    out = []
-    if alkalinity is not None:
-        out.append(molality @ weights - alkalinity)
-    if balancing:
-        out.append(molality @ charge)
-    return np.stack(out, axis=1)
-
-
-def _first_guess(component: str, totals: Mapping[str, float], alkalinity: float | None,
-                 system, t_C: float, ph: float) -> float:
-    """Start: carbonate from ideal carbonic-acid fractions; the balancing ion as given."""
-    if component != CARBONATE:
-        return max(totals.get(component, 0.0), 1e-6)
-    formation = system.log10_k(np.array([t_C]))[0]
-    h = 10.0 ** -ph
-    weights = alkalinity_weights(system, t_C)
-    col = system.components.index(CARBONATE)
-    carbonate = [i for i in range(len(system.species))
-                 if system.nu[i, col] == 1 and np.count_nonzero(system.nu[i, 1:]) == 1]
-    shares = np.array([10.0 ** formation[i] * h ** system.nu[i, 0] for i in carbonate])
-    per_mole = float(shares @ weights[carbonate] / shares.sum())
-    return max(alkalinity / per_mole if per_mole > 0 else alkalinity, 1e-9)
-
-
-def _infeasible(unknown: str, res: np.ndarray, alkalinity: float | None,
-                balance: str | None, where: str) -> None:
-    """Raise the error for an unknown that would have to be negative (*res* in mol/kg)."""
-    if unknown == CARBONATE:
-        without = alkalinity + res[0]
-        raise RecipeError(f"{where} alkalinity", "is at or below what the other ions give at "
-                          f"the measured pH ({1e3 * without:.4g} meq/kg without carbonate): "
-                          "no positive carbonate total fits",
-                          "check the alkalinity, its unit and the pH")
-    raise RecipeError(f"{where} balance_on", f"balancing on {balance} would need a negative "
-                      "total: the other ions already carry too much charge of its sign",
-                      "balance on an ion of the opposite charge")

@@ -20,7 +20,8 @@ from typing import Any
 
 import numpy as np
 
-from ..core._sensitivity import LN10, response
+from ..core._response import response
+from ..chemistry._constants import LN10
 
 
 def buffer_capacity_mol_per_kg(result) -> float | None:

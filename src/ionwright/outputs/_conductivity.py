@@ -90,7 +90,7 @@ def _corrected(lam0: np.ndarray, z: np.ndarray, c: np.ndarray, t: np.ndarray) ->
     q = zi * zbar / (zi + zbar) * (lam0 + lambar) / (zbar * lam0 + zi * lambar)
     relaxation = RELAXATION * zi * zbar * q / (eps_t ** 1.5 * (1.0 + np.sqrt(q)))
     electrophoresis = ELECTROPHORESIS * zi / (eta_poise * np.sqrt(eps_t))
-    shield = 1.0 + debye_huckel_B(t)[:, None] * CLOSEST_APPROACH_ANGSTROM * root
+    shield = 1.0 + np.asarray(debye_huckel_B(t))[:, None] * CLOSEST_APPROACH_ANGSTROM * root
     return np.maximum(lam0 - (relaxation * lam0 + electrophoresis) * root / shield, 0.0)
 
 

@@ -31,6 +31,7 @@ from dataclasses import replace
 import numpy as np
 
 from ..chemistry._water import debye_huckel_A
+from ..chemistry._constants import LN10
 
 BATES_GUGGENHEIM_BA = 1.5   # kg^½ mol^-½, the fixed B·å of the convention
 CONVENTION_MAX_IONIC_STRENGTH = 0.1  # mol/kg: where the convention is defined
@@ -66,7 +67,7 @@ def model_log10_gamma_chloride(result) -> float:
     bound = result.model.bind(props, np.array([result.temperature_C]))
     u = np.array([np.sqrt(result.ionic_strength)])
     ln_gamma = bound.ln_gamma(u, np.append(molality, 0.0)[None, :])
-    return float(ln_gamma[0, -1] / np.log(10.0))
+    return float(ln_gamma[0, -1] / LN10)
 
 
 def conventional_pH(result) -> float:

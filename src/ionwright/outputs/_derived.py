@@ -16,10 +16,9 @@ import numpy as np
 
 from ._conventional_ph import conventional_pH
 from ..chemistry._formula import Formula, parse_formula
-from ..core._system import WATER, ChemicalSystem, log10_k_at
+from ..core._acid_base import alkalinity_weights
+from ..core._system import WATER, log10_k_at
 
-#: Acids with pK above this are proton acceptors' zero level (Dickson 1981).
-ALKALINITY_END_POINT_PH = 4.5
 CALCIUM_CARBONATE = parse_formula("CaCO3")
 NITROGEN = parse_formula("N")
 CALCITE = "calcite"
@@ -30,30 +29,6 @@ _BICARBONATE = parse_formula("HCO3-")
 KEYS = ("pH_standards_scale", "charge_balance_error_percent", "alkalinity_mg_per_L_as_CaCO3",
         "hardness_mg_per_L_as_CaCO3", "log10_pCO2_atm", "unionized_ammonia_fraction",
         "unionized_ammonia_mg_per_L_as_N", "tds_mg_per_L", "langelier_index")
-
-
-def alkalinity_weights(system: ChemicalSystem, t_C: float) -> np.ndarray:
-    """Protons each species can take up to the carbonic-acid end point, shape (s,).
-
-    Total alkalinity = Σ weight·molality. Each acid–base component gets a zero level:
-    the protonated form of its own series that prevails at pH 4.5 (H2CO3*, H2PO4-,
-    NH4+, H2S, B(OH)3, H4SiO4, SO4^2-, F-), which is Dickson's rule that acids with
-    pK > 4.5 are counted with their conjugate bases. A species' weight is its zero-level
-    proton content minus its protons: HCO3- 1, CO3-2 2, OH- 1, H+ −1, CaCO3 2, HSO4- −1.
-
-    References
-    ----------
-    Dickson, A.G. (1981) Deep-Sea Res. 28A, 609–623.
-    """
-    formation = system.log10_k(np.array([t_C]))[0]
-    nu = system.nu
-    others = np.abs(nu[:, 1:]) > 0
-    level = np.zeros(system.n_components)
-    for j in range(1, system.n_components):
-        series = np.flatnonzero((nu[:, j] == 1) & (others.sum(axis=1) == 1))
-        score = formation[series] - nu[series, 0] * ALKALINITY_END_POINT_PH
-        level[j] = nu[series[np.argmax(score)], 0]
-    return nu[:, 1:] @ level[1:] - nu[:, 0]
 
 
 def alkalinity(result) -> float:

@@ -17,6 +17,8 @@ import numpy as np
 
 from ..core._system import log10_k_at
 from ..chemistry._tableset import Override, TableSet
+from ..notices import CONSTANTS, Notice
+from ._speciation import Speciation
 
 KIND = {"species": "species", "solids": "solid", "gases": "gas", "components": "component",
         "reagents": "reagent"}
@@ -89,8 +91,8 @@ def ion_pair_lines(result) -> list[str]:
     return lines
 
 
-def override_warnings(result) -> list[str]:
-    """A warning for every entry of the table set that replaces an earlier table's entry.
+def override_warnings(result: Speciation) -> list[Notice]:
+    """A notice for every entry of the table set that replaces an earlier table's entry.
 
     Replacements the solve used are described one by one (old and new values);
     the others are named, grouped by the pair of tables.
@@ -98,17 +100,22 @@ def override_warnings(result) -> list[str]:
     used = set(_used_entries(result))
     used |= {("components", c) for c in result.system.components}
     used |= {("reagents", m.name) for m in result.makeups if m.how == "reagent"}
-    out, unused = [], {}
+    out: list[Notice] = []
+    unused: dict[tuple[str, str], list[str]] = {}
     for ov in result.tables.overrides:
         if (ov.kind, ov.name) in used:
-            out.append(describe_override(ov))
+            out.append(Notice(CONSTANTS, "override", describe_override(ov),
+                              {"kind": ov.kind, "name": ov.name, "table": ov.new.table,
+                               "replaces": ov.old.table}))
         else:
             unused.setdefault((ov.new.table, ov.old.table), []).append(
                 f"{KIND[ov.kind]} {ov.name!r}")
     for (new, old), names in unused.items():
         entries = "entry" if len(names) == 1 else "entries"
-        out.append(f"table {new!r} also overrides {len(names)} {entries} of table {old!r} "
-                   f"that this solve did not use: {', '.join(names)}")
+        out.append(Notice(CONSTANTS, "override-unused",
+                          f"table {new!r} also overrides {len(names)} {entries} of table "
+                          f"{old!r} that this solve did not use: {', '.join(names)}",
+                          {"table": new, "replaces": old, "count": len(names)}))
     return out
 
 
@@ -130,7 +137,7 @@ def constants_section(result) -> list[str]:
     if not entries:
         return []
     lines = ["", f"constants ({len(entries)} log K at {result.temperature_C:g} °C; "
-                 f"`ionwright solve --explain` lists each with its source)"]
+                 f"the explained listing gives each with its source)"]
     by_table: dict[str, dict[str, int]] = {}
     memory: dict[str, int] = {}
     for e in entries:

@@ -9,7 +9,7 @@ from __future__ import annotations
 from ..chemistry._names import pretty_name
 from ._buffer_quantities import report_lines as formulation_lines
 from ._derived import report_lines as derived_lines
-from ..core._phases import phase_lines
+from ._phase_report import phase_lines
 from ._provenance import constants_section
 
 SPECIES_SHOWN = 25
@@ -39,7 +39,7 @@ def text_report(result) -> str:
     hidden = len(r.species_rows()) - min(len(rows), SPECIES_SHOWN)
     if hidden:
         lines.append(f"(+{hidden} species below {MIN_SHOWN_MOLALITY:g} mol/kg or past the "
-                     f"first {SPECIES_SHOWN}; --json lists all)")
+                     f"first {SPECIES_SHOWN}; the JSON result lists all)")
     dist = r.distribution()
     if dist:
         lines += ["", "where each component is (share of its total)"]

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from functools import cached_property
 from typing import Any
 
@@ -13,102 +13,23 @@ from ._buffer_quantities import buffer_quantities, recipe_in_grams
 from ._conductivity import METHOD as CONDUCTIVITY_METHOD, result_conductivity
 from ._derived import derived_quantities, solution_summary
 from ._osmolality import Osmotic, osmotic
-from ..design._compare import model_validity_notes
-from ..chemistry._ingredients import Makeup
-from ..core._phases import phase_summary
-from ._supersaturation import supersaturation_warnings
+from ..notices import DATA_QUALITY, INPUT, VALIDITY, Notice, texts, wrap
+from ._model_numbers import beyond_model_range, model_range_notice, model_validity_notes
+from ._phase_report import phase_summary
+from ..inputs._mixing import Solution
+from ..inputs._recipe import solution_of
 from ._provenance import constants_used, ion_pairs, override_warnings
-from ..activity._validity import within
-from ..inputs._recipe import Recipe
-from ..core._solver import Equilibrium
-from ..core._system import PROTON, WATER, ChemicalSystem, log10_k_at
-from ..chemistry._tableset import TableSet
+from ._speciation import Speciation
+from ._supersaturation import supersaturation_warnings
 
-LN10 = np.log(10.0)
 IMBALANCE_WARNING = 1e-6  # relative charge imbalance worth a warning with a fixed pH
 
 
 @dataclass
-class Result:
+class Result(Speciation):
     """Speciation of one recipe; ``to_dict()`` is the JSON contract, ``report()`` the text."""
 
-    recipe: Recipe
-    tables: TableSet
-    system: ChemicalSystem
-    model: Any
-    equilibrium: Equilibrium
-    totals: dict[str, float]
-    makeups: list[Makeup]
-    notes: list[str] = field(default_factory=list)
-    phases: dict[str, Any] = field(default_factory=dict)  # solids and gases: phases.py
-
-    # -- numbers ----------------------------------------------------------------------
-    @property
-    def converged(self) -> bool:
-        return bool(self.equilibrium.success[0])
-
-    @property
-    def temperature_C(self) -> float:
-        return self.recipe.temperature_C
-
-    @property
-    def molality(self) -> np.ndarray:
-        return self.equilibrium.molality[0]
-
-    @property
-    def log10_gamma(self) -> np.ndarray:
-        return self.equilibrium.ln_gamma[0] / LN10
-
-    @property
-    def activity(self) -> np.ndarray:
-        return self.molality * 10.0 ** self.log10_gamma
-
-    @property
-    def pH(self) -> float:
-        return float(-self.equilibrium.log_activity[0, 0] / LN10)
-
-    @property
-    def ionic_strength(self) -> float:
-        return float(self.equilibrium.ionic_strength[0])
-
-    @property
-    def log10_water_activity(self) -> float:
-        return float(self.equilibrium.ln_water_activity[0] / LN10)
-
-    def species_molality(self, name: str) -> float:
-        return float(self.molality[self.system.index(name)])
-
-    def parent_total(self, name: str) -> float:
-        """Total mol/kg of the components (but H+ and H2O) that species *name* is made of."""
-        parents = [c for c in self.tables.resolve(name).stoichiometry if c not in (PROTON, WATER)]
-        return float(sum(self.totals.get(c, 0.0) for c in parents))
-
-    def species_activity(self, name: str) -> float:
-        return float(self.activity[self.system.index(name)])
-
-    @property
-    def charge_balance(self) -> tuple[float, float]:
-        """(Σ z m, Σ |z| m) in mol/kg: the imbalance and its natural scale."""
-        z = self.system.charge
-        return float(z @ self.molality), float(np.abs(z) @ self.molality)
-
-    @cached_property
-    def saturation_indices(self) -> dict[str, float]:
-        """SI = log10(IAP/Ksp) for every solid whose components are all present."""
-        allowed = set(self.system.components) | {WATER}
-        log_a = dict(zip(self.system.components, self.equilibrium.log_activity[0] / LN10))
-        log_a[WATER] = self.log10_water_activity
-        out = {}
-        t = np.array([self.temperature_C])
-        for name in sorted(self.tables.solids):
-            res = self.tables.resolve(name, "solids")
-            if not set(res.stoichiometry) <= allowed:
-                continue
-            log_iap = sum(nu * log_a[c] for c, nu in res.stoichiometry.items())
-            log10_k = sum(m * float(log10_k_at(lk, t)[0]) for _, m, lk in res.terms)
-            out[name] = float(log_iap - log10_k)
-        return out
-
+    # -- formulation quantities -------------------------------------------------------
     @cached_property
     def osmotic(self) -> Osmotic:
         """Osmotic coefficient, osmolality and water activity (outputs/_osmolality.py)."""
@@ -134,10 +55,8 @@ class Result:
         return result_conductivity(self)
 
     @cached_property
-    def solution(self):
+    def solution(self) -> Solution:
         """Water, volume and density of the recipe's solution (given or estimated)."""
-        from ..inputs._recipe import solution_of
-
         return solution_of(self.recipe, self.tables)
 
     @cached_property
@@ -149,42 +68,34 @@ class Result:
         """Each ingredient in g/kg water, g/L and grams for the recipe's batch."""
         return recipe_in_grams(self, self.solution.water_kg, self.solution.volume_L)
 
-    def distribution(self) -> dict[str, dict[str, float]]:
-        """For each component but H+: fraction of its total in each species (≥ 1e-6)."""
-        out = {}
-        nu = self.system.nu
-        for j, comp in enumerate(self.system.components):
-            if comp == PROTON or self.totals.get(comp, 0.0) <= 0:
-                continue
-            carried = nu[:, j] * self.molality
-            total = carried.sum()
-            shares = {self.system.species[i]: float(carried[i] / total)
-                      for i in np.flatnonzero(nu[:, j] > 0) if carried[i] / total >= 1e-6}
-            out[comp] = dict(sorted(shares.items(), key=lambda kv: -kv[1]))
-        return out
-
     @cached_property
-    def warnings(self) -> list[str]:
+    def notices(self) -> list[Notice]:
+        """Everything the reader should know about this result, as typed notices."""
         out = list(self.notes)
         if self.recipe.solution is not None:  # stocks dosed from an extrapolated density
-            out.extend(self.recipe.solution.warnings)
-        limit = self.model.max_ionic_strength
-        if not within(self.ionic_strength, limit):
-            out.append(f"ionic strength {self.ionic_strength:.3g} mol/kg is beyond the range "
-                       f"of the {self.model.name} model (up to about {limit:g}); results are "
-                       f"less certain; compare models or use one valid at this strength")
+            out.extend(wrap(self.recipe.solution.warnings, INPUT, "stock-density"))
+        if beyond_model_range(self.model, self.ionic_strength):
+            out.append(model_range_notice(self.model, self.ionic_strength))
         out.extend(model_validity_notes(self))
-        out.extend(supersaturation_warnings(self))
+        out.extend(wrap(supersaturation_warnings(self), VALIDITY, "supersaturated"))
         if "pH" in self.recipe.fix:
             imbalance, scale = self.charge_balance
             if scale > 0 and abs(imbalance) / scale > IMBALANCE_WARNING:
-                out.append(f"with pH fixed at {self.recipe.fix['pH']:g} the solution is not "
-                           f"electroneutral: Σz·m = {imbalance:+.3g} mol/kg "
-                           f"({100 * imbalance / scale:+.2g} % of Σ|z|·m); an unlisted "
-                           f"ion or acid/base would make up the difference")
+                out.append(Notice(
+                    DATA_QUALITY, "fixed-ph-imbalance",
+                    f"with pH fixed at {self.recipe.fix['pH']:g} the solution is not "
+                    f"electroneutral: Σz·m = {imbalance:+.3g} mol/kg "
+                    f"({100 * imbalance / scale:+.2g} % of Σ|z|·m); an unlisted "
+                    f"ion or acid/base would make up the difference",
+                    {"imbalance_mol_per_kg": imbalance, "scale_mol_per_kg": scale}))
         out.extend(override_warnings(self))
         out.extend(cautions(self))
         return out
+
+    @property
+    def warnings(self) -> list[str]:
+        """The texts of :attr:`notices` (the ``"warnings"`` of the JSON contract)."""
+        return texts(self.notices)
 
     # -- outputs ----------------------------------------------------------------------
     def species_rows(self) -> list[dict[str, Any]]:
@@ -223,6 +134,7 @@ class Result:
             "solution": solution_summary(self),
             "phases": phase_summary(self),
             "warnings": self.warnings,
+            "notices": [n.to_dict() for n in self.notices],
         }
 
     def to_frame(self):

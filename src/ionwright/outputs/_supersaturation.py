@@ -51,4 +51,4 @@ def _model_caveat(result: Any, name: str) -> str:
         return f"this SI is uncertain: {why}"
     return (f"this SI comes from the {model.name} model, and {why}: at saturation molalities "
             f"an SI is meaningful with the Pitzer model (activity_model = \"pitzer\", when it "
-            f"has parameters for these ions); compare with ionwright solve --compare-models")
+            f"has parameters for these ions); compare the activity models")

@@ -5,8 +5,11 @@ docstrings in :mod:`ionwright.plugins.hookspecs`; tests build a fresh :class:`Re
 clear the cached :func:`default_registry`.
 """
 
+from ..data._parameter_tables import ParameterTable
 from . import hookspecs
 from ._registry import Registry, default_registry, plugin_manager
+from ._table_sets import load_tables
 from .hookspecs import hookimpl
 
-__all__ = ["hookspecs", "hookimpl", "Registry", "default_registry", "plugin_manager"]
+__all__ = ["hookspecs", "hookimpl", "ParameterTable", "Registry", "default_registry",
+           "plugin_manager", "load_tables"]

@@ -5,9 +5,12 @@ from __future__ import annotations
 from importlib.resources import files
 
 from ..activity import BUILTIN_MODELS
+from ..data._parameter_tables import ParameterTable
 from .hookspecs import hookimpl
 
 BUNDLED_TABLES = ("core", "metals", "organics")
+#: Parameter tables of the built-in models: table name → model that reads it.
+BUNDLED_PARAMETER_TABLES = {"pitzer": "pitzer"}
 
 
 @hookimpl
@@ -15,6 +18,14 @@ def register_tables():
     """The bundled tables, as package resources read when first asked for."""
     folder = files("ionwright") / "constants"
     return {name: folder / f"{name}.toml" for name in BUNDLED_TABLES}
+
+
+@hookimpl
+def register_parameter_tables():
+    """The bundled parameter tables (Pitzer), as package resources read when first used."""
+    folder = files("ionwright") / "constants"
+    return {name: ParameterTable(model, folder / f"{name}.toml")
+            for name, model in BUNDLED_PARAMETER_TABLES.items()}
 
 
 @hookimpl

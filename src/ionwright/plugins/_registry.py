@@ -33,6 +33,7 @@ from contextlib import redirect_stdout
 from dataclasses import dataclass, replace
 from functools import lru_cache
 from importlib.metadata import EntryPoint, entry_points
+from ..data._parameter_tables import ParameterTable
 try:
     from importlib.resources.abc import Traversable
 except ImportError:  # Python 3.10
@@ -203,7 +204,7 @@ def plugin_manager(problems: list[PluginProblem] | None = None,
         trace(f"entry point {ep.name!r} = {ep.value}: {failure or 'registered'}")
         if failure and problems is None:
             raise PluginError(ep.name, failure)
-        if failure:
+        if failure and problems is not None:
             problems.append(PluginProblem(ep.name, failure))
     return manager
 
@@ -252,6 +253,7 @@ class Registry:
         self.tables: dict[str, TableOffer] = {}
         self.models: dict[str, Any] = {}
         self.reagent_layers: dict[str, ConstantTable] = {}
+        self.parameter_tables: dict[str, ParameterTable] = {}
         self._owner: dict[tuple[str, str], str] = {}
         self._guarded: dict[str, GuardedModel] = {}
         self._files: set[str] = set()
@@ -264,6 +266,10 @@ class Registry:
                 self._offer_model(provider, name, model)
         for provider, offered in self._call("register_reagents"):
             self._offer_reagents(provider, offered)
+        for provider, offered in self._call("register_parameter_tables"):
+            for name, table in offered.items():
+                self._offer_parameter_table(provider, name, table)
+        self._hand_out_parameter_tables()
         files = ([(Path(p), "the caller") for p in table_files] if table_files is not None
                  else in_house_table_files(env))
         for path, how in files:
@@ -327,6 +333,33 @@ class Registry:
         else:
             self._claim("activity model", name, provider)
             self.models[name] = model
+
+    def _offer_parameter_table(self, provider: str, name: Any, table: Any) -> None:
+        if not isinstance(name, str) or not name.strip():
+            self._problem(provider, f"register_parameter_tables(): table name {name!r} must "
+                          "be a non-empty string")
+        elif not isinstance(table, ParameterTable):
+            self._problem(provider, f"register_parameter_tables(): table {name!r} must be an "
+                          f"ionwright.plugins.ParameterTable, got {type(table).__name__}")
+        else:
+            self._claim("parameter table", name, provider)
+            self.parameter_tables[name] = replace(table, name=name, provider=provider)
+
+    def _hand_out_parameter_tables(self) -> None:
+        """Give every model the parameter tables offered for it, in registration order."""
+        by_model: dict[str, list[ParameterTable]] = {}
+        for table in self.parameter_tables.values():
+            by_model.setdefault(table.model, []).append(table)
+        for model_name, tables in by_model.items():
+            model = self.models.get(model_name)
+            if model is None or not hasattr(model, "use_parameter_tables"):
+                for table in tables:
+                    self._problem(table.provider, f"register_parameter_tables(): table "
+                                  f"{table.name!r} is for activity model {model_name!r}, "
+                                  "which no plugin registers or which reads no parameter "
+                                  "tables")
+                continue
+            model.use_parameter_tables(tables)
 
     def _offer_reagents(self, provider: str, offered: Mapping) -> None:
         layer = REAGENT_LAYER_PREFIX + provider

@@ -11,16 +11,25 @@ Modelling in Aquatic Chemistry, OECD Nuclear Energy Agency, Paris, ch. IX.
 
 from __future__ import annotations
 
-from ionwright import hookimpl
+from importlib.resources import files
 
-from .coefficients import Epsilon, EpsilonTable, bundled_epsilon, read_epsilon
+from ionwright import hookimpl
+from ionwright.plugins import ParameterTable
+
+from .coefficients import Epsilon, EpsilonTable, bundled_epsilon, merged_epsilon, read_epsilon
 from .model import BoundSIT, SITModel
 
 __all__ = ["SITModel", "BoundSIT", "Epsilon", "EpsilonTable", "bundled_epsilon",
-           "read_epsilon"]
+           "merged_epsilon", "read_epsilon"]
 
 
 @hookimpl
 def register_activity_models():
-    """SIT with the bundled ε table (read, and checked, when the registry is built)."""
+    """SIT; its ε arrive as parameter tables (below, and any in-house ones)."""
     return {SITModel.name: SITModel()}
+
+
+@hookimpl
+def register_parameter_tables():
+    """This plugin's ε table, read (and checked) when SIT is first bound."""
+    return {"sit-epsilon": ParameterTable(SITModel.name, files(__name__) / "epsilon.toml")}

@@ -56,6 +56,19 @@ class EpsilonTable:
         return self.sources.get(key, key)
 
 
+def merged_epsilon(tables: list[EpsilonTable]) -> EpsilonTable:
+    """One ε table from *tables* in order, later ones overriding earlier ones pair by pair."""
+    if len(tables) == 1:
+        return tables[0]
+    pairs: dict[frozenset, Epsilon] = {}
+    sources: dict[str, str] = {}
+    for table in tables:
+        pairs.update(table.pairs)
+        sources.update(table.sources)
+    return EpsilonTable(" + ".join(t.name for t in tables), " + ".join(t.origin for t in tables),
+                        MappingProxyType(sources), MappingProxyType(pairs))
+
+
 def read_epsilon(text: str, origin: str) -> EpsilonTable:
     """Parse and check an ε file; raise :class:`ionwright.TableError` listing every problem."""
     try:

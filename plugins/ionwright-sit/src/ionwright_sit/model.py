@@ -31,7 +31,7 @@ import numpy as np
 from ionwright.activity import IonPairSet, LeftOut, SpeciesProperties
 from ionwright.chemistry import debye_huckel_A
 
-from .coefficients import EpsilonTable, bundled_epsilon
+from .coefficients import EpsilonTable, bundled_epsilon, merged_epsilon, read_epsilon
 
 LN10 = np.log(10.0)
 SIT_DENOMINATOR = 1.5          # B·a_j in kg^½ mol^−½, fixed by the SIT convention
@@ -84,8 +84,27 @@ class SITModel:
                  "OECD NEA, ch. IX; ε from the NEA-TDB selection (Guillaumont et al. 2003)")
 
     def __init__(self, table: EpsilonTable | None = None) -> None:
-        self.table = table if table is not None else bundled_epsilon()
-        self.ion_pairs = described_pairs(self.table)
+        self._table = table
+        self._offered: list = []
+
+    def use_parameter_tables(self, tables) -> None:
+        """The ε tables offered for "sit" through ionwright's ``register_parameter_tables``
+        hook (this plugin's own, and any in-house one), merged in order when first used."""
+        self._offered = list(tables)
+        self._table = None
+
+    @property
+    def table(self) -> EpsilonTable:
+        """The ε in use: those given, else the offered tables merged, else the bundled."""
+        if self._table is None:
+            self._table = (merged_epsilon([read_epsilon(t.text(), t.origin) if t.is_file
+                                           else t.source for t in self._offered])
+                           if self._offered else bundled_epsilon())
+        return self._table
+
+    @property
+    def ion_pairs(self) -> IonPairSet:
+        return described_pairs(self.table)
 
     def bind(self, species: SpeciesProperties, t_C: np.ndarray) -> BoundSIT:
         t_C = np.atleast_1d(np.asarray(t_C, dtype=float))

@@ -3,7 +3,8 @@
 The input is read and written in chunks of ``--chunk-rows`` rows (pandas ``read_csv``
 chunks, pyarrow ``iter_batches``), so memory stays bounded however large the file.
 A progress bar shows on a terminal (with tqdm installed); a summary follows at the
-end. The exit status is 1 when any row failed; the output is written all the same.
+end. The exit status is 1 when any row did not converge; the output is written all the
+same.
 
 The output is written under a temporary name in the output's folder and renamed when the
 last row is written, so the output name holds either a complete table or nothing: an
@@ -23,13 +24,15 @@ import time
 from collections import deque
 from contextlib import contextmanager
 from pathlib import Path
-from typing import Any, Iterator
+from typing import Any, Iterator, Sequence
 
 from ...errors import RecipeError
 from ...inputs._recipe import DEFAULT_TABLES
+from ...status import CONVERGED, INVALID, SOLVER_STATUSES
 from .._paths import check_output_path
 
 FORMATS = (".csv", ".parquet")
+NOT_CONVERGED = "not converged"   # rows with any solver status but converged
 CHUNK_ROWS = 50_000
 IN_FLIGHT_PER_WORKER = 2       # chunks queued on a cluster per worker
 
@@ -77,7 +80,7 @@ def run(args: argparse.Namespace) -> int:
         raise RecipeError("--threads", f"{args.threads} must be ≥ 1",
                           "give a number of threads, or leave it out to use the cores")
     started = time.perf_counter()
-    counts = {"rows": 0, "converged": 0, "failed": 0, "invalid": 0}
+    counts = {"rows": 0, CONVERGED: 0, NOT_CONVERGED: 0, INVALID: 0}
     chunks = _read_chunks(source, args.chunk_rows, args.label)
     first = next(chunks)
     options = dict(species=args.species, model=args.model, tables=args.tables,
@@ -90,24 +93,27 @@ def run(args: argparse.Namespace) -> int:
                 writer.write(solved)
                 status = solved["status"].value_counts()
                 counts["rows"] += len(solved)
-                for key in ("converged", "failed", "invalid"):
-                    counts[key] += int(status.get(key, 0))
+                counts[CONVERGED] += int(status.get(CONVERGED, 0))
+                counts[INVALID] += int(status.get(INVALID, 0))
+                counts[NOT_CONVERGED] += sum(int(status.get(s, 0)) for s in SOLVER_STATUSES
+                                             if s != CONVERGED)
                 bar(len(solved))
     except Interrupted as stop:
         print(f"ionwright batch: interrupted by {stop.signal_name} after {counts['rows']} "
-              f"rows ({counts['converged']} converged, {counts['failed']} failed, "
-              f"{counts['invalid']} invalid); {target} was not written (a batch writes its "
+              f"rows ({counts[CONVERGED]} converged, {counts[NOT_CONVERGED]} not converged, "
+              f"{counts[INVALID]} invalid); {target} was not written (a batch writes its "
               "output only when complete)", file=sys.stderr)
         return 128 + stop.signal_number
     elapsed = time.perf_counter() - started
     rate = counts["rows"] / elapsed if elapsed > 0 else 0.0
-    print(f"{counts['rows']} rows: {counts['converged']} converged, {counts['failed']} "
-          f"failed, {counts['invalid']} invalid; {elapsed:.2f} s ({rate:,.0f} rows/s); "
+    failed = counts[NOT_CONVERGED]
+    print(f"{counts['rows']} rows: {counts[CONVERGED]} converged, {failed} not converged, "
+          f"{counts[INVALID]} invalid; {elapsed:.2f} s ({rate:,.0f} rows/s); "
           f"written to {target}")
-    if counts["failed"]:
-        print(f"ionwright batch: {counts['failed']} row(s) failed; see their 'message' column",
-              file=sys.stderr)
-    return 1 if counts["failed"] else 0
+    if failed:
+        print(f"ionwright batch: {failed} row(s) did not converge; see their 'status' and "
+              "'message' columns", file=sys.stderr)
+    return 1 if failed else 0
 
 
 def _solved_chunks(chunks: Iterator[Any], options: dict, engine: str,
@@ -146,7 +152,7 @@ def _text_columns(frame) -> list[str]:
             and pd.to_numeric(frame[c], errors="coerce").isna().all() and frame[c].notna().any()]
 
 
-def _read_chunks(path: Path, rows: int, labels: list[str] = ()) -> Iterator[Any]:
+def _read_chunks(path: Path, rows: int, labels: Sequence[str] = ()) -> Iterator[Any]:
     """The table at *path* in chunks of *rows*, always at least one (perhaps empty) chunk.
 
     Problems of the file itself (encoding, shape, quotes, separators) are refused with the
@@ -180,7 +186,7 @@ _FIELDS = re.compile(r"Expected (\d+) fields in line (\d+), saw (\d+)")
 _OPEN_QUOTE = re.compile(r"EOF inside string starting at row (\d+)")
 
 
-def _csv_chunks(path: Path, rows: int, labels: list[str], where: str) -> Iterator[Any]:
+def _csv_chunks(path: Path, rows: int, labels: Sequence[str], where: str) -> Iterator[Any]:
     import pandas as pd
 
     from ...data._text import NOT_UTF8_HINT, first_not_utf8
@@ -272,12 +278,12 @@ class _Writer:
     Columns named in *text* (labels) are always written as text.
     """
 
-    def __init__(self, path: Path, text: list[str] = ()) -> None:
+    def __init__(self, path: Path, text: Sequence[str] = ()) -> None:
         self.path = path
         self.partial = path.with_name(f".{path.name}.partial-{os.getpid()}{path.suffix}")
         self.parquet = path.suffix.lower() == ".parquet"
         self.started = False
-        self.writer = None
+        self.writer: Any = None             # pyarrow's Parquet or CSV writer, once opened
         self.schema = None
         self.text = set(text)
         self.numeric: dict[str, bool] = {}

@@ -12,7 +12,7 @@ from ...inputs._recipe import DEFAULT_TABLES
 FLAGS = {"pH": "--pH", "concentration": "--conc", "temperature_C": "--temperature",
          "bench_temperature_C": "--bench-temperature", "with_": "--with", "volume": "--volume",
          "titrant": "--titrant", "pair": "--pair", "form": "--form",
-         "activity_model": "--model"}
+         "activity_model": "--model", "tables": "--tables"}
 
 
 def register(subparsers) -> None:

@@ -46,8 +46,9 @@ def run(args: argparse.Namespace) -> int:
 
 def _survey(texts: list[str], as_json: bool) -> int:
     """Solve several samples; print one table and each sample's cautions."""
-    from ...outputs._derived import survey_table
     from ...engine._solve import solve
+    from ...notices import CAUTION, DATA_QUALITY, of_category
+    from ...outputs._derived import survey_table
 
     samples = []
     for text in texts:
@@ -64,9 +65,8 @@ def _survey(texts: list[str], as_json: bool) -> int:
     print("\nCBE: charge-balance error; alk, hard: alkalinity and hardness; SI calc:\n"
           "saturation index of calcite; LSI: Langelier index; NH3 N: un-ionised ammonia.")
     for label, result in samples:
-        for warning in result.warnings:
-            if warning.startswith(("CAUTION", "DATA QUALITY")):
-                print(f"\n{label}: {warning}")
+        for notice in of_category(result.notices, CAUTION, DATA_QUALITY):
+            print(f"\n{label}: {notice.text}")
     folder = files("ionwright") / "demos"
     print(f"\nEach sample in full: `ionwright solve {folder}/lake-3-deep.toml` (and the others).")
     return 0

@@ -79,7 +79,7 @@ def run(args: argparse.Namespace) -> int:
 
 
 def _plot(result, args) -> None:
-    from ...outputs import _plots as plots
+    from ...design import _plots as plots
 
     kind = args.plot_kind
     if kind == "auto":

@@ -14,9 +14,7 @@ from __future__ import annotations
 
 import argparse
 import os
-import re
 import sys
-from collections.abc import Sequence
 from pathlib import Path
 
 SECTIONS = ("components", "species", "solids", "gases", "reagents")
@@ -280,197 +278,20 @@ def _show_section(registry, section: str) -> int:
 
 # -- check -----------------------------------------------------------------------------
 def run_check(args: argparse.Namespace) -> int:
-    from ...plugins._registry import default_registry
-    from ...inputs._recipe import DEFAULT_TABLES
+    from ...outputs._table_check import check_table
 
-    registry = default_registry()
-    context_names = args.context or list(DEFAULT_TABLES)
-    context = []
-    for name in context_names:
-        if name in registry.tables:
-            table, problem = _load(registry.tables[name])
-            if problem:
-                print(f"context table {name!r} cannot be read:\n{problem}", file=sys.stderr)
-                return 2
-        else:
-            from ...data._loader import load_table
-
-            table = load_table(name)
-        context.append(table)
     clean = True
     for file in args.files:
-        problems, info = check_file(Path(file), context)
-        if problems:
+        found = check_table(file, context=args.context or None)
+        if found.problems:
             clean = False
-            print(f"{file}: {len(problems)} problem(s)")
-            print("\n".join(f"  - {p}" for p in problems))
+            print(f"{file}: {len(found.problems)} problem(s)")
+            print("\n".join(f"  - {p}" for p in found.problems))
         else:
-            print(f"{file}: ok; {info[0]}")
-            for line in info[1:]:
+            print(f"{file}: ok; {found.notes[0]}")
+            for line in found.notes[1:]:
                 print(f"  {line}")
     if not clean:
         print("hint: fix the problems listed, then run `ionwright tables check` on the file "
               "again", file=sys.stderr)
     return 0 if clean else 1
-
-
-def check_file(path: Path, context: Sequence) -> tuple[list[str], list[str]]:
-    """(problems, notes) of table file *path*, alone and on top of the *context* tables.
-
-    Entries that pass the file's own checks are also checked against the context (known
-    names, element and charge balance), so one run lists every problem.
-    """
-    from ...errors import TableError
-    from ...outputs._provenance import describe_override
-    from ...data._loader import parse_table
-    from ...chemistry._tableset import TableSet
-
-    from ...data._text import read_utf8
-
-    try:
-        text = read_utf8(path, lambda problem, hint: TableError(str(path), [f"{problem}; {hint}"]))
-    except TableError as exc:
-        return exc.problems, []
-    problems: list[str] = []
-    try:
-        table = parse_table(text, origin=str(path))
-    except TableError as exc:
-        if any(p.startswith("TOML syntax error") for p in exc.problems):
-            return duplicate_entries(text) or exc.problems, []
-        problems = exc.problems
-        table = _valid_part(text, str(path))
-        if table is None:
-            return problems, []
-    below = [t for t in context if t.name != table.name]
-    try:
-        merged = TableSet([*below, table])
-    except TableError as exc:
-        return problems + exc.problems, []
-    if problems:
-        return problems, []
-    counts = ", ".join(f"{n} {s if n != 1 else SINGULAR[s]}" for s in SECTIONS
-                       if (n := len(getattr(table, s))))
-    notes = [f"table {table.name!r}: {counts or 'no entries'}"]
-    own = {n for s in ("components", "species") for n in getattr(table, s)}
-    borrowed = sorted({name for s in ("species", "solids", "gases", "reagents")
-                       for record in getattr(table, s).values()
-                       for name in (getattr(record, "reaction", None) or record.makes or ())
-                       if name not in own})
-    if borrowed:
-        providers = [t.name for t in below
-                     if any(n in t.components or n in t.species for n in borrowed)]
-        notes.append(f"uses from {', '.join(providers)}: {', '.join(borrowed)}")
-    notes += [f"overrides: {describe_override(ov)}" for ov in merged.overrides
-              if ov.new.table == table.name]
-    return [], notes
-
-
-def _valid_part(text: str, origin: str):
-    """The entries of *text* that pass the loader's checks alone, for the context check.
-
-    An entry with a bad value (a unit slip, no source) still takes part through its
-    skeleton (formula and reaction only), so that its balance is checked too and the
-    entries built on it do not report a missing name.
-    """
-    from ...errors import TableError
-    from ...plugins._registry import build_table
-    from ...data._loader import tomllib
-
-    data = tomllib.loads(text)
-    header = {k: data[k] for k in ("about", "sources") if k in data}
-    kept: dict[str, dict] = {}
-    for section in SECTIONS:
-        entries = data.get(section)
-        for name, entry in (entries.items() if isinstance(entries, dict) else ()):
-            for candidate in (entry, _skeleton(section, entry)):
-                try:
-                    build_table({**header, section: {name: candidate}}, origin)
-                except TableError:
-                    continue
-                kept.setdefault(section, {})[name] = candidate
-                break
-    try:
-        return build_table({**header, **kept}, origin)
-    except TableError:  # the header itself is broken: nothing more can be checked
-        return None
-
-
-_SKELETON_KEYS = {"components": ("formula",), "species": ("formula", "from"),
-                  "solids": ("formula", "dissolves_to"), "gases": ("formula", "dissolves_to"),
-                  "reagents": ("formula", "makes")}
-
-
-def _skeleton(section: str, entry) -> dict:
-    """Only what the balance check needs from *entry*, with placeholder value and source."""
-    if not isinstance(entry, dict):
-        return {}
-    out = {k: entry[k] for k in _SKELETON_KEYS[section] if k in entry}
-    if section in ("species", "solids", "gases"):
-        out["log10_k"] = 0.0
-    return {**out, "source": "(placeholder for the balance check)"}
-
-
-_HEADER = re.compile(r"^\s*\[(?!\[)(?P<key>[^\]]+)\]\s*(#.*)?$")
-_KEY_LINE = re.compile(r"""^\s*(?P<key>(?:"[^"]*"|'[^']*'|[A-Za-z0-9_\-]+)"""
-                       r"""(?:\s*\.\s*(?:"[^"]*"|'[^']*'|[A-Za-z0-9_\-]+))*)\s*=""")
-_KEY_PART = re.compile(r""""([^"]*)"|'([^']*)'|([A-Za-z0-9_\-]+)""")
-
-
-def duplicate_entries(text: str) -> list[str]:
-    """Every entry or key defined twice in TOML *text*, with both line numbers.
-
-    TOML rejects duplicates itself but names only a line; this names the entry. It
-    reads table headers and ``key =`` lines, skipping multi-line strings and arrays.
-    """
-    seen: dict[tuple[str, ...], int] = {}
-    problems = []
-    table: tuple[str, ...] = ()
-    in_string = False
-    depth = 0
-    for number, line in enumerate(text.splitlines(), start=1):
-        if line.count('"""') % 2 == 1 or line.count("'''") % 2 == 1:
-            in_string = not in_string
-            continue
-        if in_string:
-            continue
-        if depth > 0:
-            depth += _bracket_balance(line)
-            continue
-        header = _HEADER.match(line)
-        if header:
-            table = _key_parts(header.group("key"))
-            repeated = _seen_before(seen, table, number, header=True)
-            if repeated:  # keys below a repeated header belong to that second copy
-                problems += repeated
-                table = (*table, f"(copy at line {number})")
-            continue
-        key = _KEY_LINE.match(line)
-        if key:
-            problems += _seen_before(seen, table + _key_parts(key.group("key")), number)
-            depth = max(_bracket_balance(line[key.end():]), 0)
-    return problems
-
-
-def _key_parts(key: str) -> tuple[str, ...]:
-    return tuple(next(g for g in m.groups() if g is not None) for m in _KEY_PART.finditer(key))
-
-
-def _bracket_balance(text: str) -> int:
-    text = re.sub(r'"[^"]*"|\'[^\']*\'|#.*$', "", text)
-    return text.count("[") + text.count("{") - text.count("]") - text.count("}")
-
-
-def _seen_before(seen: dict, path: tuple[str, ...], number: int, header: bool = False) -> list[str]:
-    if path not in seen:
-        seen[path] = number
-        return []
-    first = seen[path]
-    if len(path) == 2 and path[0] in SINGULAR:
-        what = f"{SINGULAR[path[0]]} {path[1]!r} is defined twice"
-    elif len(path) > 2 and path[0] in SINGULAR:
-        what = f"{SINGULAR[path[0]]} {path[1]!r}: {'.'.join(path[2:])} is given twice"
-    else:
-        what = f"[{'.'.join(path)}] is given twice" if header else f"{'.'.join(path)} is given twice"
-    return [f"duplicate: {what} (line {first} and line {number}); TOML allows each once: "
-            f"merge them or delete one"]
-

@@ -5,6 +5,9 @@ from __future__ import annotations
 import argparse
 import json
 
+#: target's parameters and the flags that give them.
+FLAGS = {"pH": "--pH", "adjust": "--adjust", "stock": "--stock"}
+
 
 def register(subparsers) -> None:
     parser = subparsers.add_parser(
@@ -24,7 +27,7 @@ def run(args: argparse.Namespace) -> int:
     from ...design._target import target
     from .._flags import as_flags
 
-    with as_flags({"pH": "--pH", "adjust": "--adjust", "stock": "--stock"}):
+    with as_flags(FLAGS):
         found = target(args.recipe, args.pH, args.adjust, stock=args.stock)
     print(json.dumps(found.to_dict(), indent=2, ensure_ascii=False) if args.json
           else found.report())

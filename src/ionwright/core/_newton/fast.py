@@ -3,9 +3,7 @@ whose γ depend on ionic strength alone, with a capped step and an Armijo line s
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
-from typing import NamedTuple
 
 import numpy as np
 
@@ -13,8 +11,7 @@ from ...activity._base import BoundModel
 from .._sparse import SparseCholesky, weighted_sum
 from .numerics import (ARMIJO, LN_C_CEILING, MAX_HALVINGS, RESIDUAL_TOLERANCE, ROUND_OFF,
                        STEP_CAP, STEP_TOLERANCE, any_set, all_set, at, clip, column_max)
-from .floats import fmax, fmin, largest_magnitude, scaled_merit, sum_of_squares
-from .structure import Problem, bound_slice, model_terms, model_terms_one
+from .structure import Problem, bound_slice, model_terms
 
 FAST_ITERATIONS = 60
 
@@ -54,6 +51,7 @@ def augmented(problem: Problem, bound: BoundModel, y: np.ndarray,
               u: np.ndarray) -> Linearised:
     """Residuals (mass balances, I − u²), their scales and Jacobian at (y (c, k), u)."""
     st, cp = problem.structure, problem.coupling
+    assert cp is not None  # the fast path always has one (coupling_for)
     nf = st.nf
     phi, dphi = model_terms(bound, cp, u)
     lnc = cp.nu @ np.concatenate((y, phi))                            # ln c − ln K
@@ -88,8 +86,6 @@ def newton_step(lin: Linearised, factor: SparseCholesky
 def fast_path(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
               iterations: np.ndarray) -> np.ndarray:
     """Newton on (y_free, u) together; returns which samples converged (y, u updated)."""
-    if problem.size == 1:
-        return fast_path_one(problem, bound, y, u, iterations)
     free = problem.structure.free
     cols = slice(None) if free.all() else np.flatnonzero(free)
     converged = np.zeros(problem.size, dtype=bool)
@@ -183,118 +179,3 @@ def acceptable(trial: Linearised, scale0: np.ndarray, merit0: np.ndarray,
     if any_set(at_round_off):
         ok |= at_round_off & np.isfinite(trial.res).all(axis=0)
     return ok
-
-
-# -- one sample: the same steps with its numbers on Python floats -------------------------
-
-class _LinearisedOne(NamedTuple):
-    """:class:`Linearised` for one sample, as lists of Python floats (d a float)."""
-
-    res: list
-    scale: list
-    prod: list
-    a: list
-    d: float
-
-
-def augmented_one(problem: Problem, bound: BoundModel, y: list, u: float,
-                  given: tuple[list, list, list]) -> _LinearisedOne:
-    """:func:`augmented` for one sample on Python floats: y (c,) and u, with *given*
-    its (ln K, free totals, scale floors) as lists. The same operations in the same
-    order; the exponentials are numpy's, over the whole vector at once."""
-    st, cp = problem.structure, problem.coupling
-    nf = st.nf
-    ln_k, totals, floor = given
-    phi, dphi = model_terms_one(bound, cp, u)
-    lnc = cp.nu.apply_one(y + phi)
-    conc = np.exp([LN_C_CEILING if (v := a + k) > LN_C_CEILING else v  # np.minimum's NaN
-                   for a, k in zip(lnc, ln_k)]).tolist()
-    prod = cp.weights.apply_one(conc)
-    first = cp.side_row
-    if cp.terms:
-        d0 = dphi[0]
-        side = [v * d0 for v in prod[first:first + nf + 1]]
-    else:
-        side = [0.0] * (nf + 1)
-    for p in range(1, cp.terms):
-        first += nf + 1
-        dp = dphi[p]
-        side = [acc + v * dp for acc, v in zip(side, prod[first:first + nf + 1])]
-    uu = u * u
-    ionic = prod[2 * nf]
-    res = [v - t for v, t in zip(prod[:nf], totals)]
-    res.append(ionic - uu)
-    scale = [v + f for v, f in zip(prod[nf:2 * nf], floor)]
-    scale.append(fmax(ionic, uu) + 1e-300)
-    return _LinearisedOne(res, scale, prod, side[:nf], side[nf] - 2.0 * u)
-
-
-def fast_path_one(problem: Problem, bound: BoundModel, y: np.ndarray, u: np.ndarray,
-                  iterations: np.ndarray) -> np.ndarray:
-    """:func:`fast_path` for a single sample, all its numbers on Python floats: the same
-    IEEE operations in the same order, so the same bits, at a fraction of numpy's
-    per-call cost (tested sample by sample). *y* (c, 1) and *u* (1,) are updated."""
-    st = problem.structure
-    cols = None if st.nf == st.free.size else st.free.nonzero()[0].tolist()
-    nf, u_max = st.nf, float(problem.u_max[0])
-    given = (problem.ln_k[:, 0].tolist(), problem.totals[:, 0].tolist(),
-             problem.scale_floor[:, 0].tolist())
-    y_now, u_now = y[:, 0].tolist(), float(u[0])
-    lin = augmented_one(problem, bound, y_now, u_now, given)
-    for it in range(1, FAST_ITERATIONS + 1):
-        dy, du = st.factor.bordered_one(lin.prod, lin.res[:nf], lin.res[nf], lin.a,
-                                        lin.prod[2 * nf + 1:3 * nf + 1], lin.d)
-        biggest = largest_magnitude(dy)
-        scale = lin.scale
-        scaled = [r / s for r, s in zip(lin.res, scale)]
-        worst = largest_magnitude(scaled)
-        size = fmax(biggest, abs(du) / fmax(u_now, 1e-12))
-        if worst <= RESIDUAL_TOLERANCE and size <= STEP_TOLERANCE:
-            iterations[0] = it                 # the last, tiny step is taken without a search
-            y[:, 0] = _moved(y_now, cols, dy, None)
-            u[0] = fmin(fmax(u_now + du, 0.0), u_max)
-            return np.ones(1, dtype=bool)
-        at_round_off = worst <= ROUND_OFF
-        merit = sum_of_squares(scaled)
-        shrink = fmin(1.0, STEP_CAP / fmax(biggest, 1e-300))
-        if shrink != 1.0:                      # × 1.0 is exact: the usual full step as is
-            dy, du = [v * shrink for v in dy], du * shrink
-        alpha = None                           # the full step first, then halvings
-        for _ in range(MAX_HALVINGS):
-            yt = _moved(y_now, cols, dy, alpha)
-            if alpha is None:
-                ut = fmin(fmax(u_now + du, 0.0), u_max)
-                decrease = 1.0 - 2.0 * ARMIJO * shrink
-            else:
-                ut = fmin(fmax(u_now + alpha * du, 0.0), u_max)
-                decrease = 1.0 - 2.0 * ARMIJO * alpha * shrink
-            trial = augmented_one(problem, bound, yt, ut, given)
-            m = scaled_merit(trial.res, scale)
-            if (math.isfinite(m) and m <= decrease * merit) or (
-                    at_round_off and all(math.isfinite(v) for v in trial.res)):
-                y_now, u_now, lin = yt, ut, trial
-                break
-            alpha = 0.5 if alpha is None else 0.5 * alpha
-        else:                                  # no acceptable step: the careful path takes it
-            iterations[0] = it
-            y[:, 0], u[0] = y_now, u_now
-            return np.zeros(1, dtype=bool)
-    iterations[0] = FAST_ITERATIONS
-    y[:, 0], u[0] = y_now, u_now
-    return np.zeros(1, dtype=bool)
-
-
-def _moved(y: list, cols: list | None, step: list, alpha: float | None) -> list:
-    """y with y[cols] += (alpha ×) step as a new list (cols None: every component)."""
-    if cols is None:
-        if alpha is None:
-            return [a + v for a, v in zip(y, step)]
-        return [a + alpha * v for a, v in zip(y, step)]
-    out = list(y)
-    if alpha is None:
-        for j, v in zip(cols, step):
-            out[j] += v
-    else:
-        for j, v in zip(cols, step):
-            out[j] += alpha * v
-    return out

@@ -3,7 +3,6 @@ rescalings of the other free activities for their complexes."""
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 from typing import NamedTuple
 
@@ -11,14 +10,21 @@ import numpy as np
 
 from ...activity._base import BoundModel
 from .._sparse import SparseRows, weighted_sum
-from .floats import fdiv, fmax, fmin
 from .numerics import IONIC_STRENGTH_CAP, LN_C_CEILING, all_set, clip
-from .structure import Families, Problem, Structure, ln_gamma_at, ln_gamma_one
+from .structure import Families, Problem, Structure, ln_gamma_at
 
 GUESS_ITERATIONS = 4           # safeguarded 1-D Newton steps of the initial guess
 GUESS_TOLERANCE = 0.2          # ln a(H+) accuracy of the guess; more does not pay
 GUESS_SWEEPS = 2               # rescalings of the other free activities for their complexes
 SWEEP_LIMIT = 1e20             # largest factor one rescaling may apply
+
+
+def guess_plan(st: Structure) -> GuessPlan:
+    """The :class:`GuessPlan` of *st*, built once and kept on the structure."""
+    plan = st.memo.get("guess_plan")
+    if plan is None:
+        plan = st.memo["guess_plan"] = GuessPlan.of(st)
+    return plan
 
 
 @dataclass(frozen=True)
@@ -88,8 +94,6 @@ def initial_guess(problem: Problem, bound: BoundModel) -> tuple[np.ndarray, np.n
     free activity by total / carried then account for the complexes. Returns
     (y (c, k), u (k,)).
     """
-    if problem.size == 1:
-        return _initial_guess_one(problem, bound)
     st = problem.structure
     fam = st.families
     h_col = st.proton
@@ -104,7 +108,7 @@ def initial_guess(problem: Problem, bound: BoundModel) -> tuple[np.ndarray, np.n
     else:
         h = guess_proton(problem, base, y, member_k[fam.varying])
     if fam.owners.size:
-        plan = st.guess_plan
+        plan = guess_plan(st)
         x = np.exp(plan.family_powers[:, None] * h)         # a(H+)^ν for each distinct ν
         partition = plan.members @ (member_k * x[plan.family_power]).reshape(-1, problem.size)
         y[fam.owners] = (np.log(np.maximum(problem.full_totals[fam.owners], 1e-300))
@@ -143,7 +147,7 @@ def guess_proton(problem: Problem, base: np.ndarray, y_fixed: np.ndarray,
     """
     st = problem.structure
     fam = st.families
-    plan = st.guess_plan
+    plan = guess_plan(st)
     k = problem.size
     lone_lnc = (base + st.nu @ y_fixed)[plan.lone] if (~st.free).any() else base[plan.lone]
     term_k = np.concatenate([np.exp(np.minimum(lone_lnc, LN_C_CEILING)),
@@ -199,118 +203,6 @@ class _OnePlan(NamedTuple):
     family_power: list      # flat (F·M)
     sweep_rows: list
     sweep_components: list
-
-
-def _exp_capped(values) -> list:
-    """exp(min(v, ceiling)) of each value, by numpy's exponential (the batch's bits)."""
-    return np.exp([LN_C_CEILING if v > LN_C_CEILING else v for v in values]).tolist()
-
-
-def _initial_guess_one(problem: Problem, bound: BoundModel) -> tuple[np.ndarray, np.ndarray]:
-    """:func:`initial_guess` for one sample, its numbers on Python floats: the same
-    operations in the same order (exponentials and logarithms by numpy)."""
-    st = problem.structure
-    one = st.guess_plan.one
-    h_col = st.proton
-    full = problem.full_totals[:, 0].tolist()
-    u_max = float(problem.u_max[0])
-    u0 = math.sqrt(u_max * u_max / IONIC_STRENGTH_CAP)
-    base = [k - g for k, g in zip(problem.ln_k[:, 0].tolist(),
-                                  ln_gamma_one(problem.coupling, bound, u0))]
-    y = problem.fixed_y[:, 0].tolist()
-    member_k = _exp_capped([base[i] if i >= 0 else -math.inf
-                            for row in one.members for i in row])
-    if h_col < 0:
-        h = 0.0
-    elif not st.free[h_col]:
-        h = y[h_col]
-    else:
-        h = _proton_one(problem, one, base, y, member_k, full)
-    if one.owners:
-        x = np.exp([p * h for p in one.family_powers]).tolist()
-        partition = st.guess_plan.members.apply_one(
-            [k * x[i] for k, i in zip(member_k, one.family_power)])
-        carried = np.log([fmax(full[o], 1e-300) for o in one.owners]).tolist()
-        for o, a, b in zip(one.owners, carried, np.log(partition).tolist()):
-            y[o] = a - b
-    if h_col >= 0:
-        y[h_col] = h
-    conc = _exp_capped([b + v for b, v in zip(base, st.nu.apply_one(y))])
-    totals = problem.totals[:, 0].tolist()
-    wanted = [totals[r] for r in one.sweep_rows]
-    low = SWEEP_LIMIT ** -1
-    for _ in range(GUESS_SWEEPS):
-        ratio = [fmin(fmax(fdiv(w, c), low), SWEEP_LIMIT)
-                 for w, c in zip(wanted, st.sweep_carried.apply_one(conc))]
-        log_ratio = np.log(ratio).tolist()
-        for j, v in zip(one.sweep_components, log_ratio):
-            y[j] += v
-        conc = [c * e for c, e in zip(conc, np.exp(st.sweep_nu.apply_one(log_ratio)).tolist())]
-    ionic = st.half_z2.apply_one(conc)[0]
-    u = math.sqrt(fmin(fmax(ionic, 0.0), u_max * u_max))
-    return np.array(y)[:, None], np.array([u])
-
-
-def _proton_one(problem: Problem, one: _OnePlan, base: list, y: list, member_k: list,
-                full: list) -> float:
-    """:func:`guess_proton` for one sample, its numbers on Python floats."""
-    st = problem.structure
-    plan = st.guess_plan
-    width = len(one.members[0]) if one.members else 0
-    if (~st.free).any():
-        shifted = st.nu.apply_one(y)
-        lone = [base[i] + shifted[i] for i in one.lone]
-    else:
-        lone = [base[i] for i in one.lone]
-    term_k = _exp_capped(lone) + [member_k[f * width + m] for f in one.varying
-                                  for m in range(width)]
-    nv = len(one.varying)
-    fam_tot = [full[one.owners[f]] for f in one.varying]
-    const = 0.0
-    for f, w in one.constant_protons:
-        const += w * full[one.owners[f]]
-    t_h = full[st.proton]
-    given = fmax(const, 0.0) + fmax(-t_h, 0.0)
-    taken = fmax(-const, 0.0) + fmax(t_h, 0.0)
-    lo, hi, h = _BRACKET_START
-    with np.errstate(divide="ignore", invalid="ignore"):
-        for _ in range(GUESS_ITERATIONS):
-            x = np.exp([p * h for p in one.powers]).tolist()
-            moments = plan.moments.apply_one([c * x[i] for c, i in zip(term_k, one.term_power)])
-            balance = [given + moments[0], 0.0 + moments[1], taken + moments[2],
-                       0.0 + moments[3]]
-            sums = [0.0, 0.0, 0.0, 0.0]
-            for f in range(nv):  # the families' shares, summed as plan.families does
-                total, s_nu, s_pos, s_neg, s_pos_nu, s_neg_nu = moments[4 + f::nv]
-                t = fam_tot[f]
-                if total == 0.0:  # every member underflowed: numpy's 0/0 makes NaN shares
-                    total = math.nan
-                mean = s_nu / total
-                pos = s_pos / total
-                neg = s_neg / total
-                sums[0] += pos * t
-                sums[1] += (s_pos_nu / total - pos * mean) * t
-                sums[2] += neg * t
-                sums[3] += (neg * mean - s_neg_nu / total) * t
-            if nv:
-                balance = [b + v for b, v in zip(balance, sums)]
-            h, lo, hi, settled = _bracketed_step_one(h, lo, hi, *balance)
-            if settled:
-                break
-    return h
-
-
-def _bracketed_step_one(h: float, lo: float, hi: float, p: float, dp: float, n: float,
-                        dn: float) -> tuple[float, float, float, bool]:
-    """:func:`_bracketed_step` for one sample on Python floats (ln by numpy)."""
-    g = float(np.log(fdiv(p, n)))
-    if g > 0:
-        hi = h
-    else:
-        lo = h
-    trial = h - fdiv(g, fdiv(dp, p) + fdiv(dn, n))
-    new = trial if lo < trial < hi else 0.5 * (lo + hi)
-    return new, lo, hi, abs(new - h) < GUESS_TOLERANCE or hi - lo < GUESS_TOLERANCE
 
 
 def _bracketed_step(h, lo, hi, settled, p, dp, n, dn):

@@ -5,9 +5,9 @@ from __future__ import annotations
 import numpy as np
 
 from ...errors import RESIDUAL_TOLERANCE  # noqa: F401 (relative mass-balance residual
+from ...chemistry._constants import LN10  # noqa: F401 (the Newton steps read it here)
 #                                          that counts as converged; errors quote it)
 
-LN10 = np.log(10.0)
 STEP_TOLERANCE = 1e-8          # largest Newton step (ln units) a converged sample may need
 STEP_CAP = 4.0                 # largest change of any ln a in one Newton step
 LN_C_CEILING = 300.0           # keeps exp() finite on wild iterates
@@ -23,11 +23,11 @@ def clip(x: np.ndarray, lo, hi) -> np.ndarray:
 
 
 def any_set(mask: np.ndarray) -> bool:
-    return np.count_nonzero(mask) > 0
+    return bool(np.count_nonzero(mask) > 0)
 
 
 def all_set(mask: np.ndarray) -> bool:
-    return np.count_nonzero(mask) == mask.size
+    return bool(np.count_nonzero(mask) == mask.size)
 
 
 def column_max(a: np.ndarray) -> np.ndarray:

@@ -4,11 +4,11 @@ its coupling to an activity model's terms, and one chunk's per-sample data."""
 from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
-from functools import cached_property
+from typing import cast
 
 import numpy as np
 
-from ...activity._base import BoundModel
+from ...activity._base import BoundModel, TermsModel
 from .._sparse import SparseCholesky, SparseRows, weighted_sum
 from .._system import PROTON, ChemicalSystem
 from .numerics import IONIC_STRENGTH_CAP, LN10, LN_C_CEILING
@@ -131,13 +131,7 @@ class Structure:
     sweep_carried: SparseRows       # Σ ν c of the rescaled components only
     sweep_nu: SparseRows            # (s, r): ν of the species in the rescaled components
     couplings: dict = field(default_factory=dict, compare=False)
-
-    @cached_property
-    def guess_plan(self):
-        """The structure-only part of the initial guess (:class:`.guess.GuessPlan`)."""
-        from .guess import GuessPlan  # the guess builds on this module, not the reverse
-
-        return GuessPlan.of(self)
+    memo: dict = field(default_factory=dict, compare=False)  # plans built on the structure
 
     def coupling(self, weights: np.ndarray, own_terms: bool) -> "Coupling":
         """The :class:`Coupling` to a model with term weights *weights* (s, p), cached
@@ -229,36 +223,16 @@ def model_terms(bound: BoundModel, coupling: Coupling, u: np.ndarray
            ) -> tuple[np.ndarray, np.ndarray]:
     """(φ, ∂φ/∂u) of the coupled model at u, sample axis last."""
     if coupling.own_terms:
-        return bound.terms(u)
+        return cast(TermsModel, bound).terms(u)
     return (np.ascontiguousarray(bound.ln_gamma(u).T),
             np.ascontiguousarray(bound.d_ln_gamma_du(u).T))
-
-
-def model_terms_one(bound: BoundModel, coupling: Coupling, u: float
-                    ) -> tuple[list, list]:
-    """:func:`model_terms` for one sample at u, as lists of Python floats. A model may
-    give ``terms_one(u)`` with the bits of its ``terms`` on floats (Davies does)."""
-    if coupling.own_terms and hasattr(bound, "terms_one"):
-        return bound.terms_one(u)
-    at_u = np.array([u])
-    if coupling.own_terms:
-        phi, dphi = bound.terms(at_u)
-        return phi[:, 0].tolist(), dphi[:, 0].tolist()
-    return bound.ln_gamma(at_u)[0].tolist(), bound.d_ln_gamma_du(at_u)[0].tolist()
 
 
 def ln_gamma_at(coupling: "Coupling | None", bound: BoundModel, u: np.ndarray) -> np.ndarray:
     """ln γ (s, k) at u from the model's terms where it has them (γ at I alone)."""
     if coupling is not None and coupling.own_terms:
-        return coupling.gamma @ bound.terms(u)[0]
+        return coupling.gamma @ cast(TermsModel, bound).terms(u)[0]
     return np.ascontiguousarray(bound.ln_gamma(u).T)
-
-
-def ln_gamma_one(coupling: "Coupling | None", bound: BoundModel, u: float) -> list:
-    """:func:`ln_gamma_at` for one sample at u, as a list of Python floats."""
-    if coupling is not None and coupling.own_terms:
-        return coupling.gamma.apply_one(model_terms_one(bound, coupling, u)[0])
-    return bound.ln_gamma(np.array([u]))[0].tolist()
 
 
 @dataclass

@@ -1,6 +1,6 @@
 """Figures of sweeps: titration curve, species distribution, saturation index, buffer capacity.
 
-Each function takes a :class:`ionwright.sweep.Sweep` and returns a matplotlib
+Each function takes a :class:`~ionwright.design._sweep.Sweep` and returns a matplotlib
 ``Figure`` built without pyplot (so no global backend is touched: the figure renders
 with Agg when saved). :func:`save` writes PNG or SVG by the file's suffix.
 """
@@ -12,10 +12,13 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
+from ..errors import names_its_arguments
+
 if TYPE_CHECKING:  # pragma: no cover
+    from matplotlib.axes import Axes
     from matplotlib.figure import Figure
 
-    from ..design._sweep import Sweep
+    from ._sweep import Sweep
 
 #: Our palette: deep teal, brick, saffron, sage, plum, slate, sky, rose.
 PALETTE = ("#1d5c7a", "#c2533a", "#e0a030", "#5f8f6a", "#6e4a7e", "#38404f", "#7fb3c8",
@@ -29,7 +32,7 @@ RELEVANT_SI = -4.0      # solids never above this SI are left out unless asked f
 SUFFIXES = (".png", ".svg")
 
 
-def _figure() -> tuple[Figure, object]:
+def _figure() -> tuple[Figure, Axes]:
     from matplotlib.figure import Figure
 
     fig = Figure(figsize=SIZE, layout="constrained")
@@ -133,13 +136,14 @@ def buffer_capacity_curve(sweep: Sweep) -> Figure:
     return fig
 
 
+@names_its_arguments
 def save(fig: Figure, path: str | Path) -> Path:
     """Write *fig* as PNG or SVG (by the suffix of *path*)."""
     from ..errors import RecipeError
 
     path = Path(path)
     if path.suffix.lower() not in SUFFIXES:
-        raise RecipeError(f"plot {str(path)!r}", "must end in .png or .svg",
+        raise RecipeError(f"path {str(path)!r}", "must end in .png or .svg",
                           "e.g. titration.png")
     fig.savefig(path, dpi=150)
     return path

@@ -1,0 +1,56 @@
+"""Acid–base series of a component and what follows from them: the species that differ
+from the component only by protons, their shares at a pH, and alkalinity weights.
+
+One implementation, used by the derived quantities of a result, the first guess of an
+analysis fit and the buffer designer.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ._system import ChemicalSystem
+from ..chemistry._constants import LN10
+
+#: pH of the carbonic-acid end point that total alkalinity is titrated to; acids with pK
+#: above it count with their conjugate bases (Dickson 1981).
+ALKALINITY_END_POINT_PH = 4.5
+
+
+def series(system: ChemicalSystem, column: int) -> np.ndarray:
+    """Indexes of the species made of one unit of component *column* and protons alone
+    (the component itself included): its acid–base series, e.g. CO3^2-, HCO3-, CO2."""
+    nu = system.nu
+    others = np.abs(nu[:, 1:]) > 0
+    return np.flatnonzero((nu[:, column] == 1) & (others.sum(axis=1) == 1))
+
+
+def ideal_shares(log10_k: np.ndarray, protons: np.ndarray, pH: float) -> np.ndarray:
+    """Shares (summing to one) of the members of a series in an ideal solution at *pH*,
+    from their formation constants from the component and their proton numbers."""
+    weight = log10_k - protons * pH
+    w = np.exp((weight - weight.max()) * LN10)
+    return w / w.sum()
+
+
+def alkalinity_weights(system: ChemicalSystem, t_C: float) -> np.ndarray:
+    """Protons each species can take up to the carbonic-acid end point, shape (s,).
+
+    Total alkalinity = Σ weight·molality. Each acid–base component gets a zero level:
+    the protonated form of its own series that prevails at pH 4.5 (H2CO3*, H2PO4-,
+    NH4+, H2S, B(OH)3, H4SiO4, SO4^2-, F-), which is Dickson's rule that acids with
+    pK > 4.5 are counted with their conjugate bases. A species' weight is its zero-level
+    proton content minus its protons: HCO3- 1, CO3^2- 2, OH- 1, H+ −1, CaCO3 2, HSO4- −1.
+
+    References
+    ----------
+    Dickson, A.G. (1981) Deep-Sea Res. 28A, 609–623.
+    """
+    formation = system.log10_k(np.array([t_C]))[0]
+    nu = system.nu
+    level = np.zeros(system.n_components)
+    for j in range(1, system.n_components):
+        members = series(system, j)
+        score = formation[members] - nu[members, 0] * ALKALINITY_END_POINT_PH
+        level[j] = nu[members[np.argmax(score)], 0]
+    return nu[:, 1:] @ level[1:] - nu[:, 0]

@@ -1,0 +1,54 @@
+"""The derivative of a converged equilibrium with respect to its totals.
+
+At a solution the mass balances r(y, u; T) = Σ_i ν_i c_i(y, u) − T = 0 and the ionic
+strength condition ½ Σ z_i² c_i − u² = 0 hold, so by the implicit-function theorem
+dz/dT = J⁻¹ with J the Jacobian of (r, I − u²) in z = (ln a of the free components, √I):
+the solver's own Newton matrix, evaluated once at the answer. The method for solids uses
+it for its saturation Jacobian, :mod:`._sensitivity` for the pH response and the buffer
+capacity.
+
+For activity models whose γ depend on composition and not only on ionic strength, γ is
+held at its converged value in J (the derivative is then that of the γ-frozen problem,
+and :func:`is_exact` says so).
+
+References
+----------
+Krantz, S.G. & Parks, H.R. (2002) The Implicit Function Theorem, Birkhäuser, ch. 1.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ._solver import Equilibrium
+
+
+def is_exact(bound) -> bool:
+    """Whether the derivatives include the activity coefficients' own change."""
+    return bool(bound.depends_on_ionic_strength_only)
+
+
+def response(system, equilibrium: Equilibrium, bound, free: np.ndarray) -> np.ndarray:
+    """d ln a(free components) / d T(free components) at the solution, shape (n, f, f).
+
+    *system* is anything with ``nu`` and ``charge`` (a ChemicalSystem or a gas basis);
+    *free* marks the components that have a mass balance.
+    """
+    conc = equilibrium.molality
+    u = np.sqrt(np.maximum(equilibrium.ionic_strength, 0.0))
+    nu_f = system.nu[:, free]
+    z2 = system.charge ** 2
+    n, nf = conc.shape[0], nu_f.shape[1]
+    jac = np.zeros((n, nf + 1, nf + 1))
+    jac[:, :nf, :nf] = np.einsum("si,ns,sj->nij", nu_f, conc, nu_f, optimize=True)
+    if is_exact(bound):
+        dg = bound.d_ln_gamma_du(u)
+        cdg = conc * dg
+        jac[:, :nf, nf] = -cdg @ nu_f
+        jac[:, nf, :nf] = 0.5 * (conc * z2) @ nu_f
+        jac[:, nf, nf] = -0.5 * cdg @ z2 - 2.0 * u
+    else:
+        jac[:, nf, nf] = -1.0
+    rhs = np.zeros((n, nf + 1, nf))
+    rhs[:, :nf, :] = np.eye(nf)
+    return np.linalg.solve(jac, rhs)[:, :nf, :]

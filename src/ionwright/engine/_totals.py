@@ -1,0 +1,43 @@
+"""Component totals of a recipe: what its ingredients and given components add up to."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ..chemistry._ingredients import Makeup, makeup
+from ..chemistry._tableset import TableSet
+from ..core._system import PROTON, WATER
+from ..errors import RecipeError
+from ..inputs._recipe import Recipe
+
+
+def component_totals(recipe: Recipe, tables: TableSet) -> tuple[dict[str, float], list[Makeup]]:
+    """Total mol/kg of every component the recipe's ingredients bring, and their makeups."""
+    totals: dict[str, float] = {}
+    makeups = []
+    for name, amount in recipe.dissolve:
+        made = makeup(name, tables)
+        makeups.append(made)
+        for comp, nu in made.per_mole.items():
+            totals[comp] = totals.get(comp, 0.0) + nu * amount
+    for comp, amount in recipe.components:  # given directly: analyses, poured solutions
+        totals[comp] = totals.get(comp, 0.0) + amount
+    totals.pop(WATER, None)
+    totals.setdefault(PROTON, 0.0)
+    return totals, makeups
+
+
+def negative_totals(components: tuple[str, ...] | list[str], totals: np.ndarray) -> np.ndarray:
+    """Which samples (rows of *totals*, one column per component) have a negative total of
+    a component other than H+ (whose total may be negative: a base takes protons away)."""
+    others = [j for j, c in enumerate(components) if c != PROTON]
+    return np.any(np.asarray(totals)[..., others] < 0, axis=-1)
+
+
+def check_totals(totals: dict[str, float], origin: str) -> None:
+    """Raise :class:`RecipeError` when the recipe's ingredients give a negative total (the
+    rule of :func:`negative_totals`, for one sample on Python floats)."""
+    negative = [c for c, v in totals.items() if c != PROTON and v < 0]
+    if negative:
+        raise RecipeError(f"{origin} [dissolve]", f"the ingredients give a negative total of "
+                          f"{', '.join(negative)}", "check the amounts")
