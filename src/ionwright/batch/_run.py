@@ -35,7 +35,8 @@ from typing import TYPE_CHECKING, Any, Iterable, Iterator, Mapping, Sequence
 import numpy as np
 
 from ..core import _solver as solver
-from ..outputs._cautions import CORROSIVE_HIGH_PH, CORROSIVE_LOW_PH, DEFER
+from ..outputs._cautions import (CORROSIVE_HIGH_PH, CORROSIVE_LOW_PH, CORROSIVE_REFERENCE_C,
+                                 CORROSIVE_RULE, DEFER, corrosive_limits)
 from ..errors import IonwrightError, RecipeError, UnknownNameError
 from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
 from ..activity._validity import RANGE_TOLERANCE, TOLERANCE_PERCENT, exceeded_rows
@@ -395,7 +396,7 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, pla
     _saturation(system, tables, eq, ok, t, plan, out.saturation, good)
     out.status[rows] = np.where(ok, CONVERGED, FAILED)
     out.message[rows] = _notes(system, model, out.ph[rows], out.ionic_strength[rows], t, ok,
-                               eq.molality)
+                               eq.molality, _log10_hydroxide(system, tables, eq))
     for k in np.flatnonzero(~ok):
         out.message[rows[k]] = (f"the solver stopped with status {status[k]!r} after "
                                 f"{int(eq.iterations[k])} iterations (worst relative "
@@ -424,7 +425,7 @@ def _saturation(system: ChemicalSystem, tables: TableSet, eq: solver.Equilibrium
 
 
 def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: np.ndarray,
-           ok: np.ndarray, molality: np.ndarray) -> np.ndarray:
+           ok: np.ndarray, molality: np.ndarray, log10_oh: np.ndarray) -> np.ndarray:
     """Per-row warnings: model range (in general and for the kinds of solution the model
     states, :mod:`ionwright.activity._validity`), corrosive pH, constants used outside
     their range.
@@ -446,9 +447,12 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
                          f"{rule.max_ionic_strength:g} mol/kg where {rule.label} are main "
                          f"ions ({rule.evidence})")
             flags.append(ok & hits[:, r])
-    texts.append(f"CAUTION: corrosive pH (≤ {CORROSIVE_LOW_PH:g} or ≥ {CORROSIVE_HIGH_PH:g}, "
-                 f"US EPA 40 CFR 261.22); wear eye and skin protection and {DEFER}")
-    flags.append(ok & ((ph <= CORROSIVE_LOW_PH) | (ph >= CORROSIVE_HIGH_PH)))
+    h_limit, oh_limit = corrosive_limits()
+    texts.append(f"CAUTION: corrosive: hydrogen-ion activity at or above that of pH "
+                 f"{CORROSIVE_LOW_PH:g}, or hydroxide activity at or above that of pH "
+                 f"{CORROSIVE_HIGH_PH:g} at {CORROSIVE_REFERENCE_C:g} °C; {CORROSIVE_RULE}; "
+                 f"wear eye and skin protection and {DEFER}")
+    flags.append(ok & ((-ph >= h_limit) | (np.nan_to_num(log10_oh, nan=-np.inf) >= oh_limit)))
     for res in system.resolved:
         for name, _, logk in res.terms:
             if logk.range_C is not None:
@@ -468,6 +472,20 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
     joined = np.array(["; ".join(t for t, f in zip(texts, matrix[r]) if f) for r in first],
                       dtype=object)
     return joined[which]
+
+
+def _log10_hydroxide(system: ChemicalSystem, tables: TableSet, eq) -> np.ndarray:
+    """log10 a(OH-) of every sample (NaN without a hydroxide species)."""
+    from ..chemistry._formula import parse_formula
+
+    hydroxide = parse_formula("OH-")
+    found = [i for i, name in enumerate(system.species)
+             if parse_formula(tables.entry(name).formula) == hydroxide]
+    if not found:
+        return np.full(eq.molality.shape[0], np.nan)
+    i = found[0]
+    with np.errstate(divide="ignore"):
+        return (np.log(eq.molality[:, i]) + eq.ln_gamma[:, i]) / LN10
 
 
 def _row_codes(flags: np.ndarray) -> np.ndarray:

@@ -65,6 +65,7 @@ class Sweep:
     saturation: dict[str, np.ndarray] = field(default_factory=dict)
     warnings: list[str] = field(default_factory=list)
     stopped: str = ""                 # why the sweep ended early ("" if complete)
+    titrant: str = ""                 # the titrant of a titration, e.g. "NaOH 0.1 mol/L"
 
     @property
     def complete(self) -> bool:
@@ -166,6 +167,7 @@ def titration(recipe: str | Path | Mapping[str, Any] | Recipe, titrant: str, to:
     state = bench.solve(totals_at(volumes))
     sweep = _finish(bench, "titration", "titrant_mL", 1000.0 * volumes, state, species,
                     beyond_range)
+    sweep.titrant = stock.label
     kept = sweep.values.size
     if kept:
         sweep.slope = slope_at(sweep.state, volumes[:kept])
@@ -190,10 +192,19 @@ def dilution(recipe: str | Path | Mapping[str, Any] | Recipe, ratio: str, *,
 
 def temperature_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: str, *,
                        points: int = DEFAULT_POINTS, species: Sequence[str] = (),
-                       beyond_range: bool = False, registry: Registry | None = None) -> Sweep:
-    """The recipe as made, from one temperature to another (``"5:60"``, °C)."""
+                       beyond_range: bool = False, hold_pH: bool = False,
+                       registry: Registry | None = None) -> Sweep:
+    """The recipe as made, warmed or cooled from one temperature to another (``"5:60"``, °C).
+
+    The sample is closed: its totals stay as they are and the pH follows the temperature.
+    A pH the recipe fixes (a measured pH of an analysis, or [fix] pH) sets the proton
+    content at the recipe's own temperature, which then stays fixed too. With *hold_pH*
+    the pH is held at that value at every temperature instead, as if an acid or base were
+    added while it warms. A note in the sweep's warnings says which.
+    """
     lo, hi = _range(span, "span")
     bench = Workbench.of(recipe, registry)
+    totals, fixed, note = _closed_sample(bench, hold_pH)
     temps = np.linspace(lo, hi, _points(points))
     low, high = VALID_RANGE_C
     inside = (temps >= low) & (temps <= high)
@@ -207,11 +218,46 @@ def temperature_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: st
         if not temps.size:
             raise RecipeError("span", f"{span!r} lies outside {low:g}–{high:g} °C",
                               f"give temperatures between {low:g} and {high:g} °C")
-    totals = np.repeat(bench.base[None, :], temps.size, axis=0)
-    sweep = _finish(bench, "temperature", "temperature_C", temps, bench.solve(totals, temps),
-                    species, beyond_range)
+    totals = np.repeat(totals[None, :], temps.size, axis=0)
+    state = bench.solve(totals, temps, fixed=np.repeat(fixed[None, :], temps.size, axis=0))
+    sweep = _finish(bench, "temperature", "temperature_C", temps, state, species,
+                    beyond_range)
     sweep.stopped = sweep.stopped or stopped
+    sweep.warnings.insert(0, note)
+    if hold_pH and "pH" in bench.recipe.fix and sweep.values.size:
+        free = sweep.state.free.copy()   # β of the solution at each held pH, as pH_series
+        free[0] = True
+        sweep.beta = buffer_capacity(replace(sweep.state, free=free))
     return sweep
+
+
+def _closed_sample(bench: Workbench, hold_pH: bool) -> tuple[np.ndarray, np.ndarray, str]:
+    """(totals, fixed log10 activities, note) of the recipe warmed as a closed sample.
+
+    A fixed pH becomes the proton content it implies at the recipe's temperature (from the
+    solved speciation, Σ ν(H+) m), so that warming changes the pH as it would in a closed
+    bottle; *hold_pH* keeps the pH fixed instead.
+    """
+    t = bench.recipe.temperature_C
+    fixed = bench.fixed()
+    if "pH" not in bench.recipe.fix:
+        return bench.base, fixed, ("the sample is warmed closed: its totals stay fixed and "
+                                   "the pH follows the temperature")
+    ph = bench.recipe.fix["pH"]
+    if hold_pH:
+        return bench.base, fixed, (f"the pH is held at {ph:g} at every temperature, as if an "
+                                   "acid or base were added while the sample warms "
+                                   "(hold_pH); without it the closed sample's pH follows "
+                                   "the temperature")
+    state = bench.solve(bench.base)
+    if state.status[0] != "converged":
+        bench.result(state)   # raises the ConvergenceError that says why
+    totals = state.equilibrium.molality[0] @ bench.system.nu
+    free = fixed.copy()
+    free[0] = np.nan
+    return totals, free, (f"the sample is warmed closed: its totals, and the proton content "
+                          f"its pH {ph:g} gives at {t:g} °C, stay fixed; the pH follows the "
+                          "temperature (hold_pH keeps the pH fixed instead)")
 
 
 def pH_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: str, *,

@@ -15,10 +15,18 @@ import numpy as np
 
 from ._derived import charge_balance_error_percent
 from ..chemistry._formula import parse_formula
+from ..chemistry._water import log10_kw
 from ..core._system import log10_k_at
 
-CORROSIVE_LOW_PH = 2.0     # 40 CFR 261.22(a)(1): pH ≤ 2 or ≥ 12.5 is corrosive
+#: 40 CFR 261.22(a)(1) (revised as of July 1, 2019; re-read): an aqueous waste with a pH
+#: ≤ 2 or ≥ 12.5, by a pH meter using SW-846 Method 9040C, is corrosive.
+CORROSIVE_LOW_PH = 2.0
 CORROSIVE_HIGH_PH = 12.5
+#: Method 9040C reads the pH of the sample at 25 °C  # from memory
+CORROSIVE_REFERENCE_C = 25.0
+CORROSIVE_RULE = ("the US EPA corrosivity characteristic (40 CFR 261.22) is pH ≤ 2 or ≥ 12.5 "
+                  "measured at 25 °C; judged here on the hydrogen- and hydroxide-ion "
+                  "activities it implies, which hold at any temperature (common practice)")
 #: Share of a total present as the volatile acid (H2S, HCN) worth a caution: 1 %, which
 #: for sulfide (pKa ≈ 7) is below pH ≈ 9 and for cyanide (pKa ≈ 9.2) below pH ≈ 11.
 VOLATILE_SHARE = 0.01
@@ -31,16 +39,19 @@ DEFER = "follow your site's safety rules, local codes and licensed practice"
 _VOLATILE = (("H2S", "sulfide", "hydrogen sulfide"), ("HCN", "cyanide", "hydrogen cyanide"))
 _HYPOCHLORITE = (parse_formula("ClO-"), parse_formula("HClO"))
 _AMMONIA = parse_formula("NH3")
+_HYDROXIDE = parse_formula("OH-")
 
 
 def cautions(result) -> list[str]:
     """Every caution and data-quality warning that applies to *result*."""
     out = []
     ph = result.pH
-    if ph <= CORROSIVE_LOW_PH or ph >= CORROSIVE_HIGH_PH:
-        out.append(f"CAUTION: pH {ph:.2f} is corrosive (pH ≤ {CORROSIVE_LOW_PH:g} or ≥ "
-                   f"{CORROSIVE_HIGH_PH:g}, US EPA 40 CFR 261.22); wear eye and skin "
-                   f"protection and {DEFER}")
+    hydroxide = _species(result, _HYDROXIDE)
+    log10_oh = (np.log10(result.species_activity(hydroxide)) if hydroxide is not None
+                else np.nan)
+    text = corrosive_caution(-ph, log10_oh, ph, result.temperature_C)
+    if text:
+        out.append(text)
     for formula, parent, gas in _VOLATILE:
         found = _share(result, parse_formula(formula))
         if found is not None and found[0] >= VOLATILE_SHARE:
@@ -90,6 +101,32 @@ def _balanced_by_protons(result) -> list[str]:
             f"{1000 * abs(given.value):.3g} mmol/kg of {what} ({share:.3g} % of their charge): "
             f"the computed pH {result.pH:.2f} reflects a missing or mismeasured ion, not the "
             f"sample; give the measured pH (and alkalinity), or check the analysis"]
+
+
+def corrosive_limits() -> tuple[float, float]:
+    """log10 a(H+) and log10 a(OH-) at or above which a solution is corrosive.
+
+    The regulatory criterion is a pH measured at 25 °C; the pH of the same solution moves
+    with temperature (water's Kw), the activity of its acid or base hardly does. The
+    limits are therefore the activities at pH 2 and at pH 12.5 at 25 °C, and the caution
+    holds at any temperature (0.1 mol/kg NaOH is corrosive at 60 °C, where its pH is 11.9).
+    """
+    return -CORROSIVE_LOW_PH, CORROSIVE_HIGH_PH + float(log10_kw(CORROSIVE_REFERENCE_C))
+
+
+def corrosive_caution(log10_h, log10_oh, ph: float, t_C: float) -> str:
+    """The corrosive caution for a solution with these log10 activities, or ""."""
+    h_limit, oh_limit = corrosive_limits()
+    if log10_h >= h_limit:
+        what = (f"hydrogen-ion activity {10 ** log10_h:.3g} is at or above {10 ** h_limit:.3g}, "
+                f"that of pH {CORROSIVE_LOW_PH:g}")
+    elif np.isfinite(log10_oh) and log10_oh >= oh_limit:
+        what = (f"hydroxide activity {10 ** log10_oh:.3g} is at or above {10 ** oh_limit:.3g}, "
+                f"that of pH {CORROSIVE_HIGH_PH:g} at {CORROSIVE_REFERENCE_C:g} °C")
+    else:
+        return ""
+    return (f"CAUTION: corrosive at pH {ph:.2f} ({t_C:g} °C): {what}; {CORROSIVE_RULE}; wear "
+            f"eye and skin protection and {DEFER}")
 
 
 def _species(result, formula) -> str | None:
