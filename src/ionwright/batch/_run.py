@@ -558,7 +558,11 @@ def _check_frame(frame: Any) -> None:
 
 def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: str,
                  tables: Sequence[str], labels: Iterable[str], threads: int | None = None,
-                 registry: Registry | None = None) -> pd.DataFrame:
+                 registry: Registry | None = None,
+                 text_columns: Sequence[str] | None = None) -> pd.DataFrame:
+    """The solve of one frame; *text_columns* None finds the columns of text in it, a list
+    fixes them (the command line reads them once, from a file's first chunk, so that every
+    chunk reads its columns alike)."""
     import pandas as pd
 
     from ..engine._solve import load_tables
@@ -567,9 +571,7 @@ def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: s
     registry = registry or default_registry()
     chosen = registry.model(model)  # an unknown model is an error of the call, not of a row
     table_set = load_tables(list(tables), registry)
-    text = [h for h in frame.columns if not pd.api.types.is_numeric_dtype(frame[h])
-            and pd.to_numeric(frame[h], errors="coerce").isna().all()
-            and frame[h].notna().any()]
+    text = text_columns if text_columns is not None else text_columns_of(frame)
     plan = plan_columns([str(h) for h in frame.columns], table_set, species, labels,
                         [str(h) for h in text], ion_pairs_of(chosen))
     plan.table_names = tuple(tables)
@@ -584,6 +586,17 @@ def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: s
     results[MESSAGE_COLUMN] = solved.message
     added = pd.DataFrame(results, index=frame.index)
     return pd.concat([frame, added], axis=1)
+
+
+def text_columns_of(frame: pd.DataFrame) -> list[str]:
+    """Columns holding text only (sample ids, sites): carried through unless they name an
+    ingredient or analyte."""
+    import pandas as pd
+
+    return [str(h) for h in frame.columns if not pd.api.types.is_numeric_dtype(frame[h])
+            and not pd.api.types.is_bool_dtype(frame[h])
+            and pd.to_numeric(frame[h], errors="coerce").isna().all()
+            and frame[h].notna().any()]
 
 
 def solve_partition(part: pd.DataFrame, options: Mapping[str, Any]) -> pd.DataFrame:
