@@ -335,6 +335,7 @@ def _take_state(state: PhaseEquilibrium, rows: np.ndarray) -> PhaseEquilibrium:
                    present=state.present[rows], saturation_index=state.saturation_index[rows],
                    gas_uptake=state.gas_uptake[rows], totals=state.totals[rows],
                    gas_log10_pressure=state.gas_log10_pressure[rows], t_C=state.t_C[rows],
+                   traced=None if state.traced is None else state.traced[rows],
                    bound=state.bound.take(rows) if state.bound is not None and rows.size
                    else state.bound)
 
