@@ -241,9 +241,10 @@ class TargetResult:
                  (f"  {self.ingredient:<18}{1000 * self.amount_mol_per_kg:12.5g} mmol per kg "
                   f"of water ({grams:.5g} g/kg)")]
         if self.stock is not None:
-            lines.append(f"  as {self.stock.label:<15}{self.stock_mL_per_kg_water:12.5g} mL per "
-                         f"kg of the recipe's water ({self.stock_mL_per_kg_water * self.recipe_water_kg:.5g} "
-                         f"mL for the recipe as written)")
+            millilitres = self.stock_mL_per_kg_water * self.recipe_water_kg
+            lines.append(f"  as {self.stock.label:<15}{millilitres:12.5g} mL added to the recipe "
+                         f"as written (an [[add]] of that volume; "
+                         f"{self.stock_mL_per_kg_water:.5g} mL per kg of its water)")
         lines.append(f"  pH re-solved      {self.pH:12.6f}")
         lines += [f"  - {c}" for c in self.cautions]
         return "\n".join(lines) + "\n\n" + r.report()
