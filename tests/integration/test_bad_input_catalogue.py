@@ -296,6 +296,11 @@ API = [
     Refusal("buffer does not fit its volume", lambda tmp: design_buffer(
         "HEPES", 7.4, "8 mol/L", titrant="NaOH 10 mol/L"),
         RecipeError, ("HEPES",), ("volume",)),
+    Refusal("buffer name not text", lambda tmp: design_buffer(7, 7.4, "50 mmol/L",
+                                                              titrant="NaOH 1 mol/L"),
+            RecipeError, ("buffer", "7"), ("HEPES",)),
+    Refusal("titrant not text", lambda tmp: sweeps.titration(RINSE_MAP, 0.1, "5 mL"),
+            RecipeError, ("titrant", "0.1"), ("NaOH 1 mol/L",)),
     Refusal("buffer misspelt", lambda tmp: design_buffer("HEPPES", 7.4, "50 mmol/L",
                                                          titrant="NaOH 1 mol/L"),
             UnknownNameError, ("'HEPPES'",), ("'HEPES'",)),
@@ -425,6 +430,10 @@ CLI = [
                ("in.csv",), ("another",), {"in.csv": CSV}),
     CliRefusal("batch semicolons", ("batch", "{tmp}/in.csv", "-o", "{tmp}/out.csv"),
                ("in.csv", ";"), ("comma",), {"in.csv": "NaCl;CaCl2\n0,01;0,001\n"}),
+    CliRefusal("batch header names a column twice", ("batch", "{tmp}/in.csv", "-o",
+                                                     "{tmp}/out.csv"),
+               ("in.csv", "'NaCl'", "more than once"), ("rename",),
+               {"in.csv": "NaCl,NaCl\n0.1,0.2\n"}),
     CliRefusal("batch input suffix", ("batch", "{tmp}/in.txt", "-o", "{tmp}/out.csv"),
                ("in.txt",), ("suffix",), {"in.txt": CSV}),
     CliRefusal("batch chunk rows 0", ("batch", "{tmp}/in.csv", "-o", "{tmp}/out.csv",
@@ -634,6 +643,10 @@ ACCEPTED = {
         not swept.to_dict()["complete"] and "beyond the davies model's range" in swept.stopped
         and len(swept.to_dict()["rows"]) == swept.values.size > 0))(
         sweeps.titration({"dissolve": {"acetic acid": 0.1}}, "NaOH 10 mol/L", "300 mL")),
+    "an absurd amount in a batch is an invalid row": lambda: (lambda out: (
+        out["status"].tolist() == ["invalid", "converged"]
+        and "beyond what any solution holds" in out["message"][0]))(
+        ionwright.solve_batch(pd.DataFrame({"NaCl": [1e30, 0.1]}))),
     "a hydrate as the buffer's form": lambda: design_buffer(
         "phosphate", 7.0, "50 mmol/L", titrant="NaOH 1 mol/L",
         form="NaH2PO4·H2O").weigh[0].formula == "NaH2PO4·H2O",

@@ -41,7 +41,7 @@ from ..errors import IonwrightError, RecipeError, UnknownNameError
 from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
 from ..activity._validity import RANGE_TOLERANCE, TOLERANCE_PERCENT, exceeded_rows
 from ..core._system import PROTON, WATER, ChemicalSystem, compile_system, log10_k_at
-from ..inputs._recipe import DEFAULT_TABLES
+from ..inputs._recipe import DEFAULT_TABLES, MOLALITY_CEILING
 
 if TYPE_CHECKING:
     import pandas as pd
@@ -245,6 +245,10 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         else:
             _flag(problem, numbers < 0, lambda r: f"column {col.header!r}: {numbers[r]:g} is "
                   "negative; amounts must be ≥ 0")
+            if col.kind == "ingredient":  # plain mol/kg, as a recipe's plausibility check
+                _flag(problem, numbers > MOLALITY_CEILING, lambda r: f"column {col.header!r}: "
+                      f"{numbers[r]:g} mol per kg of water is beyond what any solution holds "
+                      f"(above {MOLALITY_CEILING:g} mol/kg); check the amount and its unit")
         values[col.header] = numbers
     plain = [c for c in plan.columns if c.kind == "ingredient" and not c.problem]
     converted = [c for c in plan.columns if c.kind in ("amount", "analysis")]

@@ -190,7 +190,7 @@ def read_stock(ingredient: str, concentration: str, tables, t_C: float,
 
 def split_name_and_quantity(text: str, where: str) -> tuple[str, str]:
     """``"NaOH 10 mol/L"`` → ("NaOH", "10 mol/L"); names may contain spaces."""
-    match = _NAME_AND_QUANTITY.match(text or "")
+    match = _NAME_AND_QUANTITY.match(text) if isinstance(text, str) else None
     if not match:
         raise RecipeError(where, f"{text!r} must be a name and an amount",
                           'e.g. "NaOH 1 mol/L" or "citric acid 0.5 mol/L"')

@@ -184,6 +184,7 @@ def _csv_chunks(path: Path, rows: int, labels: list[str], where: str) -> Iterato
 
     start = 0
     try:
+        _check_header(path, where)
         reader = pd.read_csv(path, chunksize=rows, encoding="utf-8",
                              dtype={label: str for label in labels})
         for chunk in reader:
@@ -200,6 +201,22 @@ def _csv_chunks(path: Path, rows: int, labels: list[str], where: str) -> Iterato
                           "the first line names the columns, e.g. sample,NaCl,CaCl2") from None
     except pd.errors.ParserError as exc:
         raise _csv_problem(str(exc), where) from None
+
+
+def _check_header(path: Path, where: str) -> None:
+    """Refuse a header that names a column twice (pandas would rename the second copy and
+    read it as an unknown ingredient)."""
+    import csv
+    from collections import Counter
+
+    with open(path, encoding="utf-8-sig", newline="") as handle:
+        header = next(csv.reader(handle), [])
+    twice = [name for name, count in Counter(h.strip() for h in header).items()
+             if count > 1 and name]
+    if twice:
+        raise RecipeError(where, f"its header names column(s) {', '.join(map(repr, twice))} "
+                          "more than once", "rename or drop the copies: each column is read "
+                          "once")
 
 
 def _csv_problem(text: str, where: str) -> RecipeError:
