@@ -330,6 +330,9 @@ API = [
             ("ratio", "1:0"), ("1:1000",)),
     Refusal("temperature span outside", lambda tmp: sweeps.temperature_series(
         RINSE_MAP, "500:600"), RecipeError, ("span", "500:600"), ("between",)),
+    Refusal("sweep with no point in the model's range", lambda tmp: sweeps.titration(
+        {"dissolve": {"NaCl": 0.3}}, "HCl 0.1 mol/L", "10 mL"), RecipeError,
+        ("no point", "beyond the davies model's range"), ("beyond_range",)),
     Refusal("sweep of one point", lambda tmp: sweeps.pH_series(RINSE_MAP, "4:10", points=1),
             RecipeError, ("points", "1"), ("between",)),
     Refusal("sweep species unknown", lambda tmp: sweeps.pH_series(RINSE_MAP, "4:10",
@@ -408,6 +411,10 @@ CLI = [
                                  "0 mL"), ("--to", "0 mL"), ("50 mL",), {"r.toml": RINSE}),
     CliRefusal("sweep dilute 1:0", ("sweep", "{tmp}/r.toml", "--dilute", "1:0"),
                ("--dilute", "1:0"), ("1:1000",), {"r.toml": RINSE}),
+    CliRefusal("sweep with no point in the model's range", ("sweep", "{tmp}/salty.toml",
+                                                            "--pH", "4:10"),
+               ("no point", "davies"), ("--beyond-range",),
+               {"salty.toml": "[dissolve]\nNaCl = 0.3\n"}),
     CliRefusal("sweep one point", ("sweep", "{tmp}/r.toml", "--pH", "4:10", "--points", "1"),
                ("--points",), ("between",), {"r.toml": RINSE}),
     CliRefusal("batch input not UTF-8", ("batch", "{tmp}/in.csv", "-o", "{tmp}/out.csv"),

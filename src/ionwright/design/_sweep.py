@@ -289,7 +289,9 @@ def _finish(bench: Workbench, kind: str, variable: str, values: np.ndarray,
             ) -> Sweep:
     """Keep the points up to the first failure or the first beyond the model's range.
 
-    With *beyond_range* the points past the model's range are kept, with a warning.
+    With *beyond_range* the points past the model's range are kept, with a warning. A
+    sweep that would keep no point at all is refused with the reason (never an empty
+    sweep); a sweep cut short says where and why in ``stopped`` and in its warnings.
     """
     limit = bench.model.max_ionic_strength
     bad = state.status != "converged"
@@ -308,8 +310,11 @@ def _finish(bench: Workbench, kind: str, variable: str, values: np.ndarray,
         else:
             why = (f"the ionic strength ({state.equilibrium.ionic_strength[k]:.3g} mol/kg) is "
                    f"beyond the {bench.model.name} model's range (up to about {limit:g})")
-            hint = ("use a model valid at higher ionic strength (truesdell-jones, pitzer) or "
-                    "a shorter sweep")
+            hint = ("use a model valid at higher ionic strength (truesdell-jones, pitzer), a "
+                    "shorter sweep, or beyond_range (--beyond-range) to go on with a warning")
+        if kept == 0:
+            raise RecipeError(f"{bench.recipe.origin}", f"no point of this {kind} sweep "
+                              f"can be given: at its first point ({at}) {why}", hint)
         stopped = f"stopped at {at}: {why}; the {kept} points before it are kept; {hint}"
     rows = np.arange(kept)
     kept_state = _take_state(state, rows)
@@ -317,7 +322,7 @@ def _finish(bench: Workbench, kind: str, variable: str, values: np.ndarray,
     for s in chosen:
         if s not in bench.system.species:
             _unknown_species(bench, s)
-    notes = list(state.notes)
+    notes = list(state.notes) + ([f"the sweep {stopped}"] if stopped else [])
     if beyond_range and outside[:kept].any():
         first = values[np.flatnonzero(outside[:kept])[0]]
         notes.append(f"from {variable.replace('_', ' ')} {first:.6g} on, the ionic strength "

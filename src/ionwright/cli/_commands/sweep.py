@@ -79,7 +79,8 @@ def run(args: argparse.Namespace) -> int:
             print(f"# equivalence point: {ep['titrant_mL']:.4g} mL, pH {ep['pH']:.3f}",
                   file=sys.stderr)
         for w in result.warnings:
-            print(f"# warning: {w}", file=sys.stderr)
+            if w != f"the sweep {result.stopped}":   # said once, below
+                print(f"# warning: {w}", file=sys.stderr)
     if args.plot and result.values.size:
         with as_flags({"kind": "--plot-kind"}):
             _plot(result, args)
