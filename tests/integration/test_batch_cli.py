@@ -106,3 +106,49 @@ def test_no_progress_bar_when_not_a_terminal(tmp_path):
                            str(target)], capture_output=True, text=True, check=True)
     assert done.stderr == ""
     assert done.stdout.startswith("4 rows: 4 converged")
+
+
+def test_a_label_column_reads_alike_in_every_chunk(tmp_path):
+    """Site ids that are text in the first chunk and look like numbers later stay labels
+    (they were written as missing values); ids that are numbers first and text later are
+    read as one column throughout, not as an ingredient in one chunk and a label in the
+    next."""
+    source, target = tmp_path / "in.csv", tmp_path / "out.csv"
+    source.write_text("site,NaCl\nA1,0.01\nA2,0.02\n17,0.01\n18,0.02\n", encoding="utf-8")
+    assert main(["batch", str(source), "-o", str(target), "--chunk-rows", "2"]) == 0
+    out = pd.read_csv(target, dtype={"site": str})
+    assert list(out["site"]) == ["A1", "A2", "17", "18"]
+    assert list(out["status"]) == ["converged"] * 4
+    source.write_text("lot,NaCl\n17,0.01\n18,0.02\nB7,0.01\nB8,0.02\n", encoding="utf-8")
+    assert main(["batch", str(source), "-o", str(target), "--chunk-rows", "2",
+                 "--label", "lot"]) == 0
+    out = pd.read_csv(target, dtype={"lot": str})
+    assert list(out["lot"]) == ["17", "18", "B7", "B8"]
+    assert list(out["status"]) == ["converged"] * 4
+    assert main(["batch", str(source), "-o", str(target), "--chunk-rows", "2"]) == 0
+    out = pd.read_csv(target, dtype={"lot": str})
+    assert list(out["status"]) == ["invalid"] * 4      # the same verdict in both chunks
+    assert "label" in out["message"][0] and "'B7'" in out["message"][2]
+    assert list(out["lot"]) == ["17", "18", "B7", "B8"]  # a CSV keeps every input cell
+
+
+@pytest.mark.parametrize("suffix", [".csv", ".parquet"])
+def test_a_table_without_rows_gives_an_output_with_its_columns(tmp_path, capsys, suffix):
+    pytest.importorskip("pyarrow", reason="Parquet needs the parquet extra")
+    source, target = tmp_path / f"in{suffix}", tmp_path / f"out{suffix}"
+    empty = pd.DataFrame({"site": pd.Series([], dtype=str),
+                          "NaCl": pd.Series([], dtype=float)})
+    empty.to_csv(source, index=False) if suffix == ".csv" else empty.to_parquet(source)
+    assert main(["batch", str(source), "-o", str(target)]) == 0
+    out = pd.read_csv(target) if suffix == ".csv" else pd.read_parquet(target)
+    assert len(out) == 0 and {"site", "NaCl", "status", "solved pH"} <= set(out.columns)
+    assert "0 rows" in capsys.readouterr().out
+
+
+def test_yes_no_columns_are_not_amounts(tmp_path):
+    source, target = tmp_path / "in.csv", tmp_path / "out.csv"
+    source.write_text("NaCl,CaCl2\nTrue,0.001\nFalse,0.002\n", encoding="utf-8")
+    main(["batch", str(source), "-o", str(target)])
+    out = pd.read_csv(target)
+    assert list(out["status"]) == ["invalid", "invalid"]
+    assert all("yes/no" in m and "'NaCl'" in m for m in out["message"])

@@ -89,7 +89,7 @@ def test_a_titration_point_is_the_recipe_with_that_stock_added(how, tris, salt, 
     """sweep --add follows the recipe convention: the point at V mL is the recipe with an
     [[add]] of V mL of the titrant (same pH within 1e-9)."""
     recipe = _made_up(how, tris, salt)
-    sweep = sweeps.titration(recipe, "HCl 0.1 mol/L", "40 mL", points=21)
+    sweep = sweeps.titration(recipe, "HCl 0.1 mol/L", "40 mL", points=21, beyond_range=True)
     volume = float(sweep.values[point])
     added = {**recipe, "add": [*recipe.get("add", []),
                                {"stock": "HCl", "concentration": "0.1 mol/L",

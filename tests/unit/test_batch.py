@@ -182,6 +182,17 @@ def test_a_corrosive_row_carries_the_caution():
     assert "CAUTION" in out["message"].iloc[0] and "local codes" in out["message"].iloc[0]
 
 
+def test_a_hot_caustic_row_is_corrosive_as_a_single_solve_says():
+    """The batch caution follows the same hydroxide activity as a single solve: 0.1 mol/kg
+    NaOH at 60 °C (pH 11.9) is corrosive, 0.01 mol/kg is not."""
+    out = ionwright.solve_batch(_frame(NaOH=[0.1, 0.01], temperature_C=[60.0, 60.0]))
+    assert out[batch.PH_COLUMN].iloc[0] < 12.5
+    assert "corrosive" in out["message"].iloc[0] and "25 °C" in out["message"].iloc[0]
+    assert "corrosive" not in out["message"].iloc[1]
+    single = ionwright.solve({"temperature_C": 60.0, "dissolve": {"NaOH": 0.1}})
+    assert any("corrosive" in w for w in single.warnings)
+
+
 def test_an_empty_frame_gives_an_empty_result_with_the_output_columns():
     out = ionwright.solve_batch(pd.DataFrame({"NaCl": pd.Series([], dtype=float)}))
     assert len(out) == 0 and "status" in out.columns

@@ -75,3 +75,10 @@ def test_an_unknown_buffer_lists_close_names():
 def test_a_titrant_that_is_neither_acid_nor_base_is_refused():
     with pytest.raises(RecipeError, match="neither an acid nor a base"):
         design_buffer("HEPES", 7.4, "50 mmol/L", titrant="NaCl 1 mol/L")
+
+
+def test_a_hot_buffer_still_warns_of_its_caustic_titrant():
+    """At 95 °C a 10 mol/L NaOH stock reads below pH 12.5 yet is as corrosive as at 25 °C."""
+    card = design_buffer("HEPES", 7.0, "50 mmol/L", temperature_C=95.0,
+                         titrant="NaOH 10 mol/L")
+    assert any("NaOH 10 mol/L" in c and "corrosive" in c for c in card.cautions)

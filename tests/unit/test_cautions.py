@@ -4,9 +4,11 @@ from __future__ import annotations
 
 import textwrap
 
+import numpy as np
 import pytest
 
 import ionwright
+from ionwright.outputs._cautions import corrosive_limits
 
 # Hypochlorite and cyanide are not in the core table; this small table adds them.
 # HOCl pKa 7.53 (Morris, J.C. (1966) J. Phys. Chem. 70, 3798)  # from memory
@@ -103,6 +105,30 @@ def test_corrosive_ph_is_flagged():
     assert mentions(cautions_of({"dissolve": {"HCl": 0.05}}), "corrosive")
     assert mentions(cautions_of({"dissolve": {"NaOH": 0.1}}), "corrosive")
     assert not mentions(cautions_of({"dissolve": {"NaCl": 0.1}}), "corrosive")
+
+
+@pytest.mark.parametrize("t_C", [0.0, 25.0, 60.0, 95.0])
+def test_the_corrosive_caution_holds_at_any_temperature(t_C):
+    """40 CFR 261.22(a)(1) (re-read, 2019 revision): pH ≤ 2 or ≥ 12.5, read at 25 °C (the
+    method's temperature, from memory). 0.1 mol/kg NaOH is at pH 11.9 at 60 °C and 11.2 at
+    95 °C, yet as corrosive as at 25 °C: the caution follows the hydroxide activity (the
+    activity of pH 12.5 at 25 °C), which warming hardly moves, and says so."""
+    base = ionwright.solve({"temperature_C": t_C, "dissolve": {"NaOH": 0.1}})
+    (caution,) = [w for w in base.warnings if "corrosive" in w]
+    assert "hydroxide activity" in caution and "25 °C" in caution
+    assert "40 CFR 261.22" in caution and "local codes" in caution
+    acid = ionwright.solve({"temperature_C": t_C, "dissolve": {"HCl": 0.02}})
+    assert any("corrosive" in w and "hydrogen-ion activity" in w for w in acid.warnings)
+    mild = ionwright.solve({"temperature_C": t_C, "dissolve": {"NaOH": 0.01, "HCl": 0.001}})
+    assert not mentions(mild.warnings, "corrosive")
+
+
+def test_the_corrosive_limit_is_the_hydroxide_activity_of_ph_12_5_at_25_c():
+    _, oh_limit = corrosive_limits()
+    at_limit = ionwright.solve({"temperature_C": 25.0, "dissolve": {"NaCl": 0.01},
+                                "fix": {"pH": 12.5}})
+    hydroxide = at_limit.species_activity("OH-")
+    assert np.log10(hydroxide) == pytest.approx(oh_limit, abs=1e-9)
 
 
 def test_charge_balance_beyond_five_percent_is_a_data_quality_warning():

@@ -22,7 +22,7 @@ def _labels(fig):
 
 def test_titration_curve_marks_the_equivalence_points(titrated, tmp_path):
     fig = plots.titration_curve(titrated)
-    assert _labels(fig) == ("titrant added (mL)", "pH")
+    assert _labels(fig) == ("NaOH 0.1 mol/L added (mL)", "pH")
     marked = [t.get_text() for t in fig.axes[0].texts]
     assert len(marked) == len(titrated.equivalence) >= 2
     for suffix in (".png", ".svg"):
@@ -39,7 +39,7 @@ def test_distribution_capacity_and_saturation_figures(tmp_path):
     assert "mmol" in _labels(fig)[1]
     warm = sweep.temperature_series({"dissolve": {"CaCl2": 0.003, "NaHCO3": 0.005}}, "5:80",
                                     points=16)
-    fig = plots.saturation_vs_temperature(warm)
+    fig = plots.saturation_curve(warm)
     assert _labels(fig) == ("temperature (°C)", "saturation index log(IAP/K)")
     assert "calcite" in {line.get_label() for line in fig.axes[0].lines}
     plots.save(fig, tmp_path / "si.png")
@@ -48,3 +48,32 @@ def test_distribution_capacity_and_saturation_figures(tmp_path):
 def test_only_png_and_svg_are_written(titrated, tmp_path):
     with pytest.raises(RecipeError, match=".png or .svg"):
         plots.save(plots.titration_curve(titrated), tmp_path / "curve.jpg")
+
+
+def test_a_dilution_draws_ph_on_a_log_axis_of_the_dilution_factor():
+    diluted = sweep.dilution({"dissolve": {"acetic acid": 0.05}}, "1:1000", points=21)
+    fig = plots.ph_curve(diluted)
+    ax = fig.axes[0]
+    assert _labels(fig) == ("dilution factor (final volume / volume as made)", "pH")
+    assert ax.get_xscale() == "log"
+
+
+def test_a_recipe_without_solids_has_no_saturation_figure():
+    warm = sweep.temperature_series({"dissolve": {"HEPES": 0.05, "NaOH": 0.02}}, "5:60",
+                                    points=5)
+    assert not warm.saturation
+    with pytest.raises(RecipeError, match="no saturation index to draw"):
+        plots.saturation_curve(warm)
+    assert _labels(plots.ph_curve(warm)) == ("temperature (°C)", "pH")
+
+
+def test_every_solid_has_its_own_colour_and_line_style():
+    hard = {"analysis": {"temperature_C": 12.0, "pH": 8.1, "Ca": "120 mg/L", "Mg": "40 mg/L",
+                         "Na": "60 mg/L", "Cl": "90 mg/L", "SO4": "180 mg/L", "F": "1.2 mg/L",
+                         "SiO2": "20 mg/L", "alkalinity": "250 mg/L as CaCO3"}}
+    warm = sweep.temperature_series(hard, "5:90", points=6)
+    lines = [line for line in plots.saturation_curve(warm).axes[0].lines
+             if line.get_label() in warm.saturation]
+    assert len(lines) > len(plots.PALETTE)
+    looks = {(line.get_color(), str(line.get_linestyle())) for line in lines}
+    assert len(looks) == len(lines)

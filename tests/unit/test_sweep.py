@@ -94,3 +94,36 @@ def test_saturation_indices_are_tabulated():
                                       "5:80", points=8)
     assert "calcite" in result.saturation
     assert np.all(np.diff(result.saturation["calcite"]) > 0)   # calcite: less soluble hot
+
+
+WELL = {"title": "well (invented)", "analysis": {
+    "temperature_C": 10.0, "pH": 7.7, "Ca": "46 mg/L", "Mg": "8.5 mg/L", "Na": "9.2 mg/L",
+    "Cl": "14 mg/L", "SO4": "22 mg/L", "alkalinity": "128 mg/L as CaCO3"}}
+
+
+def test_warming_an_analysis_warms_the_closed_sample():
+    """The measured pH fixes the proton content at the sample's temperature; warmed, the
+    closed sample keeps its totals and its pH falls (carbonate and water ionise more),
+    while calcite's saturation rises less than with the pH held."""
+    closed = sweep.temperature_series(WELL, "10:80", points=8)
+    assert closed.pH[0] == pytest.approx(7.7, abs=1e-9)
+    assert np.all(np.diff(closed.pH) < 0)
+    assert "warmed closed" in closed.warnings[0] and "pH 7.7" in closed.warnings[0]
+    held = sweep.temperature_series(WELL, "10:80", points=8, hold_pH=True)
+    assert held.pH == pytest.approx(np.full(8, 7.7), abs=1e-9)
+    assert "held at 7.7" in held.warnings[0]
+    assert np.all(np.isfinite(held.beta)) and np.all(held.beta > 0)
+    assert closed.saturation["calcite"][-1] < held.saturation["calcite"][-1]
+
+
+def test_a_closed_sample_conserves_its_totals_when_warmed():
+    """Every component's total (H+ included) is the same at every temperature."""
+    closed = sweep.temperature_series(WELL, "10:80", points=5)
+    system = closed.bench.system
+    totals = closed.state.equilibrium.molality @ system.nu
+    assert totals == pytest.approx(np.repeat(totals[:1], 5, axis=0), rel=1e-9, abs=1e-15)
+
+
+def test_a_recipe_without_a_fixed_ph_says_its_sample_is_closed():
+    warmed = sweep.temperature_series(ACETIC, "5:60", points=3)
+    assert "warmed closed" in warmed.warnings[0]

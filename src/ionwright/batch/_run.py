@@ -36,14 +36,15 @@ from typing import TYPE_CHECKING, Any, Iterable, Iterator, Mapping, Sequence
 import numpy as np
 
 from ..core import _solver as solver
-from ..outputs._cautions import corrosive_notice, is_corrosive
+from ..outputs._cautions import (CORROSIVE_HIGH_PH, CORROSIVE_LOW_PH, CORROSIVE_REFERENCE_C,
+                                 corrosive_limits, corrosive_text)
 from ..outputs._model_numbers import beyond_model_range, model_range_notice
 from ..errors import IonwrightError, RecipeError, UnknownNameError
 from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
 from ..activity._validity import TOLERANCE_PERCENT, exceeded_rows
 from ..core._system import (PROTON, WATER, ChemicalSystem, compile_system, constant_notice,
                             constant_outside)
-from ..inputs._recipe import DEFAULT_TABLES
+from ..inputs._recipe import DEFAULT_TABLES, MOLALITY_CEILING
 from ..engine._totals import negative_totals
 from ..core._newton.numerics import RESIDUAL_TOLERANCE
 from ..status import CONVERGED, INVALID
@@ -250,6 +251,10 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         else:
             _flag(problem, numbers < 0, lambda r: f"column {col.header!r}: {numbers[r]:g} is "
                   "negative; amounts must be ≥ 0")
+            if col.kind == "ingredient":  # plain mol/kg, as a recipe's plausibility check
+                _flag(problem, numbers > MOLALITY_CEILING, lambda r: f"column {col.header!r}: "
+                      f"{numbers[r]:g} mol per kg of water is beyond what any solution holds "
+                      f"(above {MOLALITY_CEILING:g} mol/kg); check the amount and its unit")
         values[col.header] = numbers
     plain = [c for c in plan.columns if c.kind == "ingredient" and not c.problem]
     converted = [c for c in plan.columns if c.kind in ("amount", "analysis")]
@@ -402,7 +407,7 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, pla
     _saturation(system, tables, eq, ok, t, plan, out.saturation, good)
     out.status[rows] = status  # the solver's own word where it did not converge
     out.message[rows] = _notes(system, model, out.ph[rows], out.ionic_strength[rows], t, ok,
-                               eq.molality)
+                               eq.molality, _log10_hydroxide(system, tables, eq))
     for k in np.flatnonzero(~ok):
         out.message[rows[k]] = (f"the solver stopped with status {status[k]!r} after "
                                 f"{int(eq.iterations[k])} iterations (worst relative "
@@ -423,7 +428,7 @@ def _saturation(system: ChemicalSystem, tables: TableSet, eq: solver.Equilibrium
 
 
 def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: np.ndarray,
-           ok: np.ndarray, molality: np.ndarray) -> np.ndarray:
+           ok: np.ndarray, molality: np.ndarray, log10_oh: np.ndarray) -> np.ndarray:
     """Per-row warnings: model range (in general and for the kinds of solution the model
     states, :mod:`ionwright.activity._validity`), corrosive pH, constants used outside
     their range.
@@ -443,8 +448,11 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
                          f"{rule.max_ionic_strength:g} mol/kg where {rule.label} are main "
                          f"ions ({rule.evidence})")
             flags.append(ok & hits[:, r])
-    texts.append(corrosive_notice().text)
-    flags.append(ok & is_corrosive(ph))
+    h_limit, oh_limit = corrosive_limits()
+    texts.append(f"CAUTION: corrosive: hydrogen-ion activity at or above that of pH "
+                 f"{CORROSIVE_LOW_PH:g}, or hydroxide activity at or above that of pH "
+                 f"{CORROSIVE_HIGH_PH:g} at {CORROSIVE_REFERENCE_C:g} °C; {corrosive_text()}")
+    flags.append(ok & ((-ph >= h_limit) | (np.nan_to_num(log10_oh, nan=-np.inf) >= oh_limit)))
     for name, logk in system.temperature_checks():
         texts.append(constant_notice(name, logk).text)
         flags.append(ok & constant_outside(logk, t))
@@ -453,6 +461,20 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
     joined = np.array(["; ".join(t for t, f in zip(texts, matrix[r]) if f) for r in first],
                       dtype=object)
     return joined[which]
+
+
+def _log10_hydroxide(system: ChemicalSystem, tables: TableSet, eq) -> np.ndarray:
+    """log10 a(OH-) of every sample (NaN without a hydroxide species)."""
+    from ..chemistry._formula import parse_formula
+
+    hydroxide = parse_formula("OH-")
+    found = [i for i, name in enumerate(system.species)
+             if parse_formula(tables.entry(name).formula) == hydroxide]
+    if not found:
+        return np.full(eq.molality.shape[0], np.nan)
+    i = found[0]
+    with np.errstate(divide="ignore"):
+        return (np.log(eq.molality[:, i]) + eq.ln_gamma[:, i]) / LN10
 
 
 def _row_codes(flags: np.ndarray) -> np.ndarray:
@@ -525,7 +547,11 @@ def _check_frame(frame: Any) -> None:
 
 def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: str,
                  tables: Sequence[str], labels: Iterable[str], threads: int | None = None,
-                 registry: Registry | None = None) -> pd.DataFrame:
+                 registry: Registry | None = None,
+                 text_columns: Sequence[str] | None = None) -> pd.DataFrame:
+    """The solve of one frame; *text_columns* None finds the columns of text in it, a list
+    fixes them (the command line reads them once, from a file's first chunk, so that every
+    chunk reads its columns alike)."""
     import pandas as pd
 
     from ..plugins._table_sets import load_tables
@@ -534,9 +560,7 @@ def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: s
     registry = registry or default_registry()
     chosen = registry.model(model)  # an unknown model is an error of the call, not of a row
     table_set = load_tables(list(tables), registry)
-    text = [h for h in frame.columns if not pd.api.types.is_numeric_dtype(frame[h])
-            and pd.to_numeric(frame[h], errors="coerce").isna().all()
-            and frame[h].notna().any()]
+    text = text_columns if text_columns is not None else text_columns_of(frame)
     plan = plan_columns([str(h) for h in frame.columns], table_set, species, labels,
                         [str(h) for h in text], ion_pairs_of(chosen))
     plan.table_names = tuple(tables)
@@ -551,6 +575,17 @@ def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: s
     results[MESSAGE_COLUMN] = solved.message
     added = pd.DataFrame(results, index=frame.index)
     return pd.concat([frame, added], axis=1)
+
+
+def text_columns_of(frame: pd.DataFrame) -> list[str]:
+    """Columns holding text only (sample ids, sites): carried through unless they name an
+    ingredient or analyte."""
+    import pandas as pd
+
+    return [str(h) for h in frame.columns if not pd.api.types.is_numeric_dtype(frame[h])
+            and not pd.api.types.is_bool_dtype(frame[h])
+            and pd.to_numeric(frame[h], errors="coerce").isna().all()
+            and frame[h].notna().any()]
 
 
 def solve_partition(part: pd.DataFrame, options: Mapping[str, Any]) -> pd.DataFrame:

@@ -32,6 +32,9 @@ def main(argv: Sequence[str] | None = None) -> int:
         return 2
     except BrokenPipeError:  # output piped into `head` and closed early
         return 0
+    except KeyboardInterrupt:  # Ctrl-C: no traceback, the shell's status for SIGINT
+        print("ionwright: interrupted", file=sys.stderr)
+        return 130
 
 
 if __name__ == "__main__":  # pragma: no cover

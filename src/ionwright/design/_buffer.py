@@ -70,6 +70,10 @@ class BufferForm:
 
 def buffer_component(name: str, tables) -> str:
     """The component a buffer name stands for (``"HEPES"`` → ``"HEPES-"``)."""
+    if not isinstance(name, str) or not name.strip():
+        raise RecipeError("buffer", f"{name!r} must name a buffer",
+                          'give a reagent of the tables or a family, e.g. "HEPES" or '
+                          '"phosphate"')
     if name.casefold() in FAMILIES:
         return FAMILIES[name.casefold()]
     if name in tables.components and name not in (PROTON, WATER):

@@ -1,4 +1,5 @@
-"""Figures of sweeps: titration curve, species distribution, saturation index, buffer capacity.
+"""Figures of sweeps: titration curve, pH curve, species distribution, saturation index,
+buffer capacity.
 
 Each function takes a :class:`~ionwright.design._sweep.Sweep` and returns a matplotlib
 ``Figure`` built without pyplot (so no global backend is touched: the figure renders
@@ -23,6 +24,9 @@ if TYPE_CHECKING:  # pragma: no cover
 #: Our palette: deep teal, brick, saffron, sage, plum, slate, sky, rose.
 PALETTE = ("#1d5c7a", "#c2533a", "#e0a030", "#5f8f6a", "#6e4a7e", "#38404f", "#7fb3c8",
            "#b4436c")
+#: Line styles taken in turn once the palette is used up, so that no two lines look alike.
+STYLES = ("-", (0, (5, 2)), (0, (1, 1.5)), (0, (6, 2, 1, 2)))
+MAX_LINES = len(PALETTE) * len(STYLES)
 INK = "#222831"
 GRID = "#d9dde3"
 SIZE = (7.0, 4.4)
@@ -59,6 +63,37 @@ def _temperature_text(sweep: Sweep) -> str:
     return f"{t[0]:g} °C" if t.size else ""
 
 
+def _look(k: int) -> dict:
+    """Colour and line style of the k-th line: unique for the first :data:`MAX_LINES`."""
+    return {"color": PALETTE[k % len(PALETTE)], "linestyle": STYLES[(k // len(PALETTE))
+                                                                    % len(STYLES)]}
+
+
+def x_label(sweep: Sweep) -> str:
+    """The label of a sweep's swept quantity, naming the titrant of a titration."""
+    if sweep.kind == "titration":
+        return f"{sweep.titrant or 'titrant'} added (mL)"
+    return {"dilution": "dilution factor (final volume / volume as made)",
+            "temperature": "temperature (°C)", "pH": "pH held"}[sweep.kind]
+
+
+def _x(ax, sweep: Sweep) -> np.ndarray:
+    """The swept values, with the axis labelled (and logarithmic for a dilution)."""
+    ax.set_xlabel(x_label(sweep), color=INK, fontsize=11)
+    if sweep.kind == "dilution":
+        ax.set_xscale("log")
+    return sweep.values
+
+
+def ph_curve(sweep: Sweep) -> Figure:
+    """pH against the swept quantity (temperature, dilution factor, titrant volume)."""
+    fig, ax = _figure()
+    ax.plot(_x(ax, sweep), sweep.pH, color=PALETTE[0], linewidth=2.0)
+    ax.set_ylabel("pH", color=INK, fontsize=11)
+    _title(ax, sweep, "pH")
+    return fig
+
+
 def titration_curve(sweep: Sweep) -> Figure:
     """pH against titrant volume, with each equivalence point marked and labelled."""
     fig, ax = _figure()
@@ -70,7 +105,7 @@ def titration_curve(sweep: Sweep) -> Figure:
         ax.annotate(f"equivalence {k}\n{ep['titrant_mL']:.2f} mL, pH {ep['pH']:.2f}",
                     (ep["titrant_mL"], ep["pH"]), xytext=(8, -28), textcoords="offset points",
                     fontsize=9, color=PALETTE[1])
-    ax.set_xlabel("titrant added (mL)", color=INK, fontsize=11)
+    ax.set_xlabel(x_label(sweep), color=INK, fontsize=11)
     ax.set_ylabel("pH", color=INK, fontsize=11)
     _title(ax, sweep, "titration")
     return fig
@@ -84,8 +119,7 @@ def species_distribution(sweep: Sweep, component: str) -> Figure:
     shown = [s for s in order if np.nanmax(shares[s]) >= SHOWN_FRACTION]
     x = sweep.pH
     for k, name in enumerate(shown):
-        ax.plot(x, 100.0 * shares[name], color=PALETTE[k % len(PALETTE)], linewidth=2.0,
-                label=name)
+        ax.plot(x, 100.0 * shares[name], linewidth=2.0, label=name, **_look(k))
     ax.set_ylim(-2, 102)
     ax.set_xlabel("pH", color=INK, fontsize=11)
     ax.set_ylabel(f"share of dissolved {component} (%)", color=INK, fontsize=11)
@@ -94,25 +128,36 @@ def species_distribution(sweep: Sweep, component: str) -> Figure:
     return fig
 
 
-def saturation_vs_temperature(sweep: Sweep, solids: tuple[str, ...] = ()) -> Figure:
-    """Saturation index of the solids against temperature, with SI = 0 drawn.
+def saturation_curve(sweep: Sweep, solids: tuple[str, ...] = ()) -> Figure:
+    """Saturation index of the solids against the swept quantity, with SI = 0 drawn.
 
-    By default the solids that come within :data:`RELEVANT_SI` of saturation are drawn.
+    By default the solids that come within :data:`RELEVANT_SI` of saturation are drawn,
+    most saturated first, at most :data:`MAX_LINES` (each its own colour and style). A
+    sweep of a recipe that can form no solid has no saturation to draw: that is an error,
+    not an empty figure.
     """
+    from ..errors import RecipeError
+
+    if not sweep.saturation:
+        raise RecipeError("kind 'saturation'", "this recipe holds the components of no "
+                          "solid of its tables, so there is no saturation index to draw",
+                          "draw the pH against the swept quantity instead (the 'pH' kind "
+                          "of plot)")
     fig, ax = _figure()
-    names = solids or tuple(n for n, si in sweep.saturation.items()
-                            if np.nanmax(si) >= RELEVANT_SI) or tuple(sweep.saturation)
-    x = sweep.state.t_C
+    peak = {n: float(np.nanmax(si)) for n, si in sweep.saturation.items()}
+    near = [n for n in peak if peak[n] >= RELEVANT_SI] or list(peak)
+    names = solids or tuple(sorted(near, key=lambda n: -peak[n])[:MAX_LINES])
+    x = _x(ax, sweep)
     for k, name in enumerate(names):
-        ax.plot(x, sweep.saturation[name], color=PALETTE[k % len(PALETTE)], linewidth=2.0,
-                label=name)
+        ax.plot(x, sweep.saturation[name], linewidth=2.0, label=name, **_look(k))
     ax.axhline(0.0, color=INK, linewidth=1.0)
     ax.text(x[0], 0.05, "supersaturated above, undersaturated below", fontsize=8,
             color=INK, va="bottom")
-    ax.set_xlabel("temperature (°C)", color=INK, fontsize=11)
     ax.set_ylabel("saturation index log(IAP/K)", color=INK, fontsize=11)
-    if names:
-        ax.legend(frameon=False, fontsize=9, loc="center left", bbox_to_anchor=(1.0, 0.5))
+    left_out = len(near) - len(names)
+    ax.legend(frameon=False, fontsize=9, loc="center left", bbox_to_anchor=(1.0, 0.5),
+              title=f"{left_out} less saturated not drawn" if left_out > 0 else None,
+              title_fontsize=8)
     _title(ax, sweep, "saturation")
     return fig
 
@@ -123,7 +168,7 @@ def buffer_capacity_curve(sweep: Sweep) -> Figure:
     order = np.argsort(sweep.pH)
     beta = 1000.0 * sweep.beta[order]
     ax.plot(sweep.pH[order], beta, color=PALETTE[3], linewidth=2.0)
-    ax.set_xlabel("pH", color=INK, fontsize=11)
+    ax.set_xlabel("pH" if sweep.kind != "pH" else "pH held", color=INK, fontsize=11)
     label = "buffer capacity β (mmol kg⁻¹ per pH)"
     positive = beta[np.isfinite(beta) & (beta > 0)]
     if positive.size and positive.max() > LOG_RANGE * positive.min():

@@ -28,7 +28,7 @@ from typing import Any
 
 import numpy as np
 
-from ..notices import VALIDITY, Notice, texts
+from ..notices import INPUT, VALIDITY, Notice, texts
 from ..outputs._model_numbers import beyond_model_range
 from ..status import succeeded
 from ..chemistry._density import component_solute, ingredient_solute
@@ -71,6 +71,7 @@ class Sweep:
     saturation: dict[str, np.ndarray] = field(default_factory=dict)
     notices: list[Notice] = field(default_factory=list)
     stopped: str = ""                 # why the sweep ended early ("" if complete)
+    titrant: str = ""                 # the titrant of a titration, e.g. "NaOH 0.1 mol/L"
 
     @property
     def warnings(self) -> list[str]:
@@ -179,6 +180,7 @@ def titration(recipe: str | Path | Mapping[str, Any] | Recipe, titrant: str, to:
     state = bench.solve(totals_at(volumes))
     sweep = _finish(bench, "titration", "titrant_mL", 1000.0 * volumes, state, species,
                     beyond_range)
+    sweep.titrant = stock.label
     kept = sweep.values.size
     if kept:
         sweep.slope = slope_at(sweep.state, volumes[:kept])
@@ -205,10 +207,19 @@ def dilution(recipe: str | Path | Mapping[str, Any] | Recipe, ratio: str, *,
 @names_its_arguments
 def temperature_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: str, *,
                        points: int = DEFAULT_POINTS, species: Sequence[str] = (),
-                       beyond_range: bool = False, registry: Registry | None = None) -> Sweep:
-    """The recipe as made, from one temperature to another (``"5:60"``, °C)."""
+                       beyond_range: bool = False, hold_pH: bool = False,
+                       registry: Registry | None = None) -> Sweep:
+    """The recipe as made, warmed or cooled from one temperature to another (``"5:60"``, °C).
+
+    The sample is closed: its totals stay as they are and the pH follows the temperature.
+    A pH the recipe fixes (a measured pH of an analysis, or [fix] pH) sets the proton
+    content at the recipe's own temperature, which then stays fixed too. With *hold_pH*
+    the pH is held at that value at every temperature instead, as if an acid or base were
+    added while it warms. A note in the sweep's warnings says which.
+    """
     lo, hi = _range(span, "span")
     bench = compile_recipe(recipe, registry)
+    totals, fixed, note = _closed_sample(bench, hold_pH)
     temps = np.linspace(lo, hi, _points(points))
     low, high = VALID_RANGE_C
     inside = (temps >= low) & (temps <= high)
@@ -222,11 +233,46 @@ def temperature_series(recipe: str | Path | Mapping[str, Any] | Recipe, span: st
         if not temps.size:
             raise RecipeError("span", f"{span!r} lies outside {low:g}–{high:g} °C",
                               f"give temperatures between {low:g} and {high:g} °C")
-    totals = np.repeat(bench.base[None, :], temps.size, axis=0)
-    sweep = _finish(bench, "temperature", "temperature_C", temps, bench.solve(totals, temps),
-                    species, beyond_range)
+    totals = np.repeat(totals[None, :], temps.size, axis=0)
+    state = bench.solve(totals, temps, fixed=np.repeat(fixed[None, :], temps.size, axis=0))
+    sweep = _finish(bench, "temperature", "temperature_C", temps, state, species,
+                    beyond_range)
     sweep.stopped = sweep.stopped or stopped
+    sweep.notices.insert(0, Notice(INPUT, "closed-sample", note, {"hold_pH": hold_pH}))
+    if hold_pH and "pH" in bench.recipe.fix and sweep.values.size:
+        free = sweep.state.free.copy()   # β of the solution at each held pH, as pH_series
+        free[0] = True
+        sweep.beta = buffer_capacity(replace(sweep.state, free=free))
     return sweep
+
+
+def _closed_sample(bench: CompiledRecipe, hold_pH: bool) -> tuple[np.ndarray, np.ndarray, str]:
+    """(totals, fixed log10 activities, note) of the recipe warmed as a closed sample.
+
+    A fixed pH becomes the proton content it implies at the recipe's temperature (from the
+    solved speciation, Σ ν(H+) m), so that warming changes the pH as it would in a closed
+    bottle; *hold_pH* keeps the pH fixed instead.
+    """
+    t = bench.recipe.temperature_C
+    fixed = bench.fixed()
+    if "pH" not in bench.recipe.fix:
+        return bench.base, fixed, ("the sample is warmed closed: its totals stay fixed and "
+                                   "the pH follows the temperature")
+    ph = bench.recipe.fix["pH"]
+    if hold_pH:
+        return bench.base, fixed, (f"the pH is held at {ph:g} at every temperature, as if an "
+                                   "acid or base were added while the sample warms "
+                                   "(hold_pH); without it the closed sample's pH follows "
+                                   "the temperature")
+    state = bench.solve(bench.base)
+    if not succeeded(state.status)[0]:
+        bench.result(state)   # raises the ConvergenceError that says why
+    totals = state.equilibrium.molality[0] @ bench.system.nu
+    free = fixed.copy()
+    free[0] = np.nan
+    return totals, free, (f"the sample is warmed closed: its totals, and the proton content "
+                          f"its pH {ph:g} gives at {t:g} °C, stay fixed; the pH follows the "
+                          "temperature (hold_pH keeps the pH fixed instead)")
 
 
 @names_its_arguments
@@ -259,7 +305,9 @@ def _finish(bench: CompiledRecipe, kind: str, variable: str, values: np.ndarray,
             ) -> Sweep:
     """Keep the points up to the first failure or the first beyond the model's range.
 
-    With *beyond_range* the points past the model's range are kept, with a warning.
+    With *beyond_range* the points past the model's range are kept, with a warning. A
+    sweep that would keep no point at all is refused with the reason (never an empty
+    sweep); a sweep cut short says where and why in ``stopped`` and in its warnings.
     """
     limit = bench.model.max_ionic_strength
     bad = ~succeeded(state.status)
@@ -278,8 +326,11 @@ def _finish(bench: CompiledRecipe, kind: str, variable: str, values: np.ndarray,
         else:
             why = (f"the ionic strength ({state.equilibrium.ionic_strength[k]:.3g} mol/kg) is "
                    f"beyond the {bench.model.name} model's range (up to about {limit:g})")
-            hint = ("use a model valid at higher ionic strength (truesdell-jones, pitzer) or "
-                    "a shorter sweep")
+            hint = ("use a model valid at higher ionic strength (truesdell-jones, pitzer), a "
+                    "shorter sweep, or beyond_range=True to go on with a warning")
+        if kept == 0:
+            raise RecipeError(f"{bench.recipe.origin}", f"no point of this {kind} sweep "
+                              f"can be given: at its first point ({at}) {why}", hint)
         stopped = f"stopped at {at}: {why}; the {kept} points before it are kept; {hint}"
     rows = np.arange(kept)
     kept_state = _take_state(state, rows)
@@ -287,7 +338,8 @@ def _finish(bench: CompiledRecipe, kind: str, variable: str, values: np.ndarray,
     for s in chosen:
         if s not in bench.system.species:
             _unknown_species(bench, s)
-    notes = list(state.notes)
+    notes = list(state.notes) + ([Notice(VALIDITY, "sweep-stopped", f"the sweep {stopped}")]
+                                 if stopped else [])
     outside = np.asarray(outside)
     if beyond_range and outside[:kept].any():
         first = values[np.flatnonzero(outside[:kept])[0]]
@@ -308,6 +360,7 @@ def _take_state(state: PhaseEquilibrium, rows: np.ndarray) -> PhaseEquilibrium:
                    present=state.present[rows], saturation_index=state.saturation_index[rows],
                    gas_uptake=state.gas_uptake[rows], totals=state.totals[rows],
                    gas_log10_pressure=state.gas_log10_pressure[rows], t_C=state.t_C[rows],
+                   traced=None if state.traced is None else state.traced[rows],
                    bound=state.bound.take(rows) if state.bound is not None and rows.size
                    else state.bound)
 

@@ -69,7 +69,7 @@ def read_stock(ingredient: str, concentration: str, tables, t_C: float,
 
 def split_name_and_quantity(text: str, where: str) -> tuple[str, str]:
     """``"NaOH 10 mol/L"`` → ("NaOH", "10 mol/L"); names may contain spaces."""
-    match = _NAME_AND_QUANTITY.match(text or "")
+    match = _NAME_AND_QUANTITY.match(text) if isinstance(text, str) else None
     if not match:
         raise RecipeError(where, f"{text!r} must be a name and an amount",
                           'e.g. "NaOH 1 mol/L" or "citric acid 0.5 mol/L"')
@@ -120,9 +120,10 @@ class TargetResult:
                  (f"  {self.ingredient:<18}{1000 * self.amount_mol_per_kg:12.5g} mmol per kg "
                   f"of water ({grams:.5g} g/kg)")]
         if self.stock is not None and self.stock_mL_per_kg_water is not None:
-            lines.append(f"  as {self.stock.label:<15}{self.stock_mL_per_kg_water:12.5g} mL per "
-                         f"kg of the recipe's water ({self.stock_mL_per_kg_water * self.recipe_water_kg:.5g} "
-                         f"mL for the recipe as written)")
+            millilitres = self.stock_mL_per_kg_water * self.recipe_water_kg
+            lines.append(f"  as {self.stock.label:<15}{millilitres:12.5g} mL added to the recipe "
+                         f"as written (an [[add]] of that volume; "
+                         f"{self.stock_mL_per_kg_water:.5g} mL per kg of its water)")
         lines.append(f"  pH re-solved      {self.pH:12.6f}")
         lines += [f"  - {c}" for c in self.cautions]
         return "\n".join(lines) + "\n\n" + r.report()

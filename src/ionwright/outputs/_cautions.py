@@ -15,12 +15,20 @@ import numpy as np
 
 from ._derived import charge_balance_error_percent
 from ..chemistry._formula import Formula, parse_formula
+from ..chemistry._water import log10_kw
 from ..core._system import log10_k_at
 from ..notices import CAUTION, DATA_QUALITY, Notice
 from ._speciation import Speciation
 
-CORROSIVE_LOW_PH = 2.0     # 40 CFR 261.22(a)(1): pH ≤ 2 or ≥ 12.5 is corrosive
+#: 40 CFR 261.22(a)(1) (revised as of July 1, 2019; re-read): an aqueous waste with a pH
+#: ≤ 2 or ≥ 12.5, by a pH meter using SW-846 Method 9040C, is corrosive.
+CORROSIVE_LOW_PH = 2.0
 CORROSIVE_HIGH_PH = 12.5
+#: Method 9040C reads the pH of the sample at 25 °C  # from memory
+CORROSIVE_REFERENCE_C = 25.0
+CORROSIVE_RULE = ("the US EPA corrosivity characteristic (40 CFR 261.22) is pH ≤ 2 or ≥ 12.5 "
+                  "measured at 25 °C; judged here on the hydrogen- and hydroxide-ion "
+                  "activities it implies, which hold at any temperature (common practice)")
 #: Share of a total present as the volatile acid (H2S, HCN) worth a caution: 1 %, which
 #: for sulfide (pKa ≈ 7) is below pH ≈ 9 and for cyanide (pKa ≈ 9.2) below pH ≈ 11.
 VOLATILE_SHARE = 0.01
@@ -33,29 +41,19 @@ DEFER = "follow your site's safety rules, local codes and licensed practice"
 _VOLATILE = (("H2S", "sulfide", "hydrogen sulfide"), ("HCN", "cyanide", "hydrogen cyanide"))
 _HYPOCHLORITE = (parse_formula("ClO-"), parse_formula("HClO"))
 _AMMONIA = parse_formula("NH3")
-
-
-def is_corrosive(ph: np.ndarray | float) -> np.ndarray | bool:
-    """Whether a pH counts as corrosive (40 CFR 261.22), for one pH or an array of them."""
-    return (ph <= CORROSIVE_LOW_PH) | (ph >= CORROSIVE_HIGH_PH)
-
-
-def corrosive_notice(ph: float | None = None) -> Notice:
-    """The caution for a corrosive pH (*ph* None: the text shared by many samples)."""
-    which = "" if ph is None else f" {ph:.2f} is corrosive"
-    return Notice(CAUTION, "corrosive-ph",
-                  f"CAUTION: {'corrosive pH' if ph is None else 'pH' + which} (pH ≤ "
-                  f"{CORROSIVE_LOW_PH:g} or ≥ {CORROSIVE_HIGH_PH:g}, US EPA 40 CFR 261.22); "
-                  f"wear eye and skin protection and {DEFER}",
-                  {"pH": ph, "limits": [CORROSIVE_LOW_PH, CORROSIVE_HIGH_PH]})
+_HYDROXIDE = parse_formula("OH-")
 
 
 def cautions(result: Speciation) -> list[Notice]:
     """Every caution and data-quality notice that applies to *result*."""
     out = []
     ph = result.pH
-    if is_corrosive(ph):
-        out.append(corrosive_notice(ph))
+    hydroxide = _species(result, _HYDROXIDE)
+    log10_oh = (np.log10(result.species_activity(hydroxide)) if hydroxide is not None
+                else np.nan)
+    corrosive = corrosive_caution(-ph, log10_oh, ph, result.temperature_C)
+    if corrosive is not None:
+        out.append(corrosive)
     for formula, parent, gas in _VOLATILE:
         found = _share(result, parse_formula(formula))
         if found is not None and found[0] >= VOLATILE_SHARE:
@@ -117,6 +115,39 @@ def _balanced_by_protons(result: Speciation) -> list[Notice]:
                    f"charge): the computed pH {result.pH:.2f} reflects a missing or "
                    f"mismeasured ion, not the sample; give the measured pH (and alkalinity), "
                    f"or check the analysis", {"share_percent": share, "protons": given.value})]
+
+
+def corrosive_limits() -> tuple[float, float]:
+    """log10 a(H+) and log10 a(OH-) at or above which a solution is corrosive.
+
+    The regulatory criterion is a pH measured at 25 °C; the pH of the same solution moves
+    with temperature (water's Kw), the activity of its acid or base hardly does. The
+    limits are therefore the activities at pH 2 and at pH 12.5 at 25 °C, and the caution
+    holds at any temperature (0.1 mol/kg NaOH is corrosive at 60 °C, where its pH is 11.9).
+    """
+    return -CORROSIVE_LOW_PH, CORROSIVE_HIGH_PH + float(log10_kw(CORROSIVE_REFERENCE_C))
+
+
+def corrosive_text() -> str:
+    """The corrosive caution's advice, shared by a single result and every batch row."""
+    return f"{CORROSIVE_RULE}; wear eye and skin protection and {DEFER}"
+
+
+def corrosive_caution(log10_h: float, log10_oh: float, ph: float, t_C: float) -> Notice | None:
+    """The corrosive caution for a solution with these log10 activities, or None."""
+    h_limit, oh_limit = corrosive_limits()
+    if log10_h >= h_limit:
+        what = (f"hydrogen-ion activity {10 ** log10_h:.3g} is at or above {10 ** h_limit:.3g}, "
+                f"that of pH {CORROSIVE_LOW_PH:g}")
+    elif np.isfinite(log10_oh) and log10_oh >= oh_limit:
+        what = (f"hydroxide activity {10 ** log10_oh:.3g} is at or above {10 ** oh_limit:.3g}, "
+                f"that of pH {CORROSIVE_HIGH_PH:g} at {CORROSIVE_REFERENCE_C:g} °C")
+    else:
+        return None
+    return Notice(CAUTION, "corrosive-ph",
+                  f"CAUTION: corrosive at pH {ph:.2f} ({t_C:g} °C): {what}; {corrosive_text()}",
+                  {"pH": ph, "temperature_C": t_C,
+                   "limits": [CORROSIVE_LOW_PH, CORROSIVE_HIGH_PH]})
 
 
 def _species(result: Speciation, formula: Formula) -> str | None:

@@ -43,7 +43,10 @@ def register(subparsers) -> None:
         description="Speciate every row of a table of samples (ingredient molalities, or "
         "analyses with units in the headers, e.g. 'Ca [mg/L]'), writing the input columns "
         "followed by pH, ionic strength, species, saturation indices, status and message. "
-        "Rows are never dropped; the exit status is 1 if any row failed.")
+        "Rows are never dropped; the exit status is 1 if any row failed. The output is "
+        "written only when complete (an interrupted run leaves none). Parquet files need "
+        "pip install \"ionwright[parquet]\"; the progress bar on a terminal needs "
+        "\"ionwright[progress]\"; --engine dask needs \"ionwright[distributed]\".")
     parser.add_argument("input", help="input table (.csv or .parquet)")
     parser.add_argument("-o", "--output", required=True, help="output table (.csv or .parquet)")
     parser.add_argument("--species", nargs="+", default=None, metavar="NAME",
@@ -81,13 +84,16 @@ def run(args: argparse.Namespace) -> int:
                           "give a number of threads, or leave it out to use the cores")
     started = time.perf_counter()
     counts = {"rows": 0, CONVERGED: 0, NOT_CONVERGED: 0, INVALID: 0}
+    from ...batch._run import text_columns_of
+
     chunks = _read_chunks(source, args.chunk_rows, args.label)
     first = next(chunks)
+    text = text_columns_of(first)   # read once: every chunk reads its columns alike
     options = dict(species=args.species, model=args.model, tables=args.tables,
-                   labels=[*args.label, *_text_columns(first)])
+                   labels=args.label, text_columns=text)
     try:
         with _stopped_by_signals(), _Progress(source, args.chunk_rows) as bar, \
-                _Writer(target, options["labels"]) as writer:
+                _Writer(target, [*args.label, *text], inputs=list(first.columns)) as writer:
             for solved in _solved_chunks(_chain(first, chunks), options, args.engine,
                                          args.address, args.threads):
                 writer.write(solved)
@@ -119,11 +125,12 @@ def run(args: argparse.Namespace) -> int:
 def _solved_chunks(chunks: Iterator[Any], options: dict, engine: str,
                    address: str | None, threads: int | None = None) -> Iterator[Any]:
     """Each chunk solved, in input order: here, or a few at a time on a dask cluster."""
-    from ...batch._run import dask_client, solve_batch, solve_partition
+    from ...batch._run import _check_frame, _solve_frame, dask_client, solve_partition
 
     if engine == "local":
         for chunk in chunks:
-            yield solve_batch(chunk, threads=threads, **options)
+            _check_frame(chunk)
+            yield _solve_frame(chunk, threads=threads, **options)
         return
     options = {**options, "threads": 1}  # the cluster's workers are the parallelism
     with dask_client(address) as client:
@@ -140,16 +147,6 @@ def _solved_chunks(chunks: Iterator[Any], options: dict, engine: str,
 def _chain(first: Any, rest: Iterator[Any]) -> Iterator[Any]:
     yield first
     yield from rest
-
-
-def _text_columns(frame) -> list[str]:
-    """Columns of the first chunk that hold text (sample ids, sites): carried through as
-    labels in every chunk, so a later chunk cannot read them differently."""
-    import pandas as pd
-
-    return [str(c) for c in frame.columns if not pd.api.types.is_numeric_dtype(frame[c])
-            and not pd.api.types.is_bool_dtype(frame[c])
-            and pd.to_numeric(frame[c], errors="coerce").isna().all() and frame[c].notna().any()]
 
 
 def _read_chunks(path: Path, rows: int, labels: Sequence[str] = ()) -> Iterator[Any]:
@@ -193,6 +190,7 @@ def _csv_chunks(path: Path, rows: int, labels: Sequence[str], where: str) -> Ite
 
     start = 0
     try:
+        _check_header(path, where)
         reader = pd.read_csv(path, chunksize=rows, encoding="utf-8",
                              dtype={label: str for label in labels})
         for chunk in reader:
@@ -209,6 +207,22 @@ def _csv_chunks(path: Path, rows: int, labels: Sequence[str], where: str) -> Ite
                           "the first line names the columns, e.g. sample,NaCl,CaCl2") from None
     except pd.errors.ParserError as exc:
         raise _csv_problem(str(exc), where) from None
+
+
+def _check_header(path: Path, where: str) -> None:
+    """Refuse a header that names a column twice (pandas would rename the second copy and
+    read it as an unknown ingredient)."""
+    import csv
+    from collections import Counter
+
+    with open(path, encoding="utf-8-sig", newline="") as handle:
+        header = next(csv.reader(handle), [])
+    twice = [name for name, count in Counter(h.strip() for h in header).items()
+             if count > 1 and name]
+    if twice:
+        raise RecipeError(where, f"its header names column(s) {', '.join(map(repr, twice))} "
+                          "more than once", "rename or drop the copies: each column is read "
+                          "once")
 
 
 def _csv_problem(text: str, where: str) -> RecipeError:
@@ -275,17 +289,19 @@ class _Writer:
 
     Rows go to a temporary file in the output's folder, renamed to the output name when
     the writer closes without an error; on an error or interruption it is deleted.
-    Columns named in *text* (labels) are always written as text.
+    Columns named in *text* (labels) are always written as text; so is every input
+    column of a CSV output, so that a cell is written as it was read even when a later
+    chunk holds text where the first held numbers.
     """
 
-    def __init__(self, path: Path, text: Sequence[str] = ()) -> None:
+    def __init__(self, path: Path, text: Sequence[str] = (), inputs: Sequence[str] = ()) -> None:
         self.path = path
         self.partial = path.with_name(f".{path.name}.partial-{os.getpid()}{path.suffix}")
         self.parquet = path.suffix.lower() == ".parquet"
         self.started = False
         self.writer: Any = None             # pyarrow's Parquet or CSV writer, once opened
         self.schema = None
-        self.text = set(text)
+        self.text = set(text) | (set() if self.parquet else set(inputs))
         self.numeric: dict[str, bool] = {}
 
     def __enter__(self) -> "_Writer":

@@ -22,6 +22,9 @@ def register(subparsers) -> None:
     parser.add_argument("--to", help='titrant volume to add up to, e.g. "50 mL"')
     parser.add_argument("--sample", help='volume (or mass) of the sample titrated, e.g. '
                         '"25 mL" (default: the recipe as made)')
+    parser.add_argument("--hold-pH", dest="hold_pH", action="store_true",
+                        help="with --temperature: hold a fixed or measured pH at every "
+                        "temperature (default: the closed sample is warmed, its pH follows)")
     parser.add_argument("--points", type=int, default=101, help="number of points (101)")
     parser.add_argument("--species", help="comma-separated species to tabulate")
     parser.add_argument("--beyond-range", action="store_true",
@@ -29,8 +32,11 @@ def register(subparsers) -> None:
     parser.add_argument("--json", action="store_true", help="print JSON instead of CSV")
     parser.add_argument("--plot", metavar="FILE", help="also draw a figure (.png or .svg)")
     parser.add_argument("--plot-kind", default="auto",
-                        choices=("auto", "titration", "distribution", "saturation",
-                                 "capacity"), help="which figure (default: by sweep)")
+                        choices=("auto", "titration", "pH", "distribution", "saturation",
+                                 "capacity"),
+                        help="which figure (default: by sweep: a titration curve, pH "
+                        "against dilution, saturation indices against temperature, or the "
+                        "species against a held pH)")
     parser.add_argument("--component", help="component whose species --plot-kind "
                         "distribution draws (default: the first besides H+)")
     parser.set_defaults(run=run)
@@ -47,10 +53,13 @@ def run(args: argparse.Namespace) -> int:
               if args.species else ()}
     if args.add and not args.to:
         raise RecipeError("--to", "a titration needs --to", 'e.g. --to "50 mL"')
+    if args.hold_pH and not args.temperature:
+        raise RecipeError("--hold-pH", "applies to temperature sweeps only",
+                          "use it with --temperature A:B, or leave it out")
     if args.plot:
         check_plot_path(args.plot)
     flags = {"titrant": "--add", "to": "--to", "sample": "--sample", "ratio": "--dilute",
-             "points": "--points", "species": "--species",
+             "points": "--points", "species": "--species", "beyond_range": "--beyond-range",
              "span": "--temperature" if args.temperature else "--pH"}
     with as_flags(flags):
         if args.add:
@@ -59,7 +68,8 @@ def run(args: argparse.Namespace) -> int:
         elif args.dilute:
             result = sweeps.dilution(args.recipe, args.dilute, **common)
         elif args.temperature:
-            result = sweeps.temperature_series(args.recipe, args.temperature, **common)
+            result = sweeps.temperature_series(args.recipe, args.temperature,
+                                               hold_pH=args.hold_pH, **common)
         else:
             result = sweeps.pH_series(args.recipe, args.pH, **common)
     print(json.dumps(result.to_dict(), indent=2, ensure_ascii=False) if args.json
@@ -69,11 +79,14 @@ def run(args: argparse.Namespace) -> int:
             print(f"# equivalence point: {ep['titrant_mL']:.4g} mL, pH {ep['pH']:.3f}",
                   file=sys.stderr)
         for w in result.warnings:
-            print(f"# warning: {w}", file=sys.stderr)
+            if w != f"the sweep {result.stopped}":   # said once, below
+                print(f"# warning: {w}", file=sys.stderr)
     if args.plot and result.values.size:
-        _plot(result, args)
+        with as_flags({"kind": "--plot-kind"}):
+            _plot(result, args)
     if result.stopped:
-        print(f"ionwright: sweep {result.stopped}", file=sys.stderr)
+        stopped = result.stopped.replace("beyond_range=True", "--beyond-range")
+        print(f"ionwright: sweep {stopped}", file=sys.stderr)
         return 1
     return 0
 
@@ -83,16 +96,18 @@ def _plot(result, args) -> None:
 
     kind = args.plot_kind
     if kind == "auto":
-        kind = {"titration": "titration", "temperature": "saturation",
-                "pH": "distribution"}.get(result.kind, "capacity")
+        kind = {"titration": "titration", "dilution": "pH", "pH": "distribution",
+                "temperature": "saturation" if result.saturation else "pH"}[result.kind]
     if kind == "titration":
         figure = plots.titration_curve(result)
+    elif kind == "pH":
+        figure = plots.ph_curve(result)
     elif kind == "distribution":
         component = args.component or next(c for c in result.bench.system.components
                                            if c != "H+")
         figure = plots.species_distribution(result, component)
     elif kind == "saturation":
-        figure = plots.saturation_vs_temperature(result)
+        figure = plots.saturation_curve(result)
     else:
         figure = plots.buffer_capacity_curve(result)
     plots.save(figure, args.plot)
