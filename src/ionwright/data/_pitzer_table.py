@@ -13,7 +13,7 @@ import sys
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, replace
 from functools import lru_cache
-from importlib.resources import files
+from ._bundled import bundled_folder
 from types import MappingProxyType
 from typing import Any, ClassVar
 
@@ -148,7 +148,7 @@ def merged_parameters(tables: Sequence[PitzerParameters]) -> PitzerParameters:
 @lru_cache(maxsize=1)
 def bundled_parameters() -> PitzerParameters:
     """The parameter table shipped with ionwright (read once, on first use)."""
-    resource = files("ionwright") / "constants" / BUNDLED_FILE
+    resource = bundled_folder() / BUNDLED_FILE
     return parse_parameters(resource.read_text(encoding="utf-8"),
                             origin=f"ionwright/constants/{BUNDLED_FILE}")
 

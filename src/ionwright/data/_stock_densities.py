@@ -21,7 +21,7 @@ import sys
 from collections.abc import Mapping
 from dataclasses import dataclass
 from functools import lru_cache
-from importlib.resources import files
+from ._bundled import bundled_folder
 from types import MappingProxyType
 from typing import Any
 
@@ -141,7 +141,7 @@ def parse_stock_densities(text: str, origin: str) -> Mapping[Formula, StockDensi
 @lru_cache(maxsize=1)
 def bundled_stock_densities() -> Mapping[Formula, StockDensityTable]:
     """The stock-density tables shipped with ionwright (read once, on first use)."""
-    resource = files("ionwright") / "constants" / BUNDLED_FILE
+    resource = bundled_folder() / BUNDLED_FILE
     return parse_stock_densities(resource.read_text(encoding="utf-8"),
                                  origin=f"ionwright/constants/{BUNDLED_FILE}")
 

@@ -2,9 +2,8 @@
 
 from __future__ import annotations
 
-from importlib.resources import files
-
 from ..activity import BUILTIN_MODELS
+from ..data._bundled import bundled_folder
 from ..data._parameter_tables import ParameterTable
 from .hookspecs import hookimpl
 
@@ -16,14 +15,14 @@ BUNDLED_PARAMETER_TABLES = {"pitzer": "pitzer"}
 @hookimpl
 def register_tables():
     """The bundled tables, as package resources read when first asked for."""
-    folder = files("ionwright") / "constants"
+    folder = bundled_folder()
     return {name: folder / f"{name}.toml" for name in BUNDLED_TABLES}
 
 
 @hookimpl
 def register_parameter_tables():
     """The bundled parameter tables (Pitzer), as package resources read when first used."""
-    folder = files("ionwright") / "constants"
+    folder = bundled_folder()
     return {name: ParameterTable(model, folder / f"{name}.toml")
             for name, model in BUNDLED_PARAMETER_TABLES.items()}
 
