@@ -5,12 +5,11 @@ from __future__ import annotations
 
 import subprocess
 import sys
-from importlib.resources import files
-
 import pytest
 
 import ionwright
 from ionwright.chemistry._ingredients import makeup
+from ionwright.data._bundled import bundled_folder
 
 
 @pytest.fixture(scope="module")
@@ -19,7 +18,7 @@ def tables():
 
 
 def test_metals_is_a_bundled_table_that_checks_clean():
-    path = files("ionwright") / "constants" / "metals.toml"
+    path = bundled_folder() / "metals.toml"
     done = subprocess.run([sys.executable, "-m", "ionwright", "tables", "check", str(path)],
                           capture_output=True, text=True)
     assert done.returncode == 0, done.stdout + done.stderr
