@@ -44,8 +44,13 @@ from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
 from ..activity._validity import TOLERANCE_PERCENT, exceeded_rows
 from ..core._system import (PROTON, WATER, ChemicalSystem, compile_system, constant_notice,
                             constant_outside)
-from ..inputs._recipe import DEFAULT_TABLES, MOLALITY_CEILING
-from ..engine._totals import negative_totals
+from ..chemistry._density import Solute, ingredient_solute, volume_L_per_kg_water
+from ..inputs._recipe import DEFAULT_TABLES, MOLALITY_CEILING, Recipe, solution_of
+from ..engine._totals import component_totals, negative_totals
+from ..outputs._solved_samples import SolvedSamples
+from ._derived_columns import DerivedOptions, DerivedTable, derived_headers, derived_options
+from ..outputs._cautions import CHARGE_BALANCE_LIMIT
+from ..outputs._derived import TDS_AUTO
 from ..core._newton.numerics import RESIDUAL_TOLERANCE
 from ..status import CONVERGED, INVALID
 from ..chemistry._constants import LN10
@@ -102,15 +107,19 @@ class Plan:
     species: tuple[str, ...]
     solids: tuple[str, ...]
     table_names: tuple[str, ...] = DEFAULT_TABLES
+    derived: DerivedOptions = DerivedOptions()
 
     def output_columns(self) -> list[str]:
-        return [PH_COLUMN, IONIC_STRENGTH_COLUMN, *map(species_column, self.species),
+        return [PH_COLUMN, IONIC_STRENGTH_COLUMN,
+                *derived_headers(self.components, self.derived),
+                *map(species_column, self.species),
                 *map(saturation_column, self.solids), STATUS_COLUMN, MESSAGE_COLUMN]
 
 
 def plan_columns(headers: Sequence[str], tables: TableSet, species: Sequence[str] | None = None,
                  labels: Iterable[str] = (), text_columns: Iterable[str] = (),
-                 ion_pairs: IonPairSet = FORMS_EVERY_SPECIES) -> Plan:
+                 ion_pairs: IonPairSet = FORMS_EVERY_SPECIES,
+                 derived: DerivedOptions = DerivedOptions()) -> Plan:
     """Read every header; *species* None means every species the columns can form (those
     the activity model's *ion_pairs* set forms).
 
@@ -134,7 +143,7 @@ def plan_columns(headers: Sequence[str], tables: TableSet, species: Sequence[str
                 raise UnknownNameError("species", name, known,
                                        "`ionwright tables show species` lists them")
         chosen = tuple(tables.species_name(name) for name in species)
-    plan = Plan(columns, widest.components, tuple(chosen), solids)
+    plan = Plan(columns, widest.components, tuple(chosen), solids, derived=derived)
     clash = sorted(set(plan.output_columns()) & {c.header for c in columns})
     if clash:
         raise RecipeError("batch input", f"column(s) {', '.join(map(repr, clash))} clash with "
@@ -200,6 +209,8 @@ class Samples:
     temperature: np.ndarray       # (n,)
     fixed_ph: np.ndarray          # (n,) NaN where free
     problem: list[str]            # (n,) "" or why the row is invalid
+    water_kg_per_L: np.ndarray    # (n,) of the row's solution (given or estimated density)
+    analysis: np.ndarray          # (n,) bool: rows read as water analyses
 
 
 def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
@@ -268,20 +279,36 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         for comp, nu in makeup(col.key, tables).per_mole.items():
             if comp in col_of:
                 totals[:, col_of[comp]] += nu * amount
+    water = 1.0 / volume_L_per_kg_water(
+        [_solute(c.key, tables) for c in plain],
+        np.stack([np.nan_to_num(values[c.header]) for c in plain], axis=1)
+        if plain else np.zeros((n, 0)), temperature)
+    analysis = np.zeros(n, dtype=bool)
     for r in np.flatnonzero(by_recipe):
         if problem[r]:
             continue
         try:
-            row_totals, t, ph = _recipe_row(plan, values, int(r), tables, model, registry)
+            recipe = _recipe_row(plan, values, int(r), tables, model, registry)
         except IonwrightError as exc:
             problem[r] = _row_message(exc, plan)
             continue
+        row_totals, _ = component_totals(recipe, tables)
         totals[r] = [row_totals.get(c, 0.0) for c in comps]
-        temperature[r] = t
-        fixed_ph[r] = ph
+        temperature[r] = recipe.temperature_C
+        fixed_ph[r] = recipe.fix.get("pH", math.nan)
+        water[r] = solution_of(recipe, tables).water_kg_per_L
+        analysis[r] = recipe.from_analysis
     _flag(problem, negative_totals(comps, totals),
           lambda r: "the ingredients give a negative total of a component")
-    return Samples(totals, temperature, fixed_ph, problem)
+    return Samples(totals, temperature, fixed_ph, problem, water, analysis)
+
+
+def _solute(name: str, tables: TableSet) -> Solute:
+    """What one mole of ingredient *name* weighs and occupies (for the density)."""
+    from ..chemistry._ingredients import makeup
+
+    made = makeup(name, tables)
+    return ingredient_solute(made.name, made.formula, made.per_mole, tables)
 
 
 def _flag(problem: list[str], mask: np.ndarray, message) -> None:
@@ -292,10 +319,9 @@ def _flag(problem: list[str], mask: np.ndarray, message) -> None:
 
 
 def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: TableSet,
-                model: str, registry: Registry) -> tuple[dict[str, float], float, float]:
-    """(totals, temperature, fixed pH or NaN) of row *r* read as a recipe or an analysis."""
+                model: str, registry: Registry) -> Recipe:
+    """The complete recipe of row *r* read as a recipe or an analysis."""
     from ..engine._resolve import resolve
-    from ..engine._totals import component_totals
     from ..inputs._recipe import read_recipe
 
     cells = {c.header: float(values[c.header][r]) for c in plan.columns if c.header in values}
@@ -321,9 +347,7 @@ def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: Ta
         data.update(temperature_C=t, dissolve=dissolve)
         if math.isfinite(ph):
             data["fix"] = {"pH": float(ph)}
-    recipe = resolve(read_recipe(data, registry), registry)
-    totals, _ = component_totals(recipe, tables)
-    return totals, recipe.temperature_C, recipe.fix.get("pH", math.nan)
+    return resolve(read_recipe(data, registry), registry)
 
 
 def _row_message(exc: IonwrightError, plan: Plan) -> str:
@@ -348,6 +372,7 @@ class Solved:
     saturation: np.ndarray        # (n, solids)
     status: np.ndarray
     message: np.ndarray           # (n,) of str
+    derived: DerivedTable
 
 
 def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: str,
@@ -356,7 +381,8 @@ def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: st
     n = samples.totals.shape[0]
     out = Solved(np.full(n, np.nan), np.full(n, np.nan),
                  np.full((n, len(plan.species)), np.nan), np.full((n, len(plan.solids)), np.nan),
-                 np.full(n, INVALID, dtype=object), np.array(samples.problem, dtype=object))
+                 np.full(n, INVALID, dtype=object), np.array(samples.problem, dtype=object),
+                 DerivedTable(n, plan.components, plan.derived))
     model = registry.model(model_name)
     proton = plan.components.index(PROTON)
     present = samples.totals > 0
@@ -405,9 +431,17 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, pla
     for j, name in enumerate(plan.species):
         out.molality[good, j] = eq.molality[ok, index[name]] if name in index else 0.0
     _saturation(system, tables, eq, ok, t, plan, out.saturation, good)
+    solved = SolvedSamples(system, tables, model, t[ok], eq.log_activity[ok], eq.molality[ok],
+                           eq.ln_gamma[ok], eq.ionic_strength[ok], eq.ln_water_activity[ok],
+                           totals[ok], samples.water_kg_per_L[good], samples.analysis[good])
+    flagged = []
+    for text, mask in out.derived.fill(good, solved):
+        over_group = np.zeros(len(rows), dtype=bool)
+        over_group[ok] = mask
+        flagged.append((text, over_group))
     out.status[rows] = status  # the solver's own word where it did not converge
     out.message[rows] = _notes(system, model, out.ph[rows], out.ionic_strength[rows], t, ok,
-                               eq.molality, _log10_hydroxide(system, tables, eq))
+                               eq.molality, _log10_hydroxide(system, tables, eq), flagged)
     for k in np.flatnonzero(~ok):
         out.message[rows[k]] = (f"the solver stopped with status {status[k]!r} after "
                                 f"{int(eq.iterations[k])} iterations (worst relative "
@@ -428,10 +462,11 @@ def _saturation(system: ChemicalSystem, tables: TableSet, eq: solver.Equilibrium
 
 
 def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: np.ndarray,
-           ok: np.ndarray, molality: np.ndarray, log10_oh: np.ndarray) -> np.ndarray:
+           ok: np.ndarray, molality: np.ndarray, log10_oh: np.ndarray,
+           flagged: Sequence[tuple[str, np.ndarray]] = ()) -> np.ndarray:
     """Per-row warnings: model range (in general and for the kinds of solution the model
     states, :mod:`ionwright.activity._validity`), corrosive pH, constants used outside
-    their range.
+    their range, and the *flagged* (text, row mask) cautions and data-quality notes.
 
     Each kind of note is a column of a flag matrix; rows sharing a pattern of flags
     share one joined message, so the text is built once per pattern, not per row.
@@ -453,6 +488,9 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
                  f"{CORROSIVE_LOW_PH:g}, or hydroxide activity at or above that of pH "
                  f"{CORROSIVE_HIGH_PH:g} at {CORROSIVE_REFERENCE_C:g} °C; {corrosive_text()}")
     flags.append(ok & ((-ph >= h_limit) | (np.nan_to_num(log10_oh, nan=-np.inf) >= oh_limit)))
+    for text, mask in flagged:
+        texts.append(text)
+        flags.append(ok & mask)
     for name, logk in system.temperature_checks():
         texts.append(constant_notice(name, logk).text)
         flags.append(ok & constant_outside(logk, t))
@@ -494,7 +532,9 @@ def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
                 model: str = "davies", tables: Sequence[str] = DEFAULT_TABLES,
                 labels: Iterable[str] = (), engine: str = "local",
                 address: str | None = None, partition_rows: int = PARTITION_ROWS,
-                threads: int | None = None, registry: Registry | None = None) -> pd.DataFrame:
+                threads: int | None = None, registry: Registry | None = None,
+                tds: str = TDS_AUTO, balance_limit: float = CHARGE_BALANCE_LIMIT,
+                ions: bool = False) -> pd.DataFrame:
     """Speciate every row of *frame*; the input columns first, then the results.
 
     Parameters
@@ -515,6 +555,15 @@ def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
         Threads of the local solve (default: the cores available, at most
         :data:`ionwright.solver.MAX_THREADS`); the dask engine solves each partition on
         one thread and leaves the parallelism to the cluster. Answers do not depend on it.
+    tds
+        What the ``TDS [mg/L]`` column holds: ``"calculated"`` (the Standard Methods
+        1030E calculated sum), ``"species-sum"`` (every dissolved species), or
+        ``"auto"`` (calculated for rows read as analyses, species sum for recipes); both
+        are also given in their own columns.
+    balance_limit
+        Charge-balance error (%) beyond which a row is flagged (default 5).
+    ions
+        Also give each component's total in mg/L and meq/L.
 
     Returns
     -------
@@ -525,7 +574,8 @@ def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
         raise UnknownNameError("engine", engine, ENGINES, f"engines: {', '.join(ENGINES)}")
     _check_frame(frame)
     options: dict[str, Any] = dict(species=None if species is None else list(species),
-                                   model=model, tables=list(tables), labels=list(labels))
+                                   model=model, tables=list(tables), labels=list(labels),
+                                   derived=derived_options(tds, balance_limit, ions))
     if engine == "dask":
         return _dask_batch(frame, {**options, "threads": 1}, address, partition_rows)
     return _solve_frame(frame, registry=registry, threads=threads, **options)
@@ -548,7 +598,8 @@ def _check_frame(frame: Any) -> None:
 def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: str,
                  tables: Sequence[str], labels: Iterable[str], threads: int | None = None,
                  registry: Registry | None = None,
-                 text_columns: Sequence[str] | None = None) -> pd.DataFrame:
+                 text_columns: Sequence[str] | None = None,
+                 derived: DerivedOptions = DerivedOptions()) -> pd.DataFrame:
     """The solve of one frame; *text_columns* None finds the columns of text in it, a list
     fixes them (the command line reads them once, from a file's first chunk, so that every
     chunk reads its columns alike)."""
@@ -562,11 +613,12 @@ def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: s
     table_set = load_tables(list(tables), registry)
     text = text_columns if text_columns is not None else text_columns_of(frame)
     plan = plan_columns([str(h) for h in frame.columns], table_set, species, labels,
-                        [str(h) for h in text], ion_pairs_of(chosen))
+                        [str(h) for h in text], ion_pairs_of(chosen), derived)
     plan.table_names = tuple(tables)
     samples = read_samples(frame, plan, table_set, model, registry)
     solved = solve_samples(samples, plan, table_set, model, registry, threads)
     results = {PH_COLUMN: solved.ph, IONIC_STRENGTH_COLUMN: solved.ionic_strength}
+    results.update(solved.derived.columns)
     for j, name in enumerate(plan.species):
         results[species_column(name)] = solved.molality[:, j]
     for j, name in enumerate(plan.solids):
