@@ -94,7 +94,7 @@ def saturation_pH(s: SolvedSamples, carbonate_alkalinity: np.ndarray) -> np.ndar
     for _, mult, logk in calcite.terms:
         log10_k_reaction = log10_k_reaction + mult * log10_k_at(logk, t)
     g = s.log10_gamma
-    with np.errstate(divide="ignore", invalid="ignore"):
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         log_ca = np.log10(s.totals[:, calcium]) + g[:, calcium]
         log_alk = np.log10(carbonate_alkalinity)
         # log10 [CO3^2-]/[HCO3-] = pH − log K(HCO3-) + log γ_HCO3 − log γ_CO3
@@ -104,7 +104,8 @@ def saturation_pH(s: SolvedSamples, carbonate_alkalinity: np.ndarray) -> np.ndar
         for _ in range(SATURATION_ROUNDS):
             share = 1.0 + 2.0 * 10.0 ** (phs + ratio_offset)
             phs = phs - (phs - uncorrected - np.log10(share)) * share
-    return np.where(ok, phs, np.nan)
+    # no pHs where the carbonate share runs away (a trace of calcium or carbonate)
+    return np.where(ok & np.isfinite(phs), phs, np.nan)
 
 
 def langelier_index(s: SolvedSamples, phs: np.ndarray) -> np.ndarray:
