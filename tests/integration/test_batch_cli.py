@@ -23,19 +23,22 @@ too-hot,0.01,0.001,8,0,130
 def test_a_file_with_bad_rows_gives_output_for_every_row(tmp_path, capsys):
     source, target = tmp_path / "in.csv", tmp_path / "out.csv"
     source.write_text(BAD_ROWS, encoding="utf-8")
-    assert main(["batch", str(source), "-o", str(target), "--chunk-rows", "2"]) == 0
+    assert main(["batch", str(source), "-o", str(target), "--chunk-rows", "2"]) == 1
     out = pd.read_csv(target)
     assert list(out["sample"]) == ["good", "empty-cell", "text", "unknown-unit", "negative",
                                    "too-hot"]
-    assert list(out["status"]) == ["converged"] + ["invalid"] * 5
+    assert list(out["status"]) == ["converged"] * 2 + ["invalid"] * 4
     named = dict(zip(out["sample"], out["message"]))
-    assert "column 'CaCl2'" in named["empty-cell"] and "empty" in named["empty-cell"]
+    assert "not analysed (blank, left out): CaCl2" in named["empty-cell"]
     assert "column 'NaCl'" in named["text"] and "not a number" in named["text"]
     assert "column 'Ca [mg/gallon]'" in named["unknown-unit"]
     assert "column 'NaCl'" in named["negative"] and "negative" in named["negative"]
     assert "column 'temperature_C'" in named["too-hot"]
-    summary = capsys.readouterr().out
-    assert "6 rows: 1 converged, 0 not converged, 5 invalid" in summary
+    said = capsys.readouterr()
+    assert "6 rows: 2 converged, 0 not converged, 4 invalid" in said.out
+    assert "1 blank cells (not analysed, left out)" in said.out
+    assert "4 row(s) are invalid" in said.err and "--accept-partial" in said.err
+    assert main(["batch", str(source), "-o", str(target), "--accept-partial"]) == 0
 
 
 def _waters(n: int) -> pd.DataFrame:
@@ -125,7 +128,7 @@ def test_a_label_column_reads_alike_in_every_chunk(tmp_path):
     out = pd.read_csv(target, dtype={"lot": str})
     assert list(out["lot"]) == ["17", "18", "B7", "B8"]
     assert list(out["status"]) == ["converged"] * 4
-    assert main(["batch", str(source), "-o", str(target), "--chunk-rows", "2"]) == 0
+    assert main(["batch", str(source), "-o", str(target), "--chunk-rows", "2"]) == 1
     out = pd.read_csv(target, dtype={"lot": str})
     assert list(out["status"]) == ["invalid"] * 4      # the same verdict in both chunks
     assert "label" in out["message"][0] and "'B7'" in out["message"][2]
@@ -152,3 +155,42 @@ def test_yes_no_columns_are_not_amounts(tmp_path):
     out = pd.read_csv(target)
     assert list(out["status"]) == ["invalid", "invalid"]
     assert all("yes/no" in m and "'NaCl'" in m for m in out["message"])
+
+
+SURVEY_CSV = """site,pH,Ca [mg/L],Mg [mg/L],Na [mg/L],Cl [mg/L],NO3 [mg/L as N],alkalinity [mg/L as CaCO3]
+inlet,7.6,46,8.5,12,20,<0.05,140
+bay,7.9,40,,30,40,2.1,120
+outlet,8.1,30,5,10,15,<0.1,90
+"""
+
+
+def test_parquet_keeps_numeric_input_columns_numeric(tmp_path, capsys):
+    pytest.importorskip("pyarrow", reason="Parquet needs the parquet extra")
+    source, target = tmp_path / "in.csv", tmp_path / "out.parquet"
+    source.write_text(SURVEY_CSV, encoding="utf-8")
+    assert main(["batch", str(source), "-o", str(target)]) == 0
+    out = pd.read_parquet(target)
+    for column in ("pH", "Ca [mg/L]", "Mg [mg/L]", "NO3 [mg/L as N]"):
+        assert pd.api.types.is_float_dtype(out[column]), column
+    assert out["NO3 [mg/L as N]"].iloc[1] == 2.1
+    assert out["below detection limit"].tolist() == ["NO3 [mg/L as N] <0.05", "",
+                                                     "NO3 [mg/L as N] <0.1"]
+    assert pd.api.types.is_bool_dtype(out["charge balance flag"])
+    said = capsys.readouterr().out
+    assert "1 blank cells (not analysed, left out), 2 below a detection limit" in said
+
+
+def test_a_progress_line_at_intervals_when_stderr_is_a_file(capsys):
+    import time
+
+    from ionwright.cli._batch_progress import BatchProgress
+
+    with BatchProgress(1000, line_seconds=0.05) as bar:
+        bar(250)
+        time.sleep(0.3)
+        bar(600)
+        time.sleep(0.2)
+    lines = [line for line in capsys.readouterr().err.splitlines() if line]
+    assert len(lines) >= 3
+    assert lines[0].startswith("ionwright batch: 250 rows of 1,000 (25 %)")
+    assert "600 rows of 1,000 (60 %)" in lines[-1] and "rows/s" in lines[-1]

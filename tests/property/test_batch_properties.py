@@ -71,3 +71,27 @@ def test_shuffling_rows_shuffles_the_output_identically(frame, rnd):
     straight = ionwright.solve_batch(frame)
     shuffled = ionwright.solve_batch(frame.iloc[order])
     pd.testing.assert_frame_equal(shuffled, straight.iloc[order], check_exact=True)
+
+
+@settings(max_examples=20)
+@given(frames(max_rows=5))
+def test_a_batch_rows_derived_quantities_are_the_single_solves(frame):
+    """Each converged row's derived columns (alkalinity, hardness, TDS, Langelier, pCO2,
+    un-ionised ammonia, ...) equal the single solve's "derived" object of that row."""
+    from ionwright.batch._derived_columns import DERIVED_COLUMNS, PERCENT_KEYS
+    from ionwright.outputs._derived import NUMBER_KEYS
+
+    out = ionwright.solve_batch(frame)
+    for k in range(len(frame)):
+        row = out.iloc[k]
+        if row["status"] != "converged":
+            continue
+        recipe = _recipe(frame.iloc[k])
+        single = ionwright.solve(recipe).to_dict()["derived"]
+        for key in NUMBER_KEYS:
+            value, expected = row[DERIVED_COLUMNS[key]], single[key]
+            if expected is None:
+                assert np.isnan(value), key
+            else:
+                scale = 100.0 if key in PERCENT_KEYS else 1.0
+                assert value == pytest.approx(scale * expected, rel=1e-9, abs=1e-9), key

@@ -31,7 +31,7 @@ import math
 import re
 from contextlib import contextmanager
 from dataclasses import dataclass
-from typing import TYPE_CHECKING, Any, Iterable, Iterator, Mapping, Sequence
+from typing import TYPE_CHECKING, Any, Callable, Iterable, Iterator, Mapping, Sequence
 
 import numpy as np
 
@@ -44,8 +44,16 @@ from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
 from ..activity._validity import TOLERANCE_PERCENT, exceeded_rows
 from ..core._system import (PROTON, WATER, ChemicalSystem, compile_system, constant_notice,
                             constant_outside)
-from ..inputs._recipe import DEFAULT_TABLES, MOLALITY_CEILING
-from ..engine._totals import negative_totals
+from ..chemistry._density import Solute, ingredient_solute, volume_L_per_kg_water
+from ..inputs._recipe import DEFAULT_TABLES, MOLALITY_CEILING, Recipe, solution_of
+from ..engine._totals import component_totals, negative_totals
+from ..outputs._solved_samples import SolvedSamples
+from ._cells import (BELOW_LIMIT_COLUMN, DEFAULT_DETECTION_POLICY, NOT_ANALYSED_COLUMN, Gaps,
+                     check_policy, numeric_column, read_cells)
+from ._progress import ProgressCallback, RowProgress
+from ._derived_columns import DerivedOptions, DerivedTable, derived_headers, derived_options
+from ..outputs._cautions import CHARGE_BALANCE_LIMIT
+from ..outputs._derived import TDS_AUTO
 from ..core._newton.numerics import RESIDUAL_TOLERANCE
 from ..status import CONVERGED, INVALID
 from ..chemistry._constants import LN10
@@ -62,6 +70,7 @@ STATUS_COLUMN, MESSAGE_COLUMN = "status", "message"
 PH_COLUMN = "solved pH"
 IONIC_STRENGTH_COLUMN = "ionic strength [mol/kg]"
 TEMPERATURE_NAMES = ("temperature_C", "temperature [C]", "temperature [°C]")
+BALANCE_COLUMN = "balance_on"
 ENGINES = ("local", "dask")
 PARTITION_ROWS = 65_536        # rows per task when the work is spread over a cluster
 LOCAL_WORKERS = 2              # worker processes of the default local dask cluster
@@ -86,7 +95,7 @@ class Column:
     """What one input column means: its kind, key and unit, or what is wrong with it."""
 
     header: str
-    kind: str                     # ingredient, amount, analysis, pH, temperature, label
+    kind: str       # ingredient, amount, analysis, pH, temperature, balance_on, label
     key: str = ""                 # ingredient name or analysis key
     unit: str = ""
     components: tuple[str, ...] = ()   # components the column can bring
@@ -102,15 +111,20 @@ class Plan:
     species: tuple[str, ...]
     solids: tuple[str, ...]
     table_names: tuple[str, ...] = DEFAULT_TABLES
+    derived: DerivedOptions = DerivedOptions()
 
     def output_columns(self) -> list[str]:
-        return [PH_COLUMN, IONIC_STRENGTH_COLUMN, *map(species_column, self.species),
-                *map(saturation_column, self.solids), STATUS_COLUMN, MESSAGE_COLUMN]
+        return [PH_COLUMN, IONIC_STRENGTH_COLUMN,
+                *derived_headers(self.components, self.derived),
+                *map(species_column, self.species),
+                *map(saturation_column, self.solids), NOT_ANALYSED_COLUMN, BELOW_LIMIT_COLUMN,
+                STATUS_COLUMN, MESSAGE_COLUMN]
 
 
 def plan_columns(headers: Sequence[str], tables: TableSet, species: Sequence[str] | None = None,
                  labels: Iterable[str] = (), text_columns: Iterable[str] = (),
-                 ion_pairs: IonPairSet = FORMS_EVERY_SPECIES) -> Plan:
+                 ion_pairs: IonPairSet = FORMS_EVERY_SPECIES,
+                 derived: DerivedOptions = DerivedOptions()) -> Plan:
     """Read every header; *species* None means every species the columns can form (those
     the activity model's *ion_pairs* set forms).
 
@@ -134,7 +148,7 @@ def plan_columns(headers: Sequence[str], tables: TableSet, species: Sequence[str
                 raise UnknownNameError("species", name, known,
                                        "`ionwright tables show species` lists them")
         chosen = tuple(tables.species_name(name) for name in species)
-    plan = Plan(columns, widest.components, tuple(chosen), solids)
+    plan = Plan(columns, widest.components, tuple(chosen), solids, derived=derived)
     clash = sorted(set(plan.output_columns()) & {c.header for c in columns})
     if clash:
         raise RecipeError("batch input", f"column(s) {', '.join(map(repr, clash))} clash with "
@@ -151,6 +165,8 @@ def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Colu
         return Column(header, "label")
     if header == "pH":
         return Column(header, "pH")
+    if header == BALANCE_COLUMN:
+        return Column(header, "balance_on", header)
     if header in TEMPERATURE_NAMES:
         return Column(header, "temperature")
     match = _HEADER_UNIT.match(header)
@@ -200,11 +216,16 @@ class Samples:
     temperature: np.ndarray       # (n,)
     fixed_ph: np.ndarray          # (n,) NaN where free
     problem: list[str]            # (n,) "" or why the row is invalid
+    water_kg_per_L: np.ndarray    # (n,) of the row's solution (given or estimated density)
+    analysis: np.ndarray          # (n,) bool: rows read as water analyses
+    gaps: Gaps                    # blank cells and values below a detection limit
 
 
 def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
-                 registry: Registry) -> Samples:
-    """Validate every cell and turn each valid row into component totals."""
+                 registry: Registry, detection_limit: str = DEFAULT_DETECTION_POLICY
+                 ) -> Samples:
+    """Validate every cell and turn each valid row into component totals; blank cells and
+    values below a detection limit are read as :mod:`._cells` says."""
     import pandas as pd
 
     n = len(frame)
@@ -215,23 +236,30 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
     temperature = np.full(n, DEFAULT_TEMPERATURE_C)
     fixed_ph = np.full(n, np.nan)
     values: dict[str, np.ndarray] = {}
+    gaps = Gaps(n, detection_limit)
+    balance = [""] * n
     for k, col in enumerate(plan.columns):
         if col.kind == "label":
             continue
         raw = frame.iloc[:, k]
+        if col.kind == "balance_on":
+            balance = _balance_cells(raw, problem)
+            continue
         if pd.api.types.is_bool_dtype(raw):  # yes/no values are no amount
             _flag(problem, raw.notna().to_numpy(), lambda r: f"column {col.header!r}: "
                   f"{raw.iloc[r]!r} is a yes/no value, not a number (name a column to carry "
                   "through unread as a label)")
-        numbers = pd.to_numeric(raw, errors="coerce").to_numpy(dtype=float)
-        empty = raw.isna().to_numpy().copy()
-        if not pd.api.types.is_numeric_dtype(raw):
-            empty |= raw.astype(str).str.strip().eq("").to_numpy(dtype=bool)
-        text = ~empty & np.isnan(numbers)
-        _flag(problem, empty & (col.kind != "pH"), lambda r: f"empty cell in column "
-              f"{col.header!r}; give a number (0 when nothing was added or found)")
-        _flag(problem, text, lambda r: f"column {col.header!r}: {raw.iloc[r]!r} is not a number")
-        bad = ~empty & ~text & ~np.isfinite(numbers)
+        cells = read_cells(raw, detection_limit)
+        numbers, empty = cells.numbers, cells.blank
+        if col.kind in ("pH", "temperature"):
+            _flag(problem, cells.below, lambda r: f"column {col.header!r}: {raw.iloc[r]!r} "
+                  f"is a detection limit, not a {col.kind}")
+        else:
+            gaps.add(col.header, cells)
+        _flag(problem, cells.unreadable, lambda r: f"column {col.header!r}: {raw.iloc[r]!r} "
+              "is not a number (leave the cell blank when it was not analysed, or write "
+              "'<0.05' for below a detection limit of 0.05)")
+        bad = ~empty & ~cells.unreadable & ~np.isfinite(numbers)
         _flag(problem, bad, lambda r: f"column {col.header!r}: {numbers[r]!r} is not finite")
         if col.problem:  # an unreadable column spoils every row that uses it
             _flag(problem, ~empty & (numbers != 0), lambda r: f"column {col.header!r}: "
@@ -248,6 +276,7 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
                   lambda r: f"column {col.header!r}: {numbers[r]:g} °C is outside "
                   f"{lo:g}–{hi:g} °C")
             temperature = np.where(np.isfinite(numbers), numbers, DEFAULT_TEMPERATURE_C)
+            gaps.note(empty, f"temperature not given: {DEFAULT_TEMPERATURE_C:g} °C assumed")
         else:
             _flag(problem, numbers < 0, lambda r: f"column {col.header!r}: {numbers[r]:g} is "
                   "negative; amounts must be ≥ 0")
@@ -258,7 +287,7 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         values[col.header] = numbers
     plain = [c for c in plan.columns if c.kind == "ingredient" and not c.problem]
     converted = [c for c in plan.columns if c.kind in ("amount", "analysis")]
-    by_recipe = np.zeros(n, dtype=bool)
+    by_recipe = np.array([bool(b) for b in balance], dtype=bool)
     for col in converted:
         by_recipe |= np.nan_to_num(values[col.header]) > 0
     from ..chemistry._ingredients import makeup
@@ -268,20 +297,53 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         for comp, nu in makeup(col.key, tables).per_mole.items():
             if comp in col_of:
                 totals[:, col_of[comp]] += nu * amount
+    water = 1.0 / volume_L_per_kg_water(
+        [_solute(c.key, tables) for c in plain],
+        np.stack([np.nan_to_num(values[c.header]) for c in plain], axis=1)
+        if plain else np.zeros((n, 0)), temperature)
+    analysis = np.zeros(n, dtype=bool)
     for r in np.flatnonzero(by_recipe):
         if problem[r]:
             continue
         try:
-            row_totals, t, ph = _recipe_row(plan, values, int(r), tables, model, registry)
+            recipe = _recipe_row(plan, values, int(r), tables, model, registry, balance[r])
         except IonwrightError as exc:
             problem[r] = _row_message(exc, plan)
             continue
+        row_totals, _ = component_totals(recipe, tables)
         totals[r] = [row_totals.get(c, 0.0) for c in comps]
-        temperature[r] = t
-        fixed_ph[r] = ph
+        temperature[r] = recipe.temperature_C
+        fixed_ph[r] = recipe.fix.get("pH", math.nan)
+        water[r] = solution_of(recipe, tables).water_kg_per_L
+        analysis[r] = recipe.from_analysis
     _flag(problem, negative_totals(comps, totals),
           lambda r: "the ingredients give a negative total of a component")
-    return Samples(totals, temperature, fixed_ph, problem)
+    return Samples(totals, temperature, fixed_ph, problem, water, analysis, gaps)
+
+
+def _balance_cells(raw, problem: list[str]) -> list[str]:
+    """The ion each row balances on ("" for none) from a ``balance_on`` column."""
+    out = []
+    for r, value in enumerate(raw.tolist()):
+        if value is None or (isinstance(value, float) and math.isnan(value)) \
+                or (isinstance(value, str) and not value.strip()):
+            out.append("")
+        elif isinstance(value, str):
+            out.append(value.strip())
+        else:
+            out.append("")
+            if not problem[r]:
+                problem[r] = (f"column {BALANCE_COLUMN!r}: {value!r} must name an ion, e.g. "
+                              "Cl (or leave it blank)")
+    return out
+
+
+def _solute(name: str, tables: TableSet) -> Solute:
+    """What one mole of ingredient *name* weighs and occupies (for the density)."""
+    from ..chemistry._ingredients import makeup
+
+    made = makeup(name, tables)
+    return ingredient_solute(made.name, made.formula, made.per_mole, tables)
 
 
 def _flag(problem: list[str], mask: np.ndarray, message) -> None:
@@ -292,10 +354,10 @@ def _flag(problem: list[str], mask: np.ndarray, message) -> None:
 
 
 def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: TableSet,
-                model: str, registry: Registry) -> tuple[dict[str, float], float, float]:
-    """(totals, temperature, fixed pH or NaN) of row *r* read as a recipe or an analysis."""
+                model: str, registry: Registry, balance_on: str = "") -> Recipe:
+    """The complete recipe of row *r* read as a recipe or an analysis (balanced on the ion
+    *balance_on* when given)."""
     from ..engine._resolve import resolve
-    from ..engine._totals import component_totals
     from ..inputs._recipe import read_recipe
 
     cells = {c.header: float(values[c.header][r]) for c in plan.columns if c.header in values}
@@ -305,10 +367,16 @@ def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: Ta
                         else f"{cells[c.header]!r} {c.unit}")
                 for c in plan.columns if c.kind in ("ingredient", "amount")
                 and cells[c.header] > 0}
-    t = next((float(cells[c.header]) for c in plan.columns if c.kind == "temperature"),
-             DEFAULT_TEMPERATURE_C)
+    t = next((float(cells[c.header]) for c in plan.columns if c.kind == "temperature"
+              and math.isfinite(cells[c.header])), DEFAULT_TEMPERATURE_C)
     ph = next((cells[c.header] for c in plan.columns if c.kind == "pH"), math.nan)
     data: dict[str, Any] = {"activity_model": model, "tables": list(plan.table_names)}
+    if balance_on:
+        if dissolve or not analysis:
+            raise RecipeError(f"column {BALANCE_COLUMN!r}", "balance_on applies to analyses "
+                              "(columns such as 'Ca [mg/L]')", "leave the cell blank for a "
+                              "row of ingredients")
+        analysis["balance_on"] = balance_on
     if analysis:
         if dissolve:
             raise RecipeError("row", "combines analysis columns with ingredient amounts",
@@ -321,9 +389,7 @@ def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: Ta
         data.update(temperature_C=t, dissolve=dissolve)
         if math.isfinite(ph):
             data["fix"] = {"pH": float(ph)}
-    recipe = resolve(read_recipe(data, registry), registry)
-    totals, _ = component_totals(recipe, tables)
-    return totals, recipe.temperature_C, recipe.fix.get("pH", math.nan)
+    return resolve(read_recipe(data, registry), registry)
 
 
 def _row_message(exc: IonwrightError, plan: Plan) -> str:
@@ -348,46 +414,65 @@ class Solved:
     saturation: np.ndarray        # (n, solids)
     status: np.ndarray
     message: np.ndarray           # (n,) of str
+    derived: DerivedTable
 
 
 def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: str,
-                  registry: Registry, threads: int | None = None) -> Solved:
-    """Solve every valid row, one batched solve per chemical system."""
+                  registry: Registry, threads: int | None = None,
+                  progress: RowProgress | None = None) -> Solved:
+    """Solve every valid row, one batched solve per chemical system, telling *progress*
+    as rows finish."""
     n = samples.totals.shape[0]
     out = Solved(np.full(n, np.nan), np.full(n, np.nan),
                  np.full((n, len(plan.species)), np.nan), np.full((n, len(plan.solids)), np.nan),
-                 np.full(n, INVALID, dtype=object), np.array(samples.problem, dtype=object))
+                 np.full(n, INVALID, dtype=object), np.array(samples.problem, dtype=object),
+                 DerivedTable(n, plan.components, plan.derived))
     model = registry.model(model_name)
     proton = plan.components.index(PROTON)
     present = samples.totals > 0
     present[:, proton] = False
     fixed = np.isfinite(samples.fixed_ph)
     valid = np.array([not p for p in samples.problem], dtype=bool)
+    progress = progress or RowProgress(n, None)
+    progress.advance(int(np.count_nonzero(~valid)))  # invalid rows need no solve
     keys = np.concatenate([present, fixed[:, None]], axis=1)
     candidates = np.flatnonzero(valid)
     if not candidates.size:
-        return out
+        return _with_gaps(out, samples.gaps)
     _, group = np.unique(_row_codes(keys[candidates]), return_inverse=True)
     order = np.argsort(group, kind="stable")
     bounds = np.flatnonzero(np.diff(group[order])) + 1
     for rows in np.split(candidates[order], bounds):
         comps = [plan.components[j] for j in np.flatnonzero(present[rows[0]])]
         system = compile_system(tables, comps, ion_pairs_of(model))
+        counter = progress.group(len(rows))
         _solve_group(system, rows, samples, plan, tables, model, bool(fixed[rows[0]]), out,
-                     threads)
+                     threads, counter.chunk)
+        counter.close()
+    return _with_gaps(out, samples.gaps)
+
+
+def _with_gaps(out: Solved, gaps: Gaps) -> Solved:
+    """*out* with each row's gaps (blank cells, values below a limit) leading its message."""
+    for r in range(len(out.message)):
+        said = gaps.message(r)
+        if said:
+            out.message[r] = f"{said}; {out.message[r]}" if out.message[r] else said
     return out
 
 
 def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, plan: Plan,
                  tables: TableSet, model, fixed: bool, out: Solved,
-                 threads: int | None = None) -> None:
+                 threads: int | None = None,
+                 on_chunk: Callable[[int], None] | None = None) -> None:
     cols = [plan.components.index(c) for c in system.components]
     totals = samples.totals[rows][:, cols]
     t = samples.temperature[rows]
     pinned = np.full(totals.shape, np.nan)
     if fixed:
         pinned[:, 0] = -samples.fixed_ph[rows]
-    eq = solver.solve(system, totals, model.bind(system.properties, t), pinned, threads=threads)
+    eq = solver.solve(system, totals, model.bind(system.properties, t), pinned, threads=threads,
+                      on_chunk=on_chunk)
     status = eq.status.copy()
     for k in np.flatnonzero(status != CONVERGED):  # retry alone, carefully
         alone = solver.solve(system, totals[k:k + 1], model.bind(system.properties, t[k:k + 1]),
@@ -405,9 +490,17 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, pla
     for j, name in enumerate(plan.species):
         out.molality[good, j] = eq.molality[ok, index[name]] if name in index else 0.0
     _saturation(system, tables, eq, ok, t, plan, out.saturation, good)
+    solved = SolvedSamples(system, tables, model, t[ok], eq.log_activity[ok], eq.molality[ok],
+                           eq.ln_gamma[ok], eq.ionic_strength[ok], eq.ln_water_activity[ok],
+                           totals[ok], samples.water_kg_per_L[good], samples.analysis[good])
+    flagged = []
+    for text, mask in out.derived.fill(good, solved):
+        over_group = np.zeros(len(rows), dtype=bool)
+        over_group[ok] = mask
+        flagged.append((text, over_group))
     out.status[rows] = status  # the solver's own word where it did not converge
     out.message[rows] = _notes(system, model, out.ph[rows], out.ionic_strength[rows], t, ok,
-                               eq.molality, _log10_hydroxide(system, tables, eq))
+                               eq.molality, _log10_hydroxide(system, tables, eq), flagged)
     for k in np.flatnonzero(~ok):
         out.message[rows[k]] = (f"the solver stopped with status {status[k]!r} after "
                                 f"{int(eq.iterations[k])} iterations (worst relative "
@@ -428,10 +521,11 @@ def _saturation(system: ChemicalSystem, tables: TableSet, eq: solver.Equilibrium
 
 
 def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: np.ndarray,
-           ok: np.ndarray, molality: np.ndarray, log10_oh: np.ndarray) -> np.ndarray:
+           ok: np.ndarray, molality: np.ndarray, log10_oh: np.ndarray,
+           flagged: Sequence[tuple[str, np.ndarray]] = ()) -> np.ndarray:
     """Per-row warnings: model range (in general and for the kinds of solution the model
     states, :mod:`ionwright.activity._validity`), corrosive pH, constants used outside
-    their range.
+    their range, and the *flagged* (text, row mask) cautions and data-quality notes.
 
     Each kind of note is a column of a flag matrix; rows sharing a pattern of flags
     share one joined message, so the text is built once per pattern, not per row.
@@ -453,6 +547,9 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
                  f"{CORROSIVE_LOW_PH:g}, or hydroxide activity at or above that of pH "
                  f"{CORROSIVE_HIGH_PH:g} at {CORROSIVE_REFERENCE_C:g} °C; {corrosive_text()}")
     flags.append(ok & ((-ph >= h_limit) | (np.nan_to_num(log10_oh, nan=-np.inf) >= oh_limit)))
+    for text, mask in flagged:
+        texts.append(text)
+        flags.append(ok & mask)
     for name, logk in system.temperature_checks():
         texts.append(constant_notice(name, logk).text)
         flags.append(ok & constant_outside(logk, t))
@@ -494,7 +591,10 @@ def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
                 model: str = "davies", tables: Sequence[str] = DEFAULT_TABLES,
                 labels: Iterable[str] = (), engine: str = "local",
                 address: str | None = None, partition_rows: int = PARTITION_ROWS,
-                threads: int | None = None, registry: Registry | None = None) -> pd.DataFrame:
+                threads: int | None = None, registry: Registry | None = None,
+                tds: str = TDS_AUTO, balance_limit: float = CHARGE_BALANCE_LIMIT,
+                ions: bool = False, detection_limit: str = DEFAULT_DETECTION_POLICY,
+                progress: ProgressCallback | None = None) -> pd.DataFrame:
     """Speciate every row of *frame*; the input columns first, then the results.
 
     Parameters
@@ -515,6 +615,23 @@ def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
         Threads of the local solve (default: the cores available, at most
         :data:`ionwright.solver.MAX_THREADS`); the dask engine solves each partition on
         one thread and leaves the parallelism to the cluster. Answers do not depend on it.
+    tds
+        What the ``TDS [mg/L]`` column holds: ``"calculated"`` (the Standard Methods
+        1030E calculated sum), ``"species-sum"`` (every dissolved species), or
+        ``"auto"`` (calculated for rows read as analyses, species sum for recipes); both
+        are also given in their own columns.
+    balance_limit
+        Charge-balance error (%) beyond which a row is flagged (default 5).
+    ions
+        Also give each component's total in mg/L and meq/L.
+    detection_limit
+        What a cell such as ``"<0.05"`` (below the detection limit) stands for:
+        ``"zero"``, ``"half"`` (default) or ``"limit"``. A blank cell is "not analysed":
+        the ion is left out and the row says so (columns ``not analysed`` and ``below
+        detection limit`` list them).
+    progress
+        Called as ``progress(done, total)`` as rows finish (from the solver's threads
+        too; the local engine reports solved chunks, the dask engine partitions).
 
     Returns
     -------
@@ -525,10 +642,15 @@ def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
         raise UnknownNameError("engine", engine, ENGINES, f"engines: {', '.join(ENGINES)}")
     _check_frame(frame)
     options: dict[str, Any] = dict(species=None if species is None else list(species),
-                                   model=model, tables=list(tables), labels=list(labels))
+                                   model=model, tables=list(tables), labels=list(labels),
+                                   derived=derived_options(tds, balance_limit, ions),
+                                   detection_limit=detection_limit)
+    check_policy(detection_limit)
     if engine == "dask":
-        return _dask_batch(frame, {**options, "threads": 1}, address, partition_rows)
-    return _solve_frame(frame, registry=registry, threads=threads, **options)
+        return _dask_batch(frame, {**options, "threads": 1}, address, partition_rows,
+                           progress)
+    return _solve_frame(frame, registry=registry, threads=threads, progress=progress,
+                        **options)
 
 
 def _check_frame(frame: Any) -> None:
@@ -548,7 +670,10 @@ def _check_frame(frame: Any) -> None:
 def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: str,
                  tables: Sequence[str], labels: Iterable[str], threads: int | None = None,
                  registry: Registry | None = None,
-                 text_columns: Sequence[str] | None = None) -> pd.DataFrame:
+                 text_columns: Sequence[str] | None = None,
+                 derived: DerivedOptions = DerivedOptions(),
+                 detection_limit: str = DEFAULT_DETECTION_POLICY,
+                 progress: ProgressCallback | None = None) -> pd.DataFrame:
     """The solve of one frame; *text_columns* None finds the columns of text in it, a list
     fixes them (the command line reads them once, from a file's first chunk, so that every
     chunk reads its columns alike)."""
@@ -562,15 +687,18 @@ def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: s
     table_set = load_tables(list(tables), registry)
     text = text_columns if text_columns is not None else text_columns_of(frame)
     plan = plan_columns([str(h) for h in frame.columns], table_set, species, labels,
-                        [str(h) for h in text], ion_pairs_of(chosen))
+                        [str(h) for h in text], ion_pairs_of(chosen), derived)
     plan.table_names = tuple(tables)
-    samples = read_samples(frame, plan, table_set, model, registry)
-    solved = solve_samples(samples, plan, table_set, model, registry, threads)
+    samples = read_samples(frame, plan, table_set, model, registry, detection_limit)
+    solved = solve_samples(samples, plan, table_set, model, registry, threads,
+                           RowProgress(len(frame), progress))
     results = {PH_COLUMN: solved.ph, IONIC_STRENGTH_COLUMN: solved.ionic_strength}
+    results.update(solved.derived.columns)
     for j, name in enumerate(plan.species):
         results[species_column(name)] = solved.molality[:, j]
     for j, name in enumerate(plan.solids):
         results[saturation_column(name)] = solved.saturation[:, j]
+    results.update(samples.gaps.columns())
     results[STATUS_COLUMN] = solved.status.astype(str)
     results[MESSAGE_COLUMN] = solved.message
     added = pd.DataFrame(results, index=frame.index)
@@ -585,7 +713,7 @@ def text_columns_of(frame: pd.DataFrame) -> list[str]:
     return [str(h) for h in frame.columns if not pd.api.types.is_numeric_dtype(frame[h])
             and not pd.api.types.is_bool_dtype(frame[h])
             and pd.to_numeric(frame[h], errors="coerce").isna().all()
-            and frame[h].notna().any()]
+            and frame[h].notna().any() and not numeric_column(frame[h])]
 
 
 def solve_partition(part: pd.DataFrame, options: Mapping[str, Any]) -> pd.DataFrame:
@@ -615,8 +743,10 @@ def dask_client(address: str | None = None) -> Iterator[Any]:
 
 
 def _dask_batch(frame: pd.DataFrame, options: Mapping[str, Any], address: str | None,
-                partition_rows: int) -> pd.DataFrame:
-    """The rows in partitions of *partition_rows*, mapped over a dask cluster, in order."""
+                partition_rows: int, progress: ProgressCallback | None = None
+                ) -> pd.DataFrame:
+    """The rows in partitions of *partition_rows*, mapped over a dask cluster, in order;
+    *progress* hears of each partition as it finishes."""
     import pandas as pd
 
     if partition_rows < 1:
@@ -625,5 +755,10 @@ def _dask_batch(frame: pd.DataFrame, options: Mapping[str, Any], address: str | 
     with dask_client(address) as client:
         if not parts:
             return _solve_frame(frame, **options)
+        from dask.distributed import as_completed
+
         futures = client.map(solve_partition, parts, options=dict(options), pure=False)
+        rows = RowProgress(len(frame), progress)
+        for done in as_completed(futures):
+            rows.advance(len(parts[futures.index(done)]))
         return pd.concat(client.gather(futures))

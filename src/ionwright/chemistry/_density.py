@@ -23,7 +23,9 @@ import math
 
 from dataclasses import dataclass
 from functools import lru_cache
-from typing import Iterable, Mapping
+from typing import Any, Iterable, Mapping, Sequence
+
+import numpy as np
 
 from ._formula import Formula, parse_formula
 from ._tableset import TableSet
@@ -160,7 +162,7 @@ def water_density(t_C: float) -> float:
     return float(water_density_kg_m3(t_C)) / 1000.0
 
 
-def solution_volume_L(water_kg: float, amounts: Iterable[tuple[Solute, float]],
+def solution_volume_L(water_kg: float, amounts: Iterable[tuple[Solute, Any]],
                       t_C: float) -> float:
     """Estimated volume (L) of *water_kg* of water holding *amounts* (mol) of solutes."""
     volume_mL = 1000.0 * water_kg / water_density(t_C)
@@ -173,4 +175,20 @@ def solution_volume_L(water_kg: float, amounts: Iterable[tuple[Solute, float]],
         if ratio > ABSURD_IONIC_STRENGTH:  # no water left: the caller reports it
             return math.inf
         volume_mL += VOLUME_SLOPE * water_kg * ratio ** 1.5
+    return volume_mL / 1000.0
+
+
+def volume_L_per_kg_water(solutes: Sequence[Solute], molalities: np.ndarray,
+                          t_C: np.ndarray) -> np.ndarray:
+    """:func:`solution_volume_L` of 1 kg of water for each row of *molalities* (n, k) of
+    the *solutes*, at the rows' temperatures *t_C* (n,): the same terms in the same
+    order, vectorised over samples (batches of plain molalities)."""
+    t = np.asarray(t_C, dtype=float)
+    volume_mL = 1000.0 / (np.asarray(water_density_kg_m3(t), dtype=float) / 1000.0)
+    strength = np.zeros(t.shape)
+    for k, solute in enumerate(solutes):
+        volume_mL = volume_mL + molalities[:, k] * solute.molar_volume
+        strength = strength + molalities[:, k] * solute.ionic_strength
+    excess = VOLUME_SLOPE * np.where(strength > 0, strength, 0.0) ** 1.5
+    volume_mL = np.where(strength > ABSURD_IONIC_STRENGTH, np.inf, volume_mL + excess)
     return volume_mL / 1000.0

@@ -46,11 +46,16 @@ def alkalinity_weights(system: ChemicalSystem, t_C: float) -> np.ndarray:
     ----------
     Dickson, A.G. (1981) Deep-Sea Res. 28A, 609–623.
     """
-    formation = system.log10_k(np.array([t_C]))[0]
+    return alkalinity_weights_at(system, np.array([t_C]))[0]
+
+
+def alkalinity_weights_at(system: ChemicalSystem, t_C: np.ndarray) -> np.ndarray:
+    """:func:`alkalinity_weights` at each temperature of *t_C* (n,): shape (n, s)."""
+    formation = system.log10_k(np.asarray(t_C, dtype=float).reshape(-1))
     nu = system.nu
-    level = np.zeros(system.n_components)
+    level = np.zeros((formation.shape[0], system.n_components))
     for j in range(1, system.n_components):
         members = series(system, j)
-        score = formation[members] - nu[members, 0] * ALKALINITY_END_POINT_PH
-        level[j] = nu[members[np.argmax(score)], 0]
-    return nu[:, 1:] @ level[1:] - nu[:, 0]
+        score = formation[:, members] - nu[members, 0] * ALKALINITY_END_POINT_PH
+        level[:, j] = nu[members[np.argmax(score, axis=1)], 0]
+    return level[:, 1:] @ nu[:, 1:].T - nu[:, 0]

@@ -38,6 +38,7 @@ and §3.2.10 (block elimination by a Schur complement).
 from __future__ import annotations
 
 import os
+from collections.abc import Callable
 from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, field
 
@@ -87,7 +88,8 @@ class Equilibrium:
 
 def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
           fixed_log10_activity: np.ndarray | None = None, *,
-          method: str = "auto", threads: int | None = None) -> Equilibrium:
+          method: str = "auto", threads: int | None = None,
+          on_chunk: Callable[[int], None] | None = None) -> Equilibrium:
     """Solve the batch: *totals* (n, c) in mol/kg, fixed log10 activities (n, c), NaN = free.
 
     *method* ``"auto"`` uses the fast path where the activity model allows it and the
@@ -96,7 +98,8 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     solved on up to *threads* threads (default :func:`default_threads`); the answers do
     not depend on it. Returns an :class:`Equilibrium`; samples that fail carry their
     status, never a silent answer. Totals of the proton component may be negative
-    (added base).
+    (added base). *on_chunk*, if given, is called with the number of samples of each chunk
+    as it finishes (from the thread that solved it), for progress reports.
     """
     if method not in METHODS:
         raise UnknownNameError("solver method", method, METHODS)
@@ -131,16 +134,21 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
         problem = Problem.build(structure, totals[rows], ln_k(rows), fixed[rows], coupling)
         _solve_chunk(problem, bound_slice(bound, rows), fast, out, rows)
 
+    def run_and_report(rows: np.ndarray) -> None:
+        run(rows)
+        if on_chunk is not None:
+            on_chunk(int(rows.size))
+
     chunks = [todo[start:start + CHUNK_SIZE] for start in range(0, todo.size, CHUNK_SIZE)]
     workers = min(threads or default_threads(), len(chunks)) if len(chunks) > 1 else 1
     if workers > 1:  # chunks are independent and write disjoint rows of `out`
         guess_plan(structure)  # built once, before the threads share it
         with ThreadPoolExecutor(workers) as pool:
-            for done in [pool.submit(run, rows) for rows in chunks]:
+            for done in [pool.submit(run_and_report, rows) for rows in chunks]:
                 done.result()
     else:
         for rows in chunks:
-            run(rows)
+            run_and_report(rows)
     if any_set(infeasible):  # report the state at the totals given, flagged
         rows = np.flatnonzero(infeasible)
         problem = Problem.build(structure, totals[rows], ln_k(rows), fixed[rows])

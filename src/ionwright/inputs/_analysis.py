@@ -146,7 +146,7 @@ def finish_analysis(fit: AnalysisFit, mixture: Mixture, fitted: Mapping[str, flo
         fix = {"pH": fit.ph}
     solution = replace(mixture.solution, conversions=tuple(conversions))
     return {"temperature_C": fit.t_C, "fix": fix, "components": tuple(totals.items()),
-            "solution": solution, "pending": None}
+            "solution": solution, "pending": None, "from_analysis": True}
 
 
 def _one_sided(totals: Mapping[str, float], tables: TableSet, where: str) -> None:

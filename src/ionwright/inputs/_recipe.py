@@ -94,6 +94,7 @@ class Recipe:
     solution: Solution | None = None
     phases: Mapping[str, Any] = field(default_factory=dict)  # raw [solids], [gases]: phases.py
     pending: AnalysisFit | Composition | None = None
+    from_analysis: bool = False      # an [analysis]: a water sample as measured
 
 
 @dataclass(frozen=True)

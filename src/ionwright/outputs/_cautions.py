@@ -18,6 +18,7 @@ from ..chemistry._formula import Formula, parse_formula
 from ..chemistry._water import log10_kw
 from ..core._system import log10_k_at
 from ..notices import CAUTION, DATA_QUALITY, Notice
+from ._solved_samples import SolvedSamples, species_share
 from ._speciation import Speciation
 
 #: 40 CFR 261.22(a)(1) (revised as of July 1, 2019; re-read): an aqueous waste with a pH
@@ -175,3 +176,30 @@ def _pressure(result: Speciation, species: str) -> str:
             log_p = np.log10(result.species_activity(species)) - log10_k_at(gas.logk, t)[0]
             return f" (about {10 ** log_p:.2g} atm over it at equilibrium)"
     return ""
+
+
+def batch_caution_flags(samples: SolvedSamples) -> list[tuple[str, np.ndarray]]:
+    """The cautions of :func:`cautions` on gases and free ammonia for every sample of a
+    batch, as (text, mask (n,)) pairs: one text per kind, so rows share their messages."""
+    out = []
+    ph = samples.pH
+    for formula, parent, gas in _VOLATILE:
+        share = species_share(samples, parse_formula(formula))
+        if share is not None:
+            out.append((f"CAUTION: {parent}: {100 * VOLATILE_SHARE:g} % or more of it is "
+                        f"dissolved {formula} ({gas}), a toxic gas that escapes from the "
+                        f"solution; acid releases more; ventilate, never acidify it, and "
+                        f"{DEFER}", np.nan_to_num(share) >= VOLATILE_SHARE))
+    hypochlorite = [samples.species_index(f) for f in _HYPOCHLORITE]
+    present = [i for i in hypochlorite if i is not None]
+    if present:
+        held = np.any(samples.molality[:, present] > 0, axis=1)
+        out.append((f"CAUTION: hypochlorite below about pH {CHLORINE_RELEASE_PH:g} releases "
+                     f"chlorine gas; never mix hypochlorite with acid, ventilate, and {DEFER}",
+                     held & (ph < CHLORINE_RELEASE_PH)))
+    ammonia = species_share(samples, _AMMONIA)
+    if ammonia is not None:
+        out.append((f"CAUTION: ammonia above pH {FREE_AMMONIA_PH:g}: much of it is free NH3, "
+                    f"which escapes as an irritant gas and is toxic to fish; ventilate and "
+                    f"{DEFER}", np.isfinite(ammonia) & (ph > FREE_AMMONIA_PH)))
+    return out

@@ -32,6 +32,7 @@ import numpy as np
 
 from ..chemistry._water import debye_huckel_A
 from ..chemistry._constants import LN10
+from ._solved_samples import SolvedSamples, samples_of_result
 
 BATES_GUGGENHEIM_BA = 1.5   # kg^½ mol^-½, the fixed B·å of the convention
 CONVENTION_MAX_IONIC_STRENGTH = 0.1  # mol/kg: where the convention is defined
@@ -47,12 +48,16 @@ def bates_guggenheim_log10_gamma_chloride(ionic_strength, t_C):
 def model_log10_gamma_chloride(result) -> float:
     """log10 γ(Cl-) that *result*'s activity model gives chloride in its solution (a
     trace of it, when the solution has none)."""
-    system = result.system
+    return float(model_log10_gamma_chloride_of(samples_of_result(result))[0])
+
+
+def model_log10_gamma_chloride_of(samples: SolvedSamples) -> np.ndarray:
+    """:func:`model_log10_gamma_chloride` of every sample of *samples*: shape (n,)."""
+    system = samples.system
     props = system.properties
-    molality = result.molality
     if CHLORIDE in props.names:
-        return float(result.log10_gamma[props.names.index(CHLORIDE)])
-    entry = result.tables.components.get(CHLORIDE)
+        return samples.log10_gamma[:, props.names.index(CHLORIDE)]
+    entry = samples.tables.components.get(CHLORIDE)
 
     def size(attr: str) -> float:
         value = getattr(entry, attr, None) if entry is not None else None
@@ -64,10 +69,11 @@ def model_log10_gamma_chloride(result) -> float:
                     tj_a=np.append(props.tj_a, size("tj_a")),
                     tj_b=np.append(props.tj_b, size("tj_b")),
                     setschenow=np.append(props.setschenow, 0.0))
-    bound = result.model.bind(props, np.array([result.temperature_C]))
-    u = np.array([np.sqrt(result.ionic_strength)])
-    ln_gamma = bound.ln_gamma(u, np.append(molality, 0.0)[None, :])
-    return float(ln_gamma[0, -1] / LN10)
+    bound = samples.model.bind(props, samples.t_C)
+    u = np.sqrt(samples.ionic_strength)
+    trace = np.zeros((samples.n, 1))
+    ln_gamma = bound.ln_gamma(u, np.concatenate([samples.molality, trace], axis=1))
+    return ln_gamma[:, -1] / LN10
 
 
 def conventional_pH(result) -> float:
@@ -76,6 +82,10 @@ def conventional_pH(result) -> float:
     Defined by the convention up to I = 0.1 mol/kg; above it the same formula is used,
     as for the physiological-strength standards (I = 0.16 mol/kg), and means less.
     """
-    convention = float(bates_guggenheim_log10_gamma_chloride(result.ionic_strength,
-                                                             result.temperature_C))
-    return result.pH - model_log10_gamma_chloride(result) + convention
+    return float(conventional_pH_of(samples_of_result(result))[0])
+
+
+def conventional_pH_of(samples: SolvedSamples) -> np.ndarray:
+    """:func:`conventional_pH` of every sample of *samples*: shape (n,)."""
+    convention = bates_guggenheim_log10_gamma_chloride(samples.ionic_strength, samples.t_C)
+    return samples.pH - model_log10_gamma_chloride_of(samples) + convention

@@ -1,165 +1,131 @@
-"""Quantities derived from a speciated solution, as water chemists report them.
+"""Quantities derived from speciated solutions, as water chemists report them: one
+assembly for a single result and for every row of a batch.
 
 The pH on the scale of the standard buffers (:mod:`._conventional_ph`), charge-balance
-error, alkalinity and hardness as CaCO3, CO2 partial pressure, the
-un-ionised ammonia fraction, total dissolved solids and the Langelier index, each from
-the species of the result and the constants of its own tables. Per-litre values use the
-recipe's solution (water per litre from its given or estimated density). A quantity
-that does not apply (no ammonia, no carbonate) is ``None``, so the keys never change.
+error, alkalinity (total and carbonate) and hardness as CaCO3, CO2 partial pressure and
+dissolved CO2, un-ionised ammonia both ways (:mod:`._derived_ammonia`), total dissolved
+solids in both conventions (:mod:`._derived_ions`), the saturation pH with the Langelier
+and Ryznar indices (:mod:`._derived_carbonate`). :func:`derived_arrays` computes them for
+n solved samples at once; :func:`derived_quantities` is the ``"derived"`` object of one
+result, the same numbers. Per-litre values use the solution's water per litre (given or
+estimated density). A quantity that does not apply (no ammonia, no carbonate) is NaN in
+arrays and ``None`` in the JSON, so the keys never change.
 """
 
 from __future__ import annotations
 
+import math
 from typing import Any
 
 import numpy as np
 
-from ._conventional_ph import conventional_pH
-from ..chemistry._formula import Formula, parse_formula
-from ..core._acid_base import alkalinity_weights
-from ..core._system import WATER, log10_k_at
+from ._conventional_ph import conventional_pH_of
+from ._derived_ammonia import (NITROGEN, activity_corrected_fraction, as_nitrogen_mg_per_L,
+                               emerson_fraction_of)
+from ._derived_carbonate import (CALCITE, alkalinity_eq_per_kg, carbonate_alkalinity_eq_per_kg,
+                                 dissolved_co2_mg_per_L, langelier_index, log10_pco2_atm,
+                                 ryznar_index, saturation_pH)
+from ._derived_ions import (CALCIUM_CARBONATE, TDS_CALCULATED, TDS_CONVENTIONS, TDS_SPECIES,
+                            charge_balance_error_percent as _charge_balance_error,
+                            hardness_mg_per_L_as_CaCO3, tds_calculated_mg_per_L,
+                            tds_species_sum_mg_per_L)
+from ._solved_samples import SolvedSamples, samples_of_result
+from ..errors import RecipeError
 
-CALCIUM_CARBONATE = parse_formula("CaCO3")
-NITROGEN = parse_formula("N")
-CALCITE = "calcite"
-_CO2 = parse_formula("CO2")
-_AMMONIA = parse_formula("NH3")
-_HARDNESS_IONS = (parse_formula("Ca2+"), parse_formula("Mg2+"))
-_BICARBONATE = parse_formula("HCO3-")
-KEYS = ("pH_standards_scale", "charge_balance_error_percent", "alkalinity_mg_per_L_as_CaCO3",
-        "hardness_mg_per_L_as_CaCO3", "log10_pCO2_atm", "unionized_ammonia_fraction",
-        "unionized_ammonia_mg_per_L_as_N", "tds_mg_per_L", "langelier_index")
+#: mg of CaCO3 per equivalent of alkalinity
+CACO3_MG_PER_EQ = CALCIUM_CARBONATE.molar_mass / 2.0 * 1000.0
+#: The numbers of the ``"derived"`` object, in order.
+NUMBER_KEYS = ("pH_standards_scale", "charge_balance_error_percent",
+               "alkalinity_mg_per_L_as_CaCO3", "carbonate_alkalinity_mg_per_L_as_CaCO3",
+               "hardness_mg_per_L_as_CaCO3", "log10_pCO2_atm", "dissolved_CO2_mg_per_L",
+               "unionized_ammonia_fraction", "unionized_ammonia_mg_per_L_as_N",
+               "unionized_ammonia_fraction_emerson", "unionized_ammonia_mg_per_L_as_N_emerson",
+               "tds_mg_per_L", "tds_calculated_mg_per_L", "tds_species_sum_mg_per_L",
+               "saturation_pH", "langelier_index", "ryznar_index")
+#: Every key of the ``"derived"`` object: the numbers, then the TDS convention used.
+KEYS = (*NUMBER_KEYS, "tds_convention")
+#: TDS convention by default: the calculated sum for analyses, the species sum otherwise.
+TDS_AUTO = "auto"
+
+
+def derived_arrays(s: SolvedSamples, tds: str = TDS_AUTO) -> dict[str, np.ndarray]:
+    """Every number of :data:`NUMBER_KEYS` for each sample of *s*, shape (n,) each.
+
+    *tds* chooses what ``tds_mg_per_L`` holds: ``"calculated"`` (Standard Methods
+    1030E), ``"species-sum"``, or ``"auto"`` (calculated for analyses, species sum for
+    recipes); both conventions are always given under their own keys too.
+    """
+    check_tds_convention(tds)
+    w = s.water_kg_per_L
+    alk = alkalinity_eq_per_kg(s)
+    carbonate_alk = carbonate_alkalinity_eq_per_kg(s)
+    calculated = tds_calculated_mg_per_L(s, carbonate_alk)
+    species_sum = tds_species_sum_mg_per_L(s)
+    phs = saturation_pH(s, carbonate_alk)
+    free = activity_corrected_fraction(s)
+    emerson = emerson_fraction_of(s)
+    return {
+        "pH_standards_scale": conventional_pH_of(s),
+        "charge_balance_error_percent": _charge_balance_error(s),
+        "alkalinity_mg_per_L_as_CaCO3": alk * w * CACO3_MG_PER_EQ,
+        "carbonate_alkalinity_mg_per_L_as_CaCO3": carbonate_alk * w * CACO3_MG_PER_EQ,
+        "hardness_mg_per_L_as_CaCO3": hardness_mg_per_L_as_CaCO3(s),
+        "log10_pCO2_atm": log10_pco2_atm(s),
+        "dissolved_CO2_mg_per_L": dissolved_co2_mg_per_L(s),
+        "unionized_ammonia_fraction": free,
+        "unionized_ammonia_mg_per_L_as_N": as_nitrogen_mg_per_L(s, free),
+        "unionized_ammonia_fraction_emerson": emerson,
+        "unionized_ammonia_mg_per_L_as_N_emerson": as_nitrogen_mg_per_L(s, emerson),
+        "tds_mg_per_L": np.where(tds_is_calculated(s, tds), calculated, species_sum),
+        "tds_calculated_mg_per_L": calculated,
+        "tds_species_sum_mg_per_L": species_sum,
+        "saturation_pH": phs,
+        "langelier_index": langelier_index(s, phs),
+        "ryznar_index": ryznar_index(s, phs),
+    }
+
+
+def check_tds_convention(tds: str) -> None:
+    """Refuse a TDS convention that is not one of ours."""
+    if tds not in (TDS_AUTO, *TDS_CONVENTIONS):
+        raise RecipeError("tds", f"{tds!r} is not a TDS convention",
+                          f"give one of {', '.join((TDS_AUTO, *TDS_CONVENTIONS))}")
+
+
+def tds_is_calculated(s: SolvedSamples, tds: str) -> np.ndarray:
+    """Which samples report the calculated TDS under *tds* (n,) bool."""
+    if tds == TDS_AUTO:
+        return np.asarray(s.analysis, dtype=bool)
+    return np.full(s.n, tds == TDS_CALCULATED)
+
+
+def derived_quantities(result) -> dict[str, Any]:
+    """The ``"derived"`` object of the JSON result (keys in :data:`KEYS`)."""
+    samples = samples_of_result(result)
+    arrays = derived_arrays(samples)
+    values: dict[str, Any] = {key: _number(arrays[key][0]) for key in NUMBER_KEYS}
+    values["tds_convention"] = (TDS_CALCULATED if tds_is_calculated(samples, TDS_AUTO)[0]
+                                else TDS_SPECIES)
+    return values
+
+
+def _number(value: float) -> float | None:
+    return float(value) if math.isfinite(value) else None
 
 
 def alkalinity(result) -> float:
     """Total alkalinity of *result* in eq per kg of water."""
-    return float(alkalinity_weights(result.system, result.temperature_C) @ result.molality)
+    return float(alkalinity_eq_per_kg(samples_of_result(result))[0])
 
 
 def charge_balance_error_percent(result) -> float:
     """100·(Σ cation eq − Σ anion eq)/(Σ cation eq + Σ anion eq) over all species."""
-    z, m = result.system.charge, result.molality
-    cations = float(np.where(z > 0, z, 0.0) @ m)
-    anions = float(np.where(z < 0, -z, 0.0) @ m)
-    total = cations + anions
-    return 100.0 * (cations - anions) / total if total > 0 else 0.0
-
-
-def derived_quantities(result) -> dict[str, float | None]:
-    """The ``"derived"`` object of the JSON result (keys in :data:`KEYS`)."""
-    per_litre = water_kg_per_L(result)
-    alk = alkalinity(result)
-    ammonia = _ammonia(result)
-    values = {
-        "pH_standards_scale": conventional_pH(result),
-        "charge_balance_error_percent": charge_balance_error_percent(result),
-        "alkalinity_mg_per_L_as_CaCO3": alk * per_litre * _caco3_mg_per_eq(),
-        "hardness_mg_per_L_as_CaCO3": _hardness(result) * per_litre
-        * CALCIUM_CARBONATE.molar_mass * 1000.0,
-        "log10_pCO2_atm": log10_pco2(result),
-        "unionized_ammonia_fraction": None if ammonia is None else ammonia[0],
-        "unionized_ammonia_mg_per_L_as_N": None if ammonia is None
-        else ammonia[1] * per_litre * NITROGEN.molar_mass * 1000.0,
-        "tds_mg_per_L": _dissolved_mass(result) * per_litre * 1000.0,
-        "langelier_index": langelier_index(result, alk),
-    }
-    return {key: values[key] for key in KEYS}
+    return float(_charge_balance_error(samples_of_result(result))[0])
 
 
 def water_kg_per_L(result) -> float:
     """kg of water per litre of the result's solution."""
-    from ..inputs._recipe import solution_of
-
-    return solution_of(result.recipe, result.tables).water_kg_per_L
-
-
-def log10_pco2(result) -> float | None:
-    """log10 of the CO2 partial pressure (atm) in equilibrium with the solution.
-
-    From the tables' CO2 gas constant, log10 p = Σ ν log10 a(dissolved form) − log10 K_H;
-    None when the tables have no CO2 gas or the solution no carbonate.
-    """
-    for gas in result.tables.gases.values():
-        if parse_formula(gas.formula) == _CO2 and set(gas.reaction) <= {*result.system.species,
-                                                                         WATER}:
-            log_a = sum(coeff * _log10_activity(result, name)
-                        for name, coeff in gas.reaction.items())
-            t = np.array([result.temperature_C])
-            return float(log_a - log10_k_at(gas.logk, t)[0])
-    return None
-
-
-def langelier_index(result, alkalinity_eq_per_kg: float) -> float | None:
-    """Langelier index pH − pHs, with pHs from the tables' own constants.
-
-    pHs is the pH at which the water, with its calcium and alkalinity, would be just
-    saturated with calcite: pHs = log K(CaCO3 + H+ = Ca+2 + HCO3-) − log10(γ_Ca m_Ca)
-    − log10(γ_HCO3 · alkalinity), with total calcium and the result's γ. None without
-    calcium, carbonate, calcite in the tables, or with alkalinity ≤ 0.
-
-    References
-    ----------
-    Langelier, W.F. (1936) J. Am. Water Works Assoc. 28, 1500–1521.
-    """
-    calcium = _component(result, _HARDNESS_IONS[0])
-    bicarbonate = _species(result, _BICARBONATE)
-    if (calcium is None or bicarbonate is None or CALCITE not in result.tables.solids
-            or alkalinity_eq_per_kg <= 0 or result.totals.get(calcium, 0.0) <= 0):
-        return None
-    t = np.array([result.temperature_C])
-    calcite = result.tables.resolve(CALCITE, "solids")
-    log_k_reaction = sum(m * float(log10_k_at(lk, t)[0]) for _, m, lk in calcite.terms)
-    log_k_reaction += float(result.system.log10_k(t)[0][result.system.index(bicarbonate)])
-    log_ca = np.log10(result.totals[calcium]) + result.log10_gamma[result.system.index(calcium)]
-    log_alk = np.log10(alkalinity_eq_per_kg) + result.log10_gamma[
-        result.system.index(bicarbonate)]
-    return float(result.pH - (log_k_reaction - log_ca - log_alk))
-
-
-def _ammonia(result) -> tuple[float, float] | None:
-    """(free NH3 / total ammonia, free NH3 in mol/kg water), or None without ammonia."""
-    free = _species(result, _AMMONIA)
-    if free is None:
-        return None
-    total = result.parent_total(free)
-    if total <= 0:
-        return None
-    m = result.species_molality(free)
-    return m / total, m
-
-
-def _hardness(result) -> float:
-    """Total calcium plus magnesium, mol/kg water."""
-    found = (_component(result, ion) for ion in _HARDNESS_IONS)
-    return sum(result.totals.get(c, 0.0) for c in found if c is not None)
-
-
-def _dissolved_mass(result) -> float:
-    """Mass of every dissolved species, g per kg of water."""
-    masses = np.array([_formula(result, name).molar_mass for name in result.system.species])
-    return float(masses @ result.molality)
-
-
-def _caco3_mg_per_eq() -> float:
-    return CALCIUM_CARBONATE.molar_mass / 2.0 * 1000.0
-
-
-def _formula(result, name: str) -> Formula:
-    return parse_formula(result.tables.entry(name).formula)
-
-
-def _component(result, formula: Formula) -> str | None:
-    return next((c for c in result.system.components if _formula(result, c) == formula), None)
-
-
-def _species(result, formula: Formula) -> str | None:
-    return next((s for s in result.system.species if _formula(result, s) == formula), None)
-
-
-def _log10_activity(result, name: str) -> float:
-    if name == WATER:
-        return result.log10_water_activity
-    return float(np.log10(result.species_activity(name)))
+    return float(samples_of_result(result).water_kg_per_L[0])
 
 
 # -- output -------------------------------------------------------------------------------
@@ -198,15 +164,27 @@ def report_lines(result) -> list[str]:
               f"  charge-balance error       {d['charge_balance_error_percent']:+8.2f} %",
               f"  alkalinity                 {d['alkalinity_mg_per_L_as_CaCO3']:8.4g} mg/L as CaCO3",
               f"  hardness                   {d['hardness_mg_per_L_as_CaCO3']:8.4g} mg/L as CaCO3",
-              f"  total dissolved solids     {d['tds_mg_per_L']:8.4g} mg/L"]
+              f"  total dissolved solids     {d['tds_mg_per_L']:8.4g} mg/L ("
+              + ("Standard Methods 1030E calculated sum" if d["tds_convention"] == TDS_CALCULATED
+                 else "sum of dissolved species") + ")"]
     if d["log10_pCO2_atm"] is not None:
         lines.append(f"  log10 pCO2                 {d['log10_pCO2_atm']:8.3f} (atm)")
+    if d["dissolved_CO2_mg_per_L"] is not None:
+        lines.append(f"  dissolved CO2              {d['dissolved_CO2_mg_per_L']:8.4g} mg/L")
     if d["unionized_ammonia_fraction"] is not None:
         lines.append(f"  un-ionised ammonia         {100 * d['unionized_ammonia_fraction']:8.3g} % "
-                     f"of total; {d['unionized_ammonia_mg_per_L_as_N']:.3g} mg/L as N")
+                     f"of total; {d['unionized_ammonia_mg_per_L_as_N']:.3g} mg/L as N "
+                     "(activity-corrected)")
+    if d["unionized_ammonia_fraction_emerson"] is not None:
+        lines.append(f"                             "
+                     f"{100 * d['unionized_ammonia_fraction_emerson']:8.3g} % of total; "
+                     f"{d['unionized_ammonia_mg_per_L_as_N_emerson']:.3g} mg/L as N "
+                     "(Emerson et al. 1975, conditional)")
     if d["langelier_index"] is not None:
         lines.append(f"  Langelier index            {d['langelier_index']:+8.2f} "
-                     "(> 0 scale-forming, < 0 dissolves CaCO3)")
+                     f"(pHs {d['saturation_pH']:.2f}; > 0 scale-forming, < 0 dissolves CaCO3)")
+        lines.append(f"  Ryznar index               {d['ryznar_index']:8.2f} "
+                     "(below about 6 scale-forming, above about 7 corrosive)")
     return lines
 
 

@@ -2,9 +2,11 @@
 
 The input is read and written in chunks of ``--chunk-rows`` rows (pandas ``read_csv``
 chunks, pyarrow ``iter_batches``), so memory stays bounded however large the file.
-A progress bar shows on a terminal (with tqdm installed); a summary follows at the
-end. The exit status is 1 when any row did not converge; the output is written all the
-same.
+A progress bar shows on a terminal (with tqdm installed), refreshed every second; when
+stderr is a file a progress line is written at intervals instead; a summary follows at the
+end with the rows' statuses, the blank and below-limit cells, and the rows flagged for
+their charge balance. The exit status is 1 when any row is invalid or did not converge
+(``--accept-partial``: 0); the output is written all the same.
 
 The output is written under a temporary name in the output's folder and renamed when the
 last row is written, so the output name holds either a complete table or nothing: an
@@ -24,9 +26,15 @@ import time
 from collections import deque
 from contextlib import contextmanager
 from pathlib import Path
-from typing import Any, Iterator, Sequence
+from typing import Any, Callable, Iterator, Sequence
 
+from ...batch._cells import (BELOW_LIMIT_COLUMN, DEFAULT_DETECTION_POLICY, DETECTION_POLICIES,
+                             NOT_ANALYSED_COLUMN)
+from ...batch._derived_columns import BALANCE_FLAG_COLUMN, derived_options
 from ...errors import RecipeError
+from ...outputs._cautions import CHARGE_BALANCE_LIMIT
+from ...outputs._derived_ions import TDS_CONVENTIONS
+from .._batch_progress import BatchProgress, count_rows
 from ...inputs._recipe import DEFAULT_TABLES
 from ...status import CONVERGED, INVALID, SOLVER_STATUSES
 from .._paths import check_output_path
@@ -43,7 +51,8 @@ def register(subparsers) -> None:
         description="Speciate every row of a table of samples (ingredient molalities, or "
         "analyses with units in the headers, e.g. 'Ca [mg/L]'), writing the input columns "
         "followed by pH, ionic strength, species, saturation indices, status and message. "
-        "Rows are never dropped; the exit status is 1 if any row failed. The output is "
+        "Rows are never dropped; the exit status is 1 if any row is invalid or did not converge "
+        "(--accept-partial makes it 0). The output is "
         "written only when complete (an interrupted run leaves none). Parquet files need "
         "pip install \"ionwright[parquet]\"; the progress bar on a terminal needs "
         "\"ionwright[progress]\"; --engine dask needs \"ionwright[distributed]\".")
@@ -65,6 +74,24 @@ def register(subparsers) -> None:
                         "most 4); the answers do not depend on it")
     parser.add_argument("--chunk-rows", type=int, default=CHUNK_ROWS,
                         help=f"rows read, solved and written at a time (default {CHUNK_ROWS})")
+    parser.add_argument("--tds", choices=("auto", *TDS_CONVENTIONS), default="auto",
+                        help="what the 'TDS [mg/L]' column holds: 'calculated' (Standard "
+                        "Methods 1030E calculated sum), 'species-sum' (every dissolved "
+                        "species), or 'auto' (calculated for analyses, the species sum "
+                        "for recipes; the default); both also have their own columns")
+    parser.add_argument("--balance-limit", type=float, default=CHARGE_BALANCE_LIMIT,
+                        metavar="PERCENT", help="flag rows whose charge-balance error is "
+                        f"beyond this many percent (default {CHARGE_BALANCE_LIMIT:g})")
+    parser.add_argument("--ions", action="store_true",
+                        help="also give each ion's total in mg/L and meq/L")
+    parser.add_argument("--detection-limit", choices=tuple(DETECTION_POLICIES),
+                        default=DEFAULT_DETECTION_POLICY,
+                        help="what a cell such as '<0.05' (below the detection limit) "
+                        "stands for: zero, half the limit (the default) or the limit; a "
+                        "blank cell means not analysed (left out, noted in the row)")
+    parser.add_argument("--accept-partial", action="store_true",
+                        help="exit 0 even when some rows are invalid or did not converge "
+                        "(the default is 1, so that scripts notice)")
     parser.set_defaults(run=run)
 
 
@@ -83,27 +110,26 @@ def run(args: argparse.Namespace) -> int:
         raise RecipeError("--threads", f"{args.threads} must be ≥ 1",
                           "give a number of threads, or leave it out to use the cores")
     started = time.perf_counter()
-    counts = {"rows": 0, CONVERGED: 0, NOT_CONVERGED: 0, INVALID: 0}
+    counts = {"rows": 0, CONVERGED: 0, NOT_CONVERGED: 0, INVALID: 0, "blank": 0, "below": 0,
+              "flagged": 0}
     from ...batch._run import text_columns_of
 
     chunks = _read_chunks(source, args.chunk_rows, args.label)
     first = next(chunks)
     text = text_columns_of(first)   # read once: every chunk reads its columns alike
     options = dict(species=args.species, model=args.model, tables=args.tables,
-                   labels=args.label, text_columns=text)
+                   labels=args.label, text_columns=text,
+                   derived=derived_options(args.tds, args.balance_limit, args.ions),
+                   detection_limit=args.detection_limit)
     try:
-        with _stopped_by_signals(), _Progress(source, args.chunk_rows) as bar, \
+        with _stopped_by_signals(), BatchProgress(count_rows(source)) as bar, \
                 _Writer(target, [*args.label, *text], inputs=list(first.columns)) as writer:
             for solved in _solved_chunks(_chain(first, chunks), options, args.engine,
-                                         args.address, args.threads):
+                                         args.address, args.threads,
+                                         lambda done: bar(counts["rows"] + done)):
                 writer.write(solved)
-                status = solved["status"].value_counts()
-                counts["rows"] += len(solved)
-                counts[CONVERGED] += int(status.get(CONVERGED, 0))
-                counts[INVALID] += int(status.get(INVALID, 0))
-                counts[NOT_CONVERGED] += sum(int(status.get(s, 0)) for s in SOLVER_STATUSES
-                                             if s != CONVERGED)
-                bar(len(solved))
+                _count(solved, counts)
+                bar(counts["rows"])
     except Interrupted as stop:
         print(f"ionwright batch: interrupted by {stop.signal_name} after {counts['rows']} "
               f"rows ({counts[CONVERGED]} converged, {counts[NOT_CONVERGED]} not converged, "
@@ -112,25 +138,52 @@ def run(args: argparse.Namespace) -> int:
         return 128 + stop.signal_number
     elapsed = time.perf_counter() - started
     rate = counts["rows"] / elapsed if elapsed > 0 else 0.0
-    failed = counts[NOT_CONVERGED]
+    failed, invalid = counts[NOT_CONVERGED], counts[INVALID]
     print(f"{counts['rows']} rows: {counts[CONVERGED]} converged, {failed} not converged, "
-          f"{counts[INVALID]} invalid; {elapsed:.2f} s ({rate:,.0f} rows/s); "
-          f"written to {target}")
+          f"{invalid} invalid; {elapsed:.2f} s ({rate:,.0f} rows/s); written to {target}")
+    print(f"{counts['blank']} blank cells (not analysed, left out), {counts['below']} below a "
+          f"detection limit (taken as {args.detection_limit}); {counts['flagged']} rows with "
+          f"a charge-balance error beyond ±{args.balance_limit:g} %")
     if failed:
         print(f"ionwright batch: {failed} row(s) did not converge; see their 'status' and "
               "'message' columns", file=sys.stderr)
-    return 1 if failed else 0
+    if invalid:
+        print(f"ionwright batch: {invalid} row(s) are invalid; their 'message' column says "
+              "which cell and why", file=sys.stderr)
+    if (failed or invalid) and not args.accept_partial:
+        print("ionwright batch: exit status 1 (some rows have no result); --accept-partial "
+              "exits 0 with the same output", file=sys.stderr)
+        return 1
+    return 0
+
+
+def _count(solved, counts: dict[str, int]) -> None:
+    """Add a solved chunk's rows, statuses, gaps and flags to *counts*."""
+    status = solved["status"].value_counts()
+    counts["rows"] += len(solved)
+    counts[CONVERGED] += int(status.get(CONVERGED, 0))
+    counts[INVALID] += int(status.get(INVALID, 0))
+    counts[NOT_CONVERGED] += sum(int(status.get(s, 0)) for s in SOLVER_STATUSES
+                                 if s != CONVERGED)
+    for key, column in (("blank", NOT_ANALYSED_COLUMN), ("below", BELOW_LIMIT_COLUMN)):
+        cells = solved[column].astype(str)
+        counts[key] += int(cells.str.count("; ").add(cells.ne("").astype(int)).sum())
+    counts["flagged"] += int(solved[BALANCE_FLAG_COLUMN].sum())
 
 
 def _solved_chunks(chunks: Iterator[Any], options: dict, engine: str,
-                   address: str | None, threads: int | None = None) -> Iterator[Any]:
-    """Each chunk solved, in input order: here, or a few at a time on a dask cluster."""
+                   address: str | None, threads: int | None = None,
+                   progress: Callable[[int], None] | None = None) -> Iterator[Any]:
+    """Each chunk solved, in input order: here, or a few at a time on a dask cluster;
+    *progress* hears the rows done of the chunk being solved here."""
     from ...batch._run import _check_frame, _solve_frame, dask_client, solve_partition
 
     if engine == "local":
         for chunk in chunks:
             _check_frame(chunk)
-            yield _solve_frame(chunk, threads=threads, **options)
+            yield _solve_frame(chunk, threads=threads, **options,
+                               progress=None if progress is None
+                               else lambda done, total: progress(done))
         return
     options = {**options, "threads": 1}  # the cluster's workers are the parallelism
     with dask_client(address) as client:
@@ -291,7 +344,10 @@ class _Writer:
     the writer closes without an error; on an error or interruption it is deleted.
     Columns named in *text* (labels) are always written as text; so is every input
     column of a CSV output, so that a cell is written as it was read even when a later
-    chunk holds text where the first held numbers.
+    chunk holds text where the first held numbers. In a Parquet output every other input
+    column is read as numbers and written as numbers, even where a cell held a detection
+    limit ("<0.05", kept in the 'below detection limit' column) or text (its row invalid,
+    the text quoted in its message).
     """
 
     def __init__(self, path: Path, text: Sequence[str] = (), inputs: Sequence[str] = ()) -> None:
@@ -302,7 +358,8 @@ class _Writer:
         self.writer: Any = None             # pyarrow's Parquet or CSV writer, once opened
         self.schema = None
         self.text = set(text) | (set() if self.parquet else set(inputs))
-        self.numeric: dict[str, bool] = {}
+        self.numbers = set(inputs) - self.text
+        self.kinds: dict[str, str] = {}
 
     def __enter__(self) -> "_Writer":
         return self
@@ -337,17 +394,29 @@ class _Writer:
         text in a number column writes it as missing; its row says why it is invalid)."""
         import pandas as pd
 
-        if not self.numeric:
-            self.numeric = {c: pd.api.types.is_numeric_dtype(frame[c])
-                            and not pd.api.types.is_bool_dtype(frame[c])
-                            and str(c) not in self.text for c in frame.columns}
+        if not self.kinds:
+            self.kinds = {c: self._kind(frame[c], str(c)) for c in frame.columns}
         out = {}
         for c in frame.columns:
-            if self.numeric[c]:
+            if self.kinds[c] == "number":
                 out[c] = pd.to_numeric(frame[c], errors="coerce").astype(float)
+            elif self.kinds[c] == "bool":
+                out[c] = frame[c].astype("boolean")
             else:
                 out[c] = frame[c].astype("string")
         return pd.DataFrame(out)
+
+    def _kind(self, column, name: str) -> str:
+        """"number", "bool" or "text": how the column *name* is written throughout."""
+        import pandas as pd
+
+        if name in self.text:
+            return "text"
+        if pd.api.types.is_bool_dtype(column):
+            return "bool"
+        if name in self.numbers or pd.api.types.is_numeric_dtype(column):
+            return "number"
+        return "text"
 
     def __exit__(self, kind, value, traceback) -> None:
         try:
@@ -358,42 +427,3 @@ class _Writer:
                 os.replace(self.partial, self.path)
             else:
                 self.partial.unlink(missing_ok=True)
-
-
-class _Progress:
-    """A tqdm bar on a terminal, nothing otherwise; called with the rows just done."""
-
-    def __init__(self, source: Path, chunk_rows: int) -> None:
-        self.bar = None
-        if not sys.stderr.isatty():
-            return
-        try:
-            from tqdm import tqdm
-        except ImportError:
-            return
-        self.bar = tqdm(total=_count_rows(source), unit="rows", unit_scale=True,
-                        file=sys.stderr)
-
-    def __enter__(self):
-        return self
-
-    def __call__(self, done: int) -> None:
-        if self.bar is not None:
-            self.bar.update(done)
-
-    def __exit__(self, *exc) -> None:
-        if self.bar is not None:
-            self.bar.close()
-
-
-def _count_rows(path: Path) -> int | None:
-    """Rows in the file, cheaply (Parquet metadata; CSV newlines); None if unknown."""
-    if path.suffix.lower() == ".parquet":
-        import pyarrow.parquet as pq
-
-        return pq.ParquetFile(path).metadata.num_rows
-    lines = 0
-    with open(path, "rb") as handle:
-        for block in iter(lambda: handle.read(1 << 20), b""):
-            lines += block.count(b"\n")
-    return max(lines - 1, 0)
