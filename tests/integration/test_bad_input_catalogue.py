@@ -296,6 +296,10 @@ API = [
     Refusal("buffer does not fit its volume", lambda tmp: design_buffer(
         "HEPES", 7.4, "8 mol/L", titrant="NaOH 10 mol/L"),
         RecipeError, ("HEPES",), ("volume",)),
+    Refusal("buffer titrant's water more than the batch holds", lambda tmp: design_buffer(
+        "HEPES", 7.5, "3 mol/L", titrant="NaOH 2 mol/L"),
+        RecipeError, ("titrant", "NaOH 2 mol/L", "kg of water", "cannot be made"),
+        ("more concentrated titrant", "conjugate pair")),
     Refusal("buffer name not text", lambda tmp: design_buffer(7, 7.4, "50 mmol/L",
                                                               titrant="NaOH 1 mol/L"),
             RecipeError, ("buffer", "7"), ("HEPES",)),
