@@ -277,9 +277,6 @@ API = [
             RecipeError, ("stock", "80 mol/L"), ("check",)),
     Refusal("target unreachable", lambda tmp: ionwright.target(RINSE_MAP, 3.0, "NaOH"),
             UnreachableTargetError, ("NaOH", "3"), ("acid",)),
-    Refusal("target on a fixed pH", lambda tmp: ionwright.target(
-        {**RINSE_MAP, "fix": {"pH": 7}}, 8.0, "NaOH"), RecipeError, ("[fix] pH",),
-        ("remove",)),
     # buffer designer
     Refusal("buffer volume 0 L", lambda tmp: design_buffer(
         "HEPES", 7.4, "50 mmol/L", volume="0 L", titrant="NaOH 1 mol/L"),
