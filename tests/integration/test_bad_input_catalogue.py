@@ -277,9 +277,6 @@ API = [
             RecipeError, ("stock", "80 mol/L"), ("check",)),
     Refusal("target unreachable", lambda tmp: ionwright.target(RINSE_MAP, 3.0, "NaOH"),
             UnreachableTargetError, ("NaOH", "3"), ("acid",)),
-    Refusal("target on a fixed pH", lambda tmp: ionwright.target(
-        {**RINSE_MAP, "fix": {"pH": 7}}, 8.0, "NaOH"), RecipeError, ("[fix] pH",),
-        ("remove",)),
     # buffer designer
     Refusal("buffer volume 0 L", lambda tmp: design_buffer(
         "HEPES", 7.4, "50 mmol/L", volume="0 L", titrant="NaOH 1 mol/L"),
@@ -296,6 +293,10 @@ API = [
     Refusal("buffer does not fit its volume", lambda tmp: design_buffer(
         "HEPES", 7.4, "8 mol/L", titrant="NaOH 10 mol/L"),
         RecipeError, ("HEPES",), ("volume",)),
+    Refusal("buffer titrant's water more than the batch holds", lambda tmp: design_buffer(
+        "HEPES", 7.5, "3 mol/L", titrant="NaOH 2 mol/L"),
+        RecipeError, ("titrant", "NaOH 2 mol/L", "kg of water", "cannot be made"),
+        ("more concentrated titrant", "conjugate pair")),
     Refusal("buffer name not text", lambda tmp: design_buffer(7, 7.4, "50 mmol/L",
                                                               titrant="NaOH 1 mol/L"),
             RecipeError, ("buffer", "7"), ("HEPES",)),

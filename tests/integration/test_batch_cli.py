@@ -155,6 +155,7 @@ def test_yes_no_columns_are_not_amounts(tmp_path):
     out = pd.read_csv(target)
     assert list(out["status"]) == ["invalid", "invalid"]
     assert all("yes/no" in m and "'NaCl'" in m for m in out["message"])
+    assert out["message"][0].startswith("column 'NaCl': True is")   # the cell, not np.True_
 
 
 SURVEY_CSV = """site,pH,Ca [mg/L],Mg [mg/L],Na [mg/L],Cl [mg/L],NO3 [mg/L as N],alkalinity [mg/L as CaCO3]

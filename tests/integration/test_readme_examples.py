@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import re
+import shlex
 import sys
 from pathlib import Path
 
@@ -29,6 +30,46 @@ def test_the_readme_recipe_solves_as_written():
     result = ionwright.solve(tomllib.loads(recipe))
     assert result.pH == pytest.approx(7.0)          # its [fix] pH
     assert dict(result.recipe.dissolve)["KH2PO4"] == pytest.approx(0.025, rel=1e-3)
+
+
+def readme_commands() -> list[str]:
+    """Every `ionwright ...` line of the README's shell blocks, continuations joined."""
+    lines = []
+    for block in blocks("README.md", "bash"):
+        for line in block.replace("\\\n", " ").splitlines():
+            command = line.split(" #")[0].strip()
+            if command.startswith("ionwright "):
+                lines.append(command)
+    return lines
+
+
+# the files the README's commands name beside its recipe: an invented lake analysis and
+# two samples (demo data)
+ANALYSIS = ('title = "north basin"\n[analysis]\ntemperature_C = 12.0\npH = 7.6\n'
+            'Ca = "46 mg/L"\nMg = "8.5 mg/L"\nNa = "9.2 mg/L"\nCl = "14 mg/L"\n'
+            'SO4 = "22 mg/L"\nalkalinity = "128 mg/L as CaCO3"\n')
+SAMPLES = "site,NaCl,CaCl2\ninlet,0.01,0.001\noutlet,0.02,0.002\n"
+
+
+@pytest.mark.parametrize("command", readme_commands())
+def test_every_readme_command_runs_as_written(command, tmp_path, monkeypatch, capsys):
+    """Run in a folder holding the README's recipe as recipe.toml (issue 16: the target
+    example failed on the recipe's [fix] pH)."""
+    from ionwright.cli._main import main
+
+    (recipe,) = [b for b in blocks("README.md", "toml") if "[dissolve]" in b]
+    (tmp_path / "recipe.toml").write_text(recipe, encoding="utf-8")
+    (tmp_path / "analysis.toml").write_text(ANALYSIS, encoding="utf-8")
+    (tmp_path / "samples.csv").write_text(SAMPLES, encoding="utf-8")
+    monkeypatch.chdir(tmp_path)
+    status = main(shlex.split(command)[1:])
+    out, err = capsys.readouterr()
+    assert status == 0, err
+    assert out.strip() and "Traceback" not in err
+
+
+def test_the_readme_shows_the_commands():
+    assert len(readme_commands()) >= 10
 
 
 @pytest.mark.parametrize("keys, heading", [

@@ -3,11 +3,12 @@
 from __future__ import annotations
 
 import pytest
-from hypothesis import given, settings
+from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
 import ionwright
 from ionwright.design import _sweep as sweeps
+from ionwright.errors import RecipeError
 
 # zero or a real amount: totals of 1e-300 mol/kg and below are not chemistry (and the
 # solver does not converge on denormal totals; reported to the solver's owner)
@@ -85,11 +86,23 @@ def test_a_target_dose_poured_back_as_a_stock_gives_the_target(how, tris, salt, 
 @settings(max_examples=8, deadline=None)
 @given(how=made, tris=st.floats(min_value=0.005, max_value=0.1), salt=salt,
        point=st.integers(min_value=1, max_value=20))
+@example(how="water", tris=0.0625, salt=0.2, point=1)   # found by the random profile
 def test_a_titration_point_is_the_recipe_with_that_stock_added(how, tris, salt, point):
     """sweep --add follows the recipe convention: the point at V mL is the recipe with an
-    [[add]] of V mL of the titrant (same pH within 1e-9)."""
+    [[add]] of V mL of the titrant (same pH within 1e-9). A recipe that starts past the
+    model's range (Tris 0.0625 + NaCl 0.2 mol/kg is at I = 0.2004, past Davies' 0.2) is
+    refused for that reason, and with beyond_range its points are kept with a warning."""
     recipe = _made_up(how, tris, salt)
-    sweep = sweeps.titration(recipe, "HCl 0.1 mol/L", "40 mL", points=21, beyond_range=True)
+    try:
+        sweep = sweeps.titration(recipe, "HCl 0.1 mol/L", "40 mL", points=21)
+    except RecipeError as refused:
+        assert "beyond the davies model's range" in str(refused)
+        assert any(n.code == "model-range" for n in ionwright.solve(recipe).notices)
+        sweep = sweeps.titration(recipe, "HCl 0.1 mol/L", "40 mL", points=21,
+                                 beyond_range=True)
+        assert sweep.values.size == 21
+        assert any(n.code == "model-range" for n in sweep.notices)
+    point = min(point, sweep.values.size - 1)   # a sweep cut short keeps the points before
     volume = float(sweep.values[point])
     added = {**recipe, "add": [*recipe.get("add", []),
                                {"stock": "HCl", "concentration": "0.1 mol/L",

@@ -5,7 +5,7 @@ from __future__ import annotations
 import pytest
 
 import ionwright
-from ionwright.errors import RecipeError, UnreachableTargetError
+from ionwright.errors import UnreachableTargetError
 
 BREWERY_RINSE = {"title": "brewery rinse (demo)", "temperature_C": 37.0,
                  "dissolve": {"HEPES": 0.05, "NaCl": 0.15}}
@@ -53,11 +53,6 @@ def test_an_unreachable_target_names_the_reachable_range():
 def test_an_ingredient_that_does_not_move_the_ph_is_reported():
     with pytest.raises(UnreachableTargetError, match="barely moves"):
         ionwright.target(BREWERY_RINSE, 7.0, "NaCl")
-
-
-def test_a_fixed_ph_recipe_cannot_be_dosed():
-    with pytest.raises(RecipeError, match="fixes the pH"):
-        ionwright.target({"dissolve": {"NaCl": 0.1}, "fix": {"pH": 7}}, 8.0, "NaOH")
 
 
 def test_target_with_a_gas():

@@ -247,7 +247,7 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
             continue
         if pd.api.types.is_bool_dtype(raw):  # yes/no values are no amount
             _flag(problem, raw.notna().to_numpy(), lambda r: f"column {col.header!r}: "
-                  f"{raw.iloc[r]!r} is a yes/no value, not a number (name a column to carry "
+                  f"{bool(raw.iloc[r])} is a yes/no value, not a number (name a column to carry "
                   "through unread as a label)")
         cells = read_cells(raw, detection_limit)
         numbers, empty = cells.numbers, cells.blank

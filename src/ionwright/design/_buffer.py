@@ -318,12 +318,28 @@ def design_buffer(buffer: str, pH: float, concentration: str, *, temperature_C: 
         raise RecipeError(f"titrant {titrant!r}", f"would take {mL:.5g} mL, more than the "
                           f"whole batch of {_volume_text(volume_q.value)}",
                           "use a more concentrated titrant (e.g. 1 to 10 mol/L)")
-    card = _card(batch, {**dissolve, titrant_name: f"{float(dose)!r} mol/L"}, buffer,
-                 component, pH, amount.text, t_bench, "titrate", list(dissolve))
+    final = {**dissolve, titrant_name: f"{float(dose)!r} mol/L"}
+    _check_titrant_fits(batch, final, mL / 1000.0 * stock.water_kg_per_L, mL, titrant)
+    card = _card(batch, final, buffer, component, pH, amount.text, t_bench, "titrate",
+                 list(dissolve))
     card.titrant, card.titrant_mL = f"{titrant_name} {titrant_stock}", mL
     card.cautions = stock_cautions(stock, batch.bench) + card.cautions
     card.warnings = plausibility(card, amount.value, table_set)
     return card
+
+
+def _check_titrant_fits(batch: _Batch, final: dict[str, str], titrant_water_kg: float,
+                        mL: float, titrant: str) -> None:
+    """Refuse a titrant whose own water is more than the finished batch holds: the steps
+    (dissolve, titrate, make up) cannot be followed, however little water goes in first."""
+    _, water_kg = batch.molalities(final)
+    if titrant_water_kg > water_kg:
+        raise RecipeError(f"titrant {titrant!r}", f"its {mL:.5g} mL bring "
+                          f"{titrant_water_kg:.3g} kg of water, more than the {water_kg:.3g} kg "
+                          f"the finished {_volume_text(batch.volume_L)} holds beside its "
+                          "solutes: the batch cannot be made this way",
+                          "use a more concentrated titrant, a lower buffer concentration or "
+                          "the conjugate pair")
 
 
 #: Share of the batch volume left for the titrant by the card's steps (dissolve in about

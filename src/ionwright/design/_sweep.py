@@ -34,6 +34,7 @@ from ..status import succeeded
 from ..chemistry._density import component_solute, ingredient_solute
 from ..engine._compiled import CompiledRecipe
 from ..engine._solve import compile_recipe
+from ._closed_sample import closed_sample_notes
 from ._target import read_stock, split_name_and_quantity
 from ..errors import RecipeError, names_its_arguments
 from ..chemistry._ingredients import makeup
@@ -154,7 +155,8 @@ def titration(recipe: str | Path | Mapping[str, Any] | Recipe, titrant: str, to:
     (``"25 mL"``) of it; the titrant's water dilutes it.
     """
     name, strength = split_name_and_quantity(titrant, "titrant")
-    bench = compile_recipe(recipe, registry, also=(name,))
+    opened = compile_recipe(recipe, registry, also=(name,))
+    bench = opened.closed()
     t = bench.recipe.temperature_C
     stock = read_stock(name, strength, bench.tables, t, "titrant")
     final = expect(parse_quantity(to, "to"), ("volume",), "to").value
@@ -180,6 +182,7 @@ def titration(recipe: str | Path | Mapping[str, Any] | Recipe, titrant: str, to:
     state = bench.solve(totals_at(volumes))
     sweep = _finish(bench, "titration", "titrant_mL", 1000.0 * volumes, state, species,
                     beyond_range)
+    sweep.notices[:0] = closed_sample_notes(opened, "titrated", "titrant")
     sweep.titrant = stock.label
     kept = sweep.values.size
     if kept:
@@ -197,11 +200,14 @@ def dilution(recipe: str | Path | Mapping[str, Any] | Recipe, ratio: str, *,
     lo, hi = _range(ratio, "ratio")
     if lo <= 0 or hi <= lo:
         raise RecipeError("ratio", f"{ratio!r} must be 1:N with N > 1", 'e.g. "1:1000"')
-    bench = compile_recipe(recipe, registry)
+    opened = compile_recipe(recipe, registry)
+    bench = opened.closed()
     factors = np.logspace(0.0, math.log10(hi / lo), _points(points))
     totals = np.array([_diluted(bench, f) for f in factors])
-    return _finish(bench, "dilution", "dilution_factor", factors, bench.solve(totals), species,
-                   beyond_range)
+    sweep = _finish(bench, "dilution", "dilution_factor", factors, bench.solve(totals),
+                    species, beyond_range)
+    sweep.notices[:0] = closed_sample_notes(opened, "diluted", "water added")
+    return sweep
 
 
 @names_its_arguments
@@ -253,26 +259,17 @@ def _closed_sample(bench: CompiledRecipe, hold_pH: bool) -> tuple[np.ndarray, np
     solved speciation, Σ ν(H+) m), so that warming changes the pH as it would in a closed
     bottle; *hold_pH* keeps the pH fixed instead.
     """
-    t = bench.recipe.temperature_C
-    fixed = bench.fixed()
     if "pH" not in bench.recipe.fix:
-        return bench.base, fixed, ("the sample is warmed closed: its totals stay fixed and "
-                                   "the pH follows the temperature")
-    ph = bench.recipe.fix["pH"]
+        return bench.base, bench.fixed(), ("the sample is warmed closed: its totals stay "
+                                           "fixed and the pH follows the temperature")
     if hold_pH:
-        return bench.base, fixed, (f"the pH is held at {ph:g} at every temperature, as if an "
-                                   "acid or base were added while the sample warms "
-                                   "(hold_pH); without it the closed sample's pH follows "
-                                   "the temperature")
-    state = bench.solve(bench.base)
-    if not succeeded(state.status)[0]:
-        bench.result(state)   # raises the ConvergenceError that says why
-    totals = state.equilibrium.molality[0] @ bench.system.nu
-    free = fixed.copy()
-    free[0] = np.nan
-    return totals, free, (f"the sample is warmed closed: its totals, and the proton content "
-                          f"its pH {ph:g} gives at {t:g} °C, stay fixed; the pH follows the "
-                          "temperature (hold_pH keeps the pH fixed instead)")
+        return bench.base, bench.fixed(), (
+            f"the pH is held at {bench.recipe.fix['pH']:g} at every temperature, as if an "
+            "acid or base were added while the sample warms (hold_pH); without it the closed "
+            "sample's pH follows the temperature")
+    closed = bench.closed()
+    (note,) = closed_sample_notes(bench, "warmed", "temperature")
+    return closed.base, closed.fixed(), note.text + " (hold_pH keeps the pH fixed instead)"
 
 
 @names_its_arguments
@@ -324,7 +321,7 @@ def _finish(bench: CompiledRecipe, kind: str, variable: str, values: np.ndarray,
             why = f"the solver did not converge (status {str(state.status[k])!r})"
             hint = "check that the amounts are physically possible"
         else:
-            why = (f"the ionic strength ({state.equilibrium.ionic_strength[k]:.3g} mol/kg) is "
+            why = (f"the ionic strength ({state.equilibrium.ionic_strength[k]:.4g} mol/kg) is "
                    f"beyond the {bench.model.name} model's range (up to about {limit:g})")
             hint = ("use a model valid at higher ionic strength (truesdell-jones, pitzer), a "
                     "shorter sweep, or beyond_range=True to go on with a warning")

@@ -26,6 +26,7 @@ from ..chemistry._ingredients import Makeup, makeup
 from ..core._phases import PhaseEquilibrium
 from ..engine._compiled import CompiledRecipe, not_converged
 from ..engine._solve import compile_recipe
+from ._closed_sample import closed_sample_notes
 from ..errors import RecipeError, UnreachableTargetError, names_its_arguments
 from ..inputs._checks import as_number, check_ph, positive
 from ..notices import CAUTION, of_category, texts
@@ -142,10 +143,8 @@ def target(recipe: str | Path | Mapping[str, Any] | Recipe, pH: float, adjust: s
     if not isinstance(adjust, str) or not adjust.strip():
         raise RecipeError("adjust", f"{adjust!r} must name the ingredient to dose",
                           'e.g. adjust="NaOH" or adjust="citric acid"')
-    bench = compile_recipe(recipe, registry, also=(adjust,))
-    if "pH" in bench.recipe.fix:
-        raise RecipeError(f"{bench.recipe.origin} [fix] pH", "fixes the pH, so no dose can "
-                          "move it", "remove [fix] pH to find the dose that gives a pH")
+    opened = compile_recipe(recipe, registry, also=(adjust,))
+    bench = opened.closed()
     made = makeup(adjust, bench.tables)
     step = bench.direction(made)
     if stock is None:
@@ -162,6 +161,7 @@ def target(recipe: str | Path | Mapping[str, Any] | Recipe, pH: float, adjust: s
         ceiling = _volume_for(DOSE_CEILING, n_L, w_L)
     s, state = find_dose(bench, totals_of, ceiling, pH, made.name,
                          "L of stock per kg of water" if held else "mol/kg")
+    state.notes[:0] = closed_sample_notes(opened, "dosed", "dose")
     result = bench.result(state)
     if held is None:
         amount, volume = s, None

@@ -101,6 +101,28 @@ class CompiledRecipe:
             out[0] = -self.recipe.fix["pH"]
         return out
 
+    def closed(self) -> CompiledRecipe:
+        """The recipe as a closed sample: its fixed pH (measured in an analysis, or [fix]
+        pH) becomes the protons it implies at the recipe's temperature, beyond those its
+        ingredients bring, and the pH is free again.
+
+        A sample whose pH was measured or held is a bottle of solution: what a tool then
+        does to it (a dose, a titrant, water, warming) moves the pH from there, as a poured
+        solution with a fixed pH carries its protons into the mixture. Returned as is when
+        the recipe fixes no pH.
+        """
+        if "pH" not in self.recipe.fix:
+            return self
+        state = self.solve(self.base)
+        if not succeeded(state.status)[0]:
+            self.result(state)   # raises the ConvergenceError that says why
+        held = float(state.equilibrium.molality[0] @ self.system.nu[:, 0])
+        base = self.base.copy()
+        base[0] += held - state.totals[0, 0]   # in solution, after the solids and gases
+        fix = {k: v for k, v in self.recipe.fix.items() if k != "pH"}
+        return replace(self, recipe=replace(self.recipe, fix=fix), base=base,
+                       totals={**self.totals, PROTON: float(base[0])})
+
     # -- one sample ------------------------------------------------------------------
     def solve_one(self) -> Result:
         """The :class:`Result` of the recipe as written; raises :class:`ConvergenceError`

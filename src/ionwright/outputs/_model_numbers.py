@@ -47,7 +47,7 @@ def model_range_notice(model: Any, ionic_strength: float | None = None) -> Notic
     """The notice for a solution beyond *model*'s stated range (*ionic_strength* None: the
     text shared by many samples)."""
     limit = model.max_ionic_strength
-    which = "" if ionic_strength is None else f" {ionic_strength:.3g} mol/kg is"
+    which = "" if ionic_strength is None else f" {ionic_strength:.4g} mol/kg is"
     return Notice(VALIDITY, "model-range",
                   f"ionic strength{which} beyond the range of the {model.name} model (up to "
                   f"about {limit:g} mol/kg); results are less certain; compare models or use "

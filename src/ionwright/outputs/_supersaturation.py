@@ -7,13 +7,17 @@ something only with an activity model valid there and holding parameters for the
 ions (Pitzer, for the salts of its table): when the recipe's own model is not such a
 model, the warning says so and names the one that is. Water analyses are left alone:
 natural waters are routinely supersaturated with carbonate minerals and report SI only.
+A solid the recipe names under ``[solids]`` is left alone too: the phase solve has already
+let it form or dissolve, so its SI is zero to round-off or it is not there to form.
 """
 
 from __future__ import annotations
 
 from typing import Any
 
-SUPERSATURATED = 0.0          # SI above which a solid is past its solubility
+#: SI above which a solid is past its solubility: beyond round-off (the phase solve leaves a
+#: formed solid at |SI| <= 1e-10), far below what any measurement resolves
+SUPERSATURATED = 1e-6
 PITZER = "pitzer"
 
 
@@ -21,7 +25,9 @@ def supersaturation_warnings(result: Any) -> list[str]:
     """One warning per solid past its solubility in a recipe of ingredients (not analyses)."""
     if not result.recipe.dissolve:   # an analysis or a poured-in component list
         return []
-    past = {name: si for name, si in result.saturation_indices.items() if si > SUPERSATURATED}
+    allowed = set(getattr(result, "phases", None) or {})
+    past = {name: si for name, si in result.saturation_indices.items()
+            if si > SUPERSATURATED and name not in allowed}
     return [_warning(result, name, si) for name, si in sorted(past.items())]
 
 
