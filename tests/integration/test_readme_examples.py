@@ -10,7 +10,7 @@ from pathlib import Path
 import pytest
 
 import ionwright
-from ionwright.inputs import _analysis, _recipe
+from ionwright.inputs import _analytes, _recipe
 
 if sys.version_info >= (3, 11):
     import tomllib
@@ -74,7 +74,7 @@ def test_the_readme_shows_the_commands():
 
 @pytest.mark.parametrize("keys, heading", [
     (_recipe.TOP_KEYS, "top-level"), (_recipe.FIX_KEYS, "[fix]"), (_recipe.ADD_KEYS, "[[add]]"),
-    (_recipe.POUR_KEYS, "[[pour]]"), (_analysis.NAMED_KEYS, "[analysis]")])
+    (_recipe.POUR_KEYS, "[[pour]]"), (_analytes.NAMED_KEYS, "[analysis]")])
 def test_developers_lists_every_recipe_key(keys, heading):
     text = (ROOT / "DEVELOPERS.md").read_text(encoding="utf-8")
     section = text[text.index("## Recipe keys"):]

@@ -132,7 +132,7 @@ def test_given_density_is_used():
 
 @pytest.mark.parametrize("analysis, where, problem", [
     ({"pH": 7, "Hg": "0.1 mg/L"}, "[analysis] Hg", "no component for 'Hg'"),
-    ({"pH": 7, "Fe": "0.1 mg/L"}, "[analysis] Fe", "'Fe' could be Fe2+ or Fe3+"),
+    ({"pH": 7, "SO3": "0.1 mg/L"}, "[analysis] SO3", "'SO3' could be SO4^2- or HS-"),
     ({"pH": 7, "HCO3": "100 mg/L"}, "[analysis] HCO3", "carbonate is given as alkalinity"),
     ({"Ca": "10 mg/L", "alkalinity": "50 mg/L as CaCO3"}, "[analysis] alkalinity",
      "needs the measured pH"),

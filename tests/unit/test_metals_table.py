@@ -58,3 +58,27 @@ def test_alum_is_the_water_treatment_aluminium_sulfate(tables):
 def test_a_recipe_without_metals_compiles_no_metal_species():
     result = ionwright.solve({"tables": ["core", "metals"], "dissolve": {"NaCl": 0.01}})
     assert not any(name.startswith(("Fe", "Al", "Cu")) for name in result.system.species)
+
+
+@pytest.mark.parametrize("name, formula", [
+    ("ferric chloride", "FeCl3"), ("iron(III) chloride hexahydrate", "FeCl3·6H2O"),
+    ("ferrous sulfate heptahydrate", "FeSO4·7H2O"), ("iron(II) sulfate heptahydrate", "FeSO4·7H2O"),
+    ("aluminium sulfate octadecahydrate", "Al2(SO4)3·18H2O"),
+    ("aluminum sulfate tetradecahydrate", "Al2(SO4)3·14H2O"),
+    ("copper(II) sulfate pentahydrate", "CuSO4·5H2O"), ("zinc sulphate heptahydrate", "ZnSO4·7H2O"),
+    ("lead(II) nitrate", "Pb(NO3)2"), ("lead nitrate", "Pb(NO3)2"),
+    ("strontium chloride hexahydrate", "SrCl2·6H2O"), ("barium chloride dihydrate", "BaCl2·2H2O"),
+    ("sodium bromide", "NaBr"), ("lithium chloride", "LiCl"),
+    ("disodium hydrogen arsenate heptahydrate", "Na2HAsO4·7H2O"), ("sodium arsenite", "NaAsO2"),
+    ("manganese(II) sulfate monohydrate", "MnSO4·H2O"), ("nickel(II) sulfate hexahydrate",
+                                                         "NiSO4·6H2O"),
+    ("sodium nitrite", "NaNO2"), ("ferric sulfate", "Fe2(SO4)3"),
+])
+def test_names_people_use_make_what_their_formula_makes(tables, name, formula):
+    assert makeup(name, tables).per_mole == makeup(formula, tables).per_mole
+
+
+def test_sodium_arsenate_without_its_cation_count_is_refused_with_the_three_salts():
+    with pytest.raises(ionwright.errors.RecipeError,
+                       match=r"NaH2AsO4.*Na2HAsO4.*Na3AsO4"):
+        ionwright.solve({"dissolve": {"sodium arsenate": 1e-4}})

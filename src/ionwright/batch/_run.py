@@ -43,7 +43,7 @@ from ..errors import IonwrightError, RecipeError, UnknownNameError
 from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
 from ..activity._validity import TOLERANCE_PERCENT, exceeded_rows
 from ..core._system import (PROTON, WATER, ChemicalSystem, compile_system, constant_notice,
-                            constant_outside)
+                            constant_outside, flat_constants_notice)
 from ..chemistry._density import Solute, ingredient_solute, volume_L_per_kg_water
 from ..inputs._recipe import DEFAULT_TABLES, MOLALITY_CEILING, Recipe, solution_of
 from ..engine._totals import component_totals, negative_totals
@@ -157,7 +157,7 @@ def plan_columns(headers: Sequence[str], tables: TableSet, species: Sequence[str
 
 
 def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Column:
-    from ..inputs._analysis import NAMED_KEYS, map_analyte
+    from ..inputs._analytes import NAMED_KEYS, map_analyte
     from ..chemistry._ingredients import makeup
     from ..inputs._units import parse_quantity
 
@@ -191,14 +191,15 @@ def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Colu
         brings = ("CO3^2-",) if name == "alkalinity" else ()
         return Column(header, "analysis", name, unit, components=brings)
     try:
-        component = map_analyte(name, tables, where)[0]
+        component = map_analyte(name, tables, where).component
         return Column(header, "analysis", name, unit, components=(component,))
-    except RecipeError:
-        pass
+    except RecipeError as exc:
+        as_analyte = f"as an analyte: {exc.problem} ({exc.hint})"
     try:
         made = makeup(name, tables)
     except IonwrightError as exc:
-        return Column(header, "amount", name, unit, problem=_first_line(exc))
+        return Column(header, "amount", name, unit,
+                      problem=f"{_first_line(exc)}; {as_analyte}")
     return Column(header, "amount", name, unit, components=tuple(made.per_mole))
 
 
@@ -550,9 +551,15 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
     for text, mask in flagged:
         texts.append(text)
         flags.append(ok & mask)
-    for name, logk in system.temperature_checks():
-        texts.append(constant_notice(name, logk).text)
-        flags.append(ok & constant_outside(logk, t))
+    checks = system.temperature_checks()
+    for name, logk in checks:
+        if logk.range_C is not None:
+            texts.append(constant_notice(name, logk).text)
+            flags.append(ok & constant_outside(logk, t))
+    flat = [(name, logk) for name, logk in checks if logk.range_C is None]
+    if flat:  # one rule for all of them: away from 25 °C
+        texts.append(flat_constants_notice([name for name, _ in flat]).text)
+        flags.append(ok & constant_outside(flat[0][1], t))
     matrix = np.stack(flags, axis=1)
     _, first, which = np.unique(_row_codes(matrix), return_index=True, return_inverse=True)
     joined = np.array(["; ".join(t for t, f in zip(texts, matrix[r]) if f) for r in first],

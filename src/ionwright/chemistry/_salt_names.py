@@ -7,8 +7,8 @@ sulfate" Al2(SO4)3, "sodium hydroxide" NaOH, "hydrochloric acid" HCl. A name is 
 an anion that carries protons takes as many as the named cations leave open. The formula
 then goes the usual way (split into components by element and charge balance).
 
-A phosphate named without its cation count ("sodium phosphate") is refused: on a lab
-shelf that name means any of three salts.
+A phosphate or arsenate named without its cation count ("sodium phosphate") is refused:
+on a lab shelf that name means any of three salts.
 """
 
 from __future__ import annotations
@@ -24,6 +24,8 @@ CATIONS = {
     "manganese": ("Mn", 2), "manganese(ii)": ("Mn", 2), "iron(ii)": ("Fe", 2),
     "ferrous": ("Fe", 2), "iron(iii)": ("Fe", 3), "ferric": ("Fe", 3), "copper": ("Cu", 2),
     "copper(ii)": ("Cu", 2), "cupric": ("Cu", 2), "aluminium": ("Al", 3), "aluminum": ("Al", 3),
+    "lead(ii)": ("Pb", 2), "zinc(ii)": ("Zn", 2), "nickel(ii)": ("Ni", 2),
+    "cadmium(ii)": ("Cd", 2), "aluminium(iii)": ("Al", 3), "aluminum(iii)": ("Al", 3),
 }
 #: anion words: (formula, charge, protons it can take)
 ANIONS = {
@@ -31,15 +33,17 @@ ANIONS = {
     "nitrate": ("NO3", -1, 0), "hydroxide": ("OH", -1, 0), "sulfate": ("SO4", -2, 1),
     "sulphate": ("SO4", -2, 1), "carbonate": ("CO3", -2, 1), "phosphate": ("PO4", -3, 2),
     "bicarbonate": ("HCO3", -1, 0), "bisulfate": ("HSO4", -1, 0), "bisulphate": ("HSO4", -1, 0),
+    "nitrite": ("NO2", -1, 0), "arsenate": ("AsO4", -3, 2),
+    "arsenite": ("AsO2", -1, 0),   # as sold: the meta-arsenite (sodium arsenite is NaAsO2)
 }
 #: acids named as such
 ACIDS = {"hydrochloric acid": "HCl", "sulfuric acid": "H2SO4", "sulphuric acid": "H2SO4",
          "nitric acid": "HNO3", "phosphoric acid": "H3PO4", "orthophosphoric acid": "H3PO4",
          "hydrofluoric acid": "HF", "hydrobromic acid": "HBr"}
 COUNTS = {"mono": 1, "di": 2, "tri": 3, "tetra": 4, "penta": 5, "hexa": 6, "hepta": 7,
-          "octa": 8, "nona": 9, "deca": 10, "undeca": 11, "dodeca": 12}
-HYDRATE = re.compile(r"(mono|di|tri|tetra|penta|hexa|hepta|octa|nona|deca|undeca|dodeca)"
-                     r"hydrate$")
+          "octa": 8, "nona": 9, "deca": 10, "undeca": 11, "dodeca": 12, "tetradeca": 14,
+          "hexadeca": 16, "octadeca": 18}
+HYDRATE = re.compile(rf"({'|'.join(sorted(COUNTS, key=len, reverse=True))})hydrate$")
 ANHYDROUS = "anhydrous"
 #: words a name may be made of (for suggestions of misspelt names)
 VOCABULARY = (*CATIONS, *ANIONS, "hydrogen", "dihydrogen", ANHYDROUS,
@@ -94,13 +98,12 @@ def _salt(words: list[str]) -> str | None:
     if anion is None:
         return None
     (symbol, z), (group, q, takes) = CATIONS[cation], ANIONS[anion]
-    if protons is None and takes and cation_count is None and anion_count is None \
-            and group == "PO4":
+    if protons is None and takes == 2 and cation_count is None and anion_count is None:
         mono, di, tri = (_compose(symbol, z, n, group, q, takes, None, None) for n in (1, 2, 3))
         raise AmbiguousSaltName(
             f"{' '.join(words)!r} may mean any of three salts; name the one meant: "
-            f"mono{cation} phosphate ({mono}), di{cation} phosphate ({di}) or "
-            f"tri{cation} phosphate ({tri})")
+            f"mono{cation} {anion} ({mono}), di{cation} {anion} ({di}) or "
+            f"tri{cation} {anion} ({tri})")
     return _compose(symbol, z, cation_count, group, q, takes, protons, anion_count)
 
 

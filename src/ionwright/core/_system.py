@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from functools import cached_property, partial
-from typing import Iterable
+from typing import Iterable, Sequence
 
 import numpy as np
 
@@ -26,6 +26,8 @@ PROTON = "H+"
 KELVIN = 273.15
 #: A constant without temperature dependence used further than this from 25 °C is noted.
 FLAT_CONSTANT_SPAN_C = 5.0
+#: Entries named in the text of the notice on constants without temperature dependence.
+FLAT_NAMES_SHOWN = 6
 
 
 def log10_k_at(logk: LogK, t_C: np.ndarray) -> np.ndarray:
@@ -130,9 +132,12 @@ class ChemicalSystem:
 
     def _notes(self, lo: float, hi: float) -> list[Notice]:
         span = np.array([lo, hi])
-        return [constant_notice(name, logk, _span(lo, hi))
-                for name, logk in self.temperature_checks()
-                if constant_outside(logk, span).any()]
+        outside = [(name, logk) for name, logk in self.temperature_checks()
+                   if constant_outside(logk, span).any()]
+        ranged = [constant_notice(name, logk, _span(lo, hi)) for name, logk in outside
+                  if logk.range_C is not None]
+        flat = [name for name, logk in outside if logk.range_C is None]
+        return ranged + ([flat_constants_notice(flat, _span(lo, hi))] if flat else [])
 
     def index(self, species: str) -> int:
         return self.species.index(species)
@@ -152,15 +157,31 @@ def constant_outside(logk: LogK, t_C: np.ndarray) -> np.ndarray:
 def constant_notice(name: str, logk: LogK, used: str = "") -> Notice:
     """The notice for entry *name* used outside what its log K is known for; *used* says at
     which temperatures (°C), when they are known."""
+    if logk.range_C is None:
+        return flat_constants_notice([name], used)
     at = f"; used at {used} °C" if used else ""
-    if logk.range_C is not None:
-        lo, hi = logk.range_C
-        return Notice(VALIDITY, "temperature-range",
-                      f"log K of {name!r} is known for {lo:g}–{hi:g} °C{at}",
-                      {"entry": name, "range_C": [lo, hi]})
-    return Notice(VALIDITY, "no-temperature-dependence",
-                  f"log K of {name!r} has no temperature dependence in its table; the 25 °C "
-                  f"value was used{' at ' + used + ' °C' if used else ''}", {"entry": name})
+    lo, hi = logk.range_C
+    return Notice(VALIDITY, "temperature-range",
+                  f"log K of {name!r} is known for {lo:g}–{hi:g} °C{at}",
+                  {"entry": name, "range_C": [lo, hi]})
+
+
+def flat_constants_notice(names: Sequence[str], used: str = "") -> Notice:
+    """One notice for all the entries *names* whose log K has no temperature dependence,
+    used away from 25 °C: a metals analysis uses dozens, one line each would bury the
+    rest of the result. The data lists every entry; the text names the first few."""
+    at = f" at {used} °C" if used else ""
+    if len(names) == 1:
+        text = (f"log K of {names[0]!r} has no temperature dependence in its table; the "
+                f"25 °C value was used{at}")
+    else:
+        shown = ", ".join(names[:FLAT_NAMES_SHOWN])
+        more = f" and {len(names) - FLAT_NAMES_SHOWN} more" if len(names) > FLAT_NAMES_SHOWN else ""
+        text = (f"{len(names)} entries have no temperature dependence of log K in their "
+                f"tables ({shown}{more}; the explained listing names them); their 25 °C "
+                f"values were used{at}")
+    return Notice(VALIDITY, "no-temperature-dependence", text,
+                  {"entry": names[0], "entries": list(names)})
 
 
 def _span(lo: float, hi: float) -> str:

@@ -1,12 +1,12 @@
 """Water analyses: a lab report's ions, alkalinity and field pH as component totals.
 
-``[analysis]`` lists analytes by formula (``Ca``, ``SO4``, ``NO3``, ``SiO2``) or name
-(``ammonia``, ``sulfide``, ``silica``) in mg/L, µg/L, mmol/L, meq/L or mol/kg, with
+``[analysis]`` lists analytes by formula (``Ca``, ``SO4``, ``NO3``, ``SiO2``, ``Fe(III)``)
+or name (``ammonia``, ``silica``, ``iron``) in mg/L, µg/L, mmol/L, meq/L or mol/kg, with
 ``"as N"``-style bases, plus ``temperature_C``, a measured ``pH``, ``alkalinity``
-(total, to the carbonic-acid end point), an optional ``density`` and ``balance_on``.
-Each analyte maps to the one component of the tables made of the same elements (other
-than H and O); the per-litre values become mol per kg of water with the solution
-density. Alkalinity and pH together fix the carbonate total, which is fitted with the
+(total, to the carbonic-acid end point), an optional ``density``, ``balance_on`` and
+the state keys (``iron_state``, ``arsenic_state``). Which component each analyte counts
+as is decided by :mod:`ionwright.inputs._analytes` (shared with the batch columns); the
+per-litre values become mol per kg of water with the solution density. Alkalinity and pH together fix the carbonate total, which is fitted with the
 engine's own speciation (constants, activity coefficients and ion pairs), so that the
 solved sample reproduces the measured alkalinity. ``balance_on = "Cl"`` adjusts that
 ion until the sample is electroneutral instead of reporting the imbalance. Without a
@@ -25,26 +25,23 @@ from typing import Any, Mapping
 import numpy as np
 
 from ..chemistry._density import component_solute
-from ..chemistry._formula import Formula, parse_formula
+from ..chemistry._formula import parse_formula
 from ..chemistry._tableset import TableSet
 from ..core._acid_base import ALKALINITY_END_POINT_PH
-from ..errors import FormulaError, RecipeError
+from ..errors import RecipeError
+from ._analytes import NAMED_KEYS, Analyte, map_analyte, read_states
 from ._checks import as_number, check_temperature, given_density
 from ._mixing import Conversion, Entry, Mixture, mix
 from ._units import (CALCIUM_CARBONATE, CALCIUM_CARBONATE_EQUIVALENTS, Quantity,
                      basis_moles_per_mole, expect, parse_quantity)
 
-NAMED_KEYS = {"temperature_C", "pH", "alkalinity", "balance_on", "density"}
 #: pH a meter reads in a water sample; beyond it a value is a slip (a conductivity, a unit)
 MEASURED_PH = (0.0, 14.0)
-#: Analytes written by name, and the formula their mass refers to.
-ANALYTE_NAMES = {"ammonia": "NH3", "sulfide": "S", "silica": "SiO2"}
 ANALYTE_DIMENSIONS = ("mass_per_volume", "molarity", "molality", "equivalents",
                       "mass_fraction")
 ALKALINITY_DIMENSIONS = ("equivalents", "mass_per_volume", "molarity")
 CARBONATE = "CO3^2-"
 PROTON = "H+"
-LIGHT = {"H", "O"}
 
 
 @dataclass(frozen=True)
@@ -84,12 +81,14 @@ def read_analysis(section: Any, origin: str, tables: TableSet) -> AnalysisFit:
             raise RecipeError(f"{where} pH", f"{ph:g} is not a pH measured in water",
                               f"give the field pH, between {low:g} and {high:g}")
     density = given_density(section, where)
+    states = read_states(section, tables, where)
     given: list[Entry] = []
     keys: dict[str, str] = {}
     for key, value in section.items():
         if key in NAMED_KEYS:
             continue
-        component, formula, per_analyte = map_analyte(key, tables, f"{where} {key}")
+        analyte = map_analyte(key, tables, f"{where} {key}", states)
+        component = analyte.component
         if component in keys.values():
             other = next(k for k, c in keys.items() if c == component)
             raise RecipeError(f"{where} {key}", f"maps to {component}, as {other!r} does",
@@ -97,7 +96,7 @@ def read_analysis(section: Any, origin: str, tables: TableSet) -> AnalysisFit:
         keys[key] = component
         quantity = expect(parse_quantity(value, f"{where} {key}"), ANALYTE_DIMENSIONS,
                           f"{where} {key}")
-        given.append(_analyte_entry(component_solute(component, tables), formula, per_analyte,
+        given.append(_analyte_entry(component_solute(component, tables), analyte,
                                     quantity, f"{where} {key}", f"[analysis] {key}"))
     alkalinity = _alkalinity(section, ph, where)
     balance = _balance_target(section, ph, keys, tables, where)
@@ -162,58 +161,11 @@ def _one_sided(totals: Mapping[str, float], tables: TableSet, where: str) -> Non
                           "alkalinity, or Na, Ca, Mg), or balance_on an ion")
 
 
-def map_analyte(key: str, tables: TableSet, where: str) -> tuple[str, Formula, float]:
-    """(component, formula the analyte's mass refers to, mol component per mol analyte).
-
-    The component is the one made of the same elements other than H and O (SiO2 →
-    H4SiO4, NH4 → NH3); where two share them (SO4-2 and HS- for S) the one that also
-    matches the oxygen count wins.
-    """
-    text = ANALYTE_NAMES.get(key, key)
-    try:
-        formula = parse_formula(text)
-    except FormulaError:
-        raise RecipeError(where, f"unknown analysis key {key!r}", "analytes are element or "
-                          "ion formulas such as Ca, Mg, SO4, NO3, SiO2, or "
-                          f"{', '.join(ANALYTE_NAMES)}; other keys: "
-                          f"{', '.join(sorted(NAMED_KEYS))}") from None
-    heavy = set(formula.elements) - LIGHT
-    if "C" in heavy:
-        raise RecipeError(where, f"{key!r}: carbonate is given as alkalinity, with the pH",
-                          'e.g. alkalinity = "160 mg/L as CaCO3"')
-    if not heavy:
-        raise RecipeError(where, f"{key!r} names no element but H and O",
-                          "give the pH as pH, alkalinity as alkalinity")
-    candidates = [c for c, comp in tables.components.items()
-                  if c not in (PROTON, "H2O") and set(comp.elements) - LIGHT == heavy]
-    if len(candidates) > 1:
-        exact = [c for c in candidates if _without_hydrogen(tables.components[c].elements)
-                 == _without_hydrogen(formula.elements)]
-        candidates = exact or candidates
-    if not candidates:
-        raise RecipeError(where, f"the tables have no component for {key!r} (made of "
-                          f"{', '.join(sorted(heavy))})", "add the ion to a table "
-                          "(`ionwright tables show components` lists them) or remove the entry")
-    if len(candidates) > 1:
-        raise RecipeError(where, f"{key!r} could be {' or '.join(candidates)}",
-                          "write the ion more fully, e.g. SO4 or S for sulfide")
-    component = candidates[0]
-    elements = tables.components[component].elements
-    ratios = {formula.elements[el] / elements[el] for el in heavy}
-    if len(ratios) != 1:
-        raise RecipeError(where, f"{key!r} does not map onto {component} one to one",
-                          "give the ion's own formula")
-    return component, formula, ratios.pop()
-
-
-def _without_hydrogen(elements: Mapping[str, float]) -> dict[str, float]:
-    return {el: n for el, n in elements.items() if el != "H"}
-
-
-def _analyte_entry(solute, formula: Formula, per_analyte: float, quantity: Quantity,
-                   where: str, label: str) -> Entry:
+def _analyte_entry(solute, analyte: Analyte, quantity: Quantity, where: str,
+                   label: str) -> Entry:
     """The per-litre or per-kg entry of an analyte's *quantity*, in mol of its component."""
-    entry = Entry(solute, "component", label, quantity.text)
+    formula, per_analyte = analyte.formula, analyte.per_mole
+    entry = Entry(solute, "component", label, quantity.text, note=analyte.note)
     d, v = quantity.dimension, quantity.value
     if d in ("mass_per_volume", "mass_fraction"):  # g per litre, or g per g of solution
         if quantity.basis is None:
@@ -278,7 +230,7 @@ def _balance_target(section: Mapping[str, Any], ph: float | None, keys: Mapping[
     if ph is None:
         raise RecipeError(here, "balancing needs the measured pH (without it, the pH itself "
                           "is found from electroneutrality)", "add pH, or remove balance_on")
-    component = keys.get(key) or map_analyte(key, tables, here)[0]
+    component = keys.get(key) or map_analyte(key, tables, here).component
     if tables.components[component].charge == 0:
         raise RecipeError(here, f"{key!r} ({component}) carries no charge",
                           "balance on a major ion such as Cl or Na")
