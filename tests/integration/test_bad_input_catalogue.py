@@ -163,6 +163,8 @@ API = [
             ("need to know",), ("water =",)),
     Refusal("volume as water", solve_map({"water": "1 L", "dissolve": {"NaCl": "3 g"}}),
             RecipeError, ("water", "'1 L'"), ("unit",)),
+    Refusal("water as a plain number", solve_map({"water": 1.0, "dissolve": {"NaCl": "3 g"}}),
+            RecipeError, ("water", "1.0", "no unit"), ('"1.000 kg"',)),
     Refusal("volume 0 L", solve_map({"volume": "0 L", "dissolve": {"NaCl": "3 g"}}),
             RecipeError, ("volume", "0 L"), ("give",)),
     Refusal("water 0 kg", solve_map({"water": "0 kg", "dissolve": {"NaCl": "3 g"}}),
@@ -633,6 +635,10 @@ ACCEPTED = {
                      abs=1e-12),
     "Decimal amount": lambda: _ph({"dissolve": {"NaCl": Decimal("0.15"), "HEPES": 0.05}})
     == pytest.approx(_ph(RINSE_MAP), abs=1e-12),
+    "Decimal solid amount": lambda: ionwright.solve(
+        {"dissolve": {"CaCl2": 0.001}, "solids": {"calcite": Decimal("0.001")}}).pH
+    == pytest.approx(ionwright.solve({"dissolve": {"CaCl2": 0.001},
+                                      "solids": {"calcite": 0.001}}).pH, abs=1e-12),
     "NumPy int temperature": lambda: ionwright.solve(
         {"temperature_C": np.int64(30), **RINSE_MAP}).temperature_C == 30.0,
     "ppm is mg per kg of solution": lambda: ionwright.read_recipe(

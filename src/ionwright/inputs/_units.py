@@ -13,8 +13,10 @@ would cost more import time than the table below costs lines.
 from __future__ import annotations
 
 import math
+import numbers
 import re
 from dataclasses import dataclass
+from decimal import Decimal
 
 from ..errors import FormulaError, RecipeError, close_matches
 from ..chemistry._formula import Formula, parse_formula
@@ -93,6 +95,10 @@ def parse_quantity(text: object, where: str) -> Quantity:
         For a value that is not text, a missing number or unit, an unknown unit, a
         negative or non-finite number, or a basis that is not a formula.
     """
+    if isinstance(text, (numbers.Real, Decimal)) and not isinstance(text, bool):
+        raise RecipeError(where, f"{text!r} has no unit: this key needs a number with its "
+                          "unit, in quotes", 'write it in quotes with its unit, e.g. '
+                          '"48 mg/L", "1.0 mol/L", "3.40 g" or "1.000 kg"')
     if not isinstance(text, str):
         raise RecipeError(where, f"{text!r} must be a number, or a number with a unit in "
                           "quotes", 'e.g. 0.1 (mol per kg of water) or "3.40 g" or "48 mg/L"')
