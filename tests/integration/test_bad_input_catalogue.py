@@ -685,6 +685,9 @@ WARNED = {
     "a buffer of tiny capacity": (lambda: design_buffer(
         "HEPES", 10.5, "50 mmol/L", titrant="NaOH 1 mol/L").to_dict()["warnings"],
         "buffer capacity"),
+    "a buffer of a nanomole per litre": (lambda: design_buffer(
+        "HEPES", 7.5, "1e-9 mol/L", titrant="NaOH 1 mol/L").to_dict()["warnings"],
+        "check the concentration"),
     "a titrant that crowds the batch": (lambda: design_buffer(
         "HEPES", 7.5, "50 mmol/L", titrant="NaOH 0.05 mol/L").to_dict()["warnings"],
         "more than the 20 %"),
