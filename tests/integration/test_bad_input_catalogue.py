@@ -179,6 +179,9 @@ API = [
             RecipeError, ("NaCl", "1e9 mg/L"), ("check",)),
     Refusal("CaCl2 1000 mol/kg", solve_map({"dissolve": {"CaCl2": 1000}}), RecipeError,
             ("'CaCl2'", "1000"), ("mol per kg",)),
+    Refusal("CaCl2 45 mol/kg, a salt with no solid in the tables", solve_map(
+        {"activity_model": "pitzer", "dissolve": {"CaCl2": 45}}), RecipeError,
+        ("Ca2+ 45 mol/kg", "ionic strength of at least 135"), ("check each amount",)),
     Refusal("NaCl 1e30 mol/kg", solve_map({"dissolve": {"NaCl": 1e30}}), RecipeError,
             ("'NaCl'", "1e+30"), ("mol per kg",)),
     Refusal("analysis 1e12 mg/L", solve_map({"analysis": {"pH": 7.0, "Na": "1e12 mg/L",
@@ -639,6 +642,8 @@ ACCEPTED = {
         {"dissolve": {"CaCl2": 0.001}, "solids": {"calcite": Decimal("0.001")}}).pH
     == pytest.approx(ionwright.solve({"dissolve": {"CaCl2": 0.001},
                                       "solids": {"calcite": 0.001}}).pH, abs=1e-12),
+    "40 mol/kg phosphoric acid is mostly uncharged and solves": lambda: ionwright.solve(
+        {"dissolve": {"H3PO4": 40}}).pH < 1,
     "NumPy int temperature": lambda: ionwright.solve(
         {"temperature_C": np.int64(30), **RINSE_MAP}).temperature_C == 30.0,
     "ppm is mg per kg of solution": lambda: ionwright.read_recipe(

@@ -222,7 +222,7 @@ class BufferCard:
         bench = f"{self.bench_temperature_C:g} °C"
         if self.method == "titrate":
             lines.append(f"dissolve in about 80 % of the volume, then titrate with "
-                         f"{self.titrant}: about {_small_volume_text(self.titrant_mL)}")
+                         f"{self.titrant}: about {_small_volume_text(self.titrant_mL or 0.0)}")
             lines.append(f"  stop when the meter reads pH {self.bench_pH:.2f} at {bench}")
         else:
             lines.append("dissolve (a conjugate pair: no titration needed)")
