@@ -163,6 +163,8 @@ API = [
             ("need to know",), ("water =",)),
     Refusal("volume as water", solve_map({"water": "1 L", "dissolve": {"NaCl": "3 g"}}),
             RecipeError, ("water", "'1 L'"), ("unit",)),
+    Refusal("water as a plain number", solve_map({"water": 1.0, "dissolve": {"NaCl": "3 g"}}),
+            RecipeError, ("water", "1.0", "no unit"), ('"1.000 kg"',)),
     Refusal("volume 0 L", solve_map({"volume": "0 L", "dissolve": {"NaCl": "3 g"}}),
             RecipeError, ("volume", "0 L"), ("give",)),
     Refusal("water 0 kg", solve_map({"water": "0 kg", "dissolve": {"NaCl": "3 g"}}),
@@ -177,6 +179,9 @@ API = [
             RecipeError, ("NaCl", "1e9 mg/L"), ("check",)),
     Refusal("CaCl2 1000 mol/kg", solve_map({"dissolve": {"CaCl2": 1000}}), RecipeError,
             ("'CaCl2'", "1000"), ("mol per kg",)),
+    Refusal("CaCl2 45 mol/kg, a salt with no solid in the tables", solve_map(
+        {"activity_model": "pitzer", "dissolve": {"CaCl2": 45}}), RecipeError,
+        ("Ca2+ 45 mol/kg", "ionic strength of at least 135"), ("check each amount",)),
     Refusal("NaCl 1e30 mol/kg", solve_map({"dissolve": {"NaCl": 1e30}}), RecipeError,
             ("'NaCl'", "1e+30"), ("mol per kg",)),
     Refusal("analysis 1e12 mg/L", solve_map({"analysis": {"pH": 7.0, "Na": "1e12 mg/L",
@@ -633,6 +638,12 @@ ACCEPTED = {
                      abs=1e-12),
     "Decimal amount": lambda: _ph({"dissolve": {"NaCl": Decimal("0.15"), "HEPES": 0.05}})
     == pytest.approx(_ph(RINSE_MAP), abs=1e-12),
+    "Decimal solid amount": lambda: ionwright.solve(
+        {"dissolve": {"CaCl2": 0.001}, "solids": {"calcite": Decimal("0.001")}}).pH
+    == pytest.approx(ionwright.solve({"dissolve": {"CaCl2": 0.001},
+                                      "solids": {"calcite": 0.001}}).pH, abs=1e-12),
+    "40 mol/kg phosphoric acid is mostly uncharged and solves": lambda: ionwright.solve(
+        {"dissolve": {"H3PO4": 40}}).pH < 1,
     "NumPy int temperature": lambda: ionwright.solve(
         {"temperature_C": np.int64(30), **RINSE_MAP}).temperature_C == 30.0,
     "ppm is mg per kg of solution": lambda: ionwright.read_recipe(
@@ -679,6 +690,9 @@ WARNED = {
     "a buffer of tiny capacity": (lambda: design_buffer(
         "HEPES", 10.5, "50 mmol/L", titrant="NaOH 1 mol/L").to_dict()["warnings"],
         "buffer capacity"),
+    "a buffer of a nanomole per litre": (lambda: design_buffer(
+        "HEPES", 7.5, "1e-9 mol/L", titrant="NaOH 1 mol/L").to_dict()["warnings"],
+        "check the concentration"),
     "a titrant that crowds the batch": (lambda: design_buffer(
         "HEPES", 7.5, "50 mmol/L", titrant="NaOH 0.05 mol/L").to_dict()["warnings"],
         "more than the 20 %"),

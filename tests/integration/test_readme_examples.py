@@ -81,3 +81,15 @@ def test_developers_lists_every_recipe_key(keys, heading):
     section = section[:section.index("\n## ", 3)]
     missing = [k for k in keys if f"`{k}`" not in section]
     assert not missing, f"{heading} keys missing from DEVELOPERS.md: {missing}"
+
+
+def test_every_optional_extra_is_named_where_users_and_contributors_read():
+    """Each extra of pyproject.toml (but the test tools) is in the README as a pip command
+    and in DEVELOPERS.md with what needs it (issue 16: they were mentioned nowhere)."""
+    extras = tomllib.loads((ROOT / "pyproject.toml").read_text(encoding="utf-8"))[
+        "project"]["optional-dependencies"]
+    readme = (ROOT / "README.md").read_text(encoding="utf-8")
+    developers = (ROOT / "DEVELOPERS.md").read_text(encoding="utf-8")
+    for extra in set(extras) - {"test"}:
+        assert f'"ionwright[{extra}]"' in readme, extra
+        assert f"`{extra}`" in developers, extra

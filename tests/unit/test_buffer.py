@@ -82,3 +82,12 @@ def test_a_hot_buffer_still_warns_of_its_caustic_titrant():
     card = design_buffer("HEPES", 7.0, "50 mmol/L", temperature_C=95.0,
                          titrant="NaOH 10 mol/L")
     assert any("NaOH 10 mol/L" in c and "corrosive" in c for c in card.cautions)
+
+
+def test_small_amounts_are_written_in_units_that_show_them():
+    """A 100 mL batch of 0.2 mmol/L HEPES weighs 4.77 mg and takes about 9 µL of titrant;
+    the card printed "0.0048 g" and "0.009 mL" (and "0.0000 g" further down)."""
+    card = design_buffer("HEPES", 7.5, "0.2 mmol/L", volume="100 mL", titrant="NaOH 1 mol/L")
+    report = card.report()
+    assert "4.766 mg" in report and " uL" in report
+    assert "0.0000 g" not in report and "0.000 mL" not in report

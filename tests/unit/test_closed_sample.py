@@ -43,6 +43,7 @@ def test_a_dose_to_a_measured_sample_poured_back_with_it_gives_the_target(lake):
                                        "volume": f"{millilitres!r} mL"}]})
     assert poured.pH == pytest.approx(8.3, abs=1e-9)
     assert _closed_notes(found.result.notices)
+    assert "[[pour]] of the whole sample" in found.report()   # an [[add]] beside a held pH
     # what the dose adds is alkalinity, one equivalent per mole of NaOH
     added = found.amount_mol_per_kg * 50.04 * 1000.0
     assert found.result.to_dict()["derived"]["alkalinity_mg_per_L_as_CaCO3"] == pytest.approx(

@@ -67,3 +67,15 @@ def test_batch_rows_use_the_status_words_of_the_solver(monkeypatch):
     assert set(out["status"]) <= set(STATUSES)
     assert list(out["status"]) == ["converged", "invalid", "converged"]
     assert list(succeeded(out["status"].to_numpy())) == [True, False, True]
+
+
+def test_far_beyond_a_models_range_the_numbers_are_called_meaningless():
+    """CaCl2 far past Davies' range (at 45 mol/kg it printed pH -15) was merely 'less
+    certain' (issue 16); past ten times the model's range the notice says the numbers mean
+    nothing (CaCl2 3 mol/kg: I = 9, Davies holds to 0.2)."""
+    far = ionwright.solve({"dissolve": {"CaCl2": 3.0}})
+    (notice,) = [n for n in far.notices if n.code == "model-range"]
+    assert "not meaningful" in notice.text and "check the amounts" in notice.text
+    near = ionwright.solve({"dissolve": {"NaCl": 1.0}})
+    (notice,) = [n for n in near.notices if n.code == "model-range"]
+    assert "less certain" in notice.text and "not meaningful" not in notice.text

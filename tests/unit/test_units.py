@@ -29,6 +29,14 @@ from ionwright.inputs._units import basis_moles_per_mole, expect, parse_quantity
     ("3.2 meq/L", 3.2e-3, "equivalents"),
     ("10 % w/w", 0.10, "mass_fraction"),
     ("1e-3 mol", 1e-3, "amount"),
+    # per 100 mL and per decilitre, in either case of L (issue 16: "g/100 ml" was refused
+    # and "g/dL" was offered "g/L", ten times off)
+    ("0.9 g/100 mL", 9.0, "mass_per_volume"),
+    ("0.9 g/100 ml", 9.0, "mass_per_volume"),
+    ("0.9 g/dL", 9.0, "mass_per_volume"),
+    ("90 mg/dl", 0.9, "mass_per_volume"),
+    ("35 ppm", 35e-6, "mass_fraction"),
+    ("5 ppb", 5e-9, "mass_fraction"),   # "did you mean 'ppm'" was a thousand times off
 ])
 def test_quantities_parse_to_base_units(text, value, dimension):
     q = parse_quantity(text, "k")
@@ -61,6 +69,15 @@ def test_bad_quantities_name_the_key(text, problem):
         parse_quantity(text, "recipe.toml [dissolve] 'NaCl'")
     assert problem in str(err.value)
     assert "[dissolve] 'NaCl'" in str(err.value)
+
+
+def test_a_mass_per_kg_is_not_offered_an_amount_per_kg():
+    """"mg/kg" once got "did you mean 'mol/kg'": a mass is no amount, the hint says which
+    units mean a mass per kg of solution and which an amount per kg of water."""
+    with pytest.raises(RecipeError) as err:
+        parse_quantity("35 mg/kg", "k")
+    assert "did you mean" not in str(err.value)
+    assert "ppm" in err.value.hint and "mmol/kg" in err.value.hint
 
 
 def test_close_unit_is_suggested():

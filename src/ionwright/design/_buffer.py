@@ -217,12 +217,12 @@ class BufferCard:
                 f"{self.use_temperature_C:g} °C, {_volume_text(self.volume_L)}")
         lines = [head, "=" * len(head), "weigh out"]
         for w in self.weigh:
-            lines.append(f"  {w.name:<30}{w.grams:10.4f} g   ({w.formula}, "
+            lines.append(f"  {w.name:<30}{_mass_text(w.grams):>12}   ({w.formula}, "
                          f"{w.molar_mass:.2f} g/mol; {1000 * w.moles:.4g} mmol)")
         bench = f"{self.bench_temperature_C:g} °C"
         if self.method == "titrate":
             lines.append(f"dissolve in about 80 % of the volume, then titrate with "
-                         f"{self.titrant}: about {self.titrant_mL:.3f} mL")
+                         f"{self.titrant}: about {_small_volume_text(self.titrant_mL or 0.0)}")
             lines.append(f"  stop when the meter reads pH {self.bench_pH:.2f} at {bench}")
         else:
             lines.append("dissolve (a conjugate pair: no titration needed)")
@@ -245,6 +245,16 @@ class BufferCard:
 
 def _volume_text(volume_L: float) -> str:
     return f"{volume_L:g} L" if volume_L >= 1 else f"{1000 * volume_L:g} mL"
+
+
+def _mass_text(grams: float) -> str:
+    """A mass to weigh, to 0.1 mg on a balance, in mg below 0.1 g (never "0.0000 g")."""
+    return f"{grams:.4f} g" if grams >= 0.1 else f"{1000 * grams:.4g} mg"
+
+
+def _small_volume_text(mL: float) -> str:
+    """A titrant volume to the µL a pipette gives (never "0.000 mL")."""
+    return f"{mL:.3f} mL" if mL >= 1 else f"{1000 * mL:.3g} uL"
 
 
 @names_its_arguments
@@ -351,6 +361,10 @@ USEFUL_RANGE = 1.0
 #: Capacity below this share of the best a buffer of this concentration can give
 #: (β_max = ln 10 · C / 4, at pH = pKa) is worth a warning
 LOW_CAPACITY_SHARE = 0.1
+#: Capacity (mmol/(L·pH)) below which the buffer holds no pH at the bench at all: air's
+#: CO2 alone dissolves about 0.014 mmol/L at 420 µatm (K_H 10^-1.47 mol/(kg·atm), from
+#: memory), a tenth of a pH unit at this capacity
+MIN_CAPACITY_MMOL = 0.1
 
 
 def plausibility(card: BufferCard, concentration: float, tables) -> list[str]:
@@ -366,7 +380,12 @@ def plausibility(card: BufferCard, concentration: float, tables) -> list[str]:
                    f"common practice): it holds the pH poorly there; choose a buffer whose "
                    f"pKa is within {USEFUL_RANGE:g} of the target")
     best = LN10 * concentration / 4.0 * 1000.0
-    if card.capacity_mmol_per_L_pH < LOW_CAPACITY_SHARE * best:
+    if card.capacity_mmol_per_L_pH < MIN_CAPACITY_MMOL:
+        out.append(f"buffer capacity {card.capacity_mmol_per_L_pH:.3g} mmol/(L·pH) is below "
+                   f"{MIN_CAPACITY_MMOL:g}: a trace of acid, base or the air's CO2 moves this "
+                   "pH; check the concentration (buffers are usually made at 1 to 100 "
+                   "mmol/L)")
+    elif card.capacity_mmol_per_L_pH < LOW_CAPACITY_SHARE * best:
         out.append(f"buffer capacity {card.capacity_mmol_per_L_pH:.3g} mmol/(L·pH) is under "
                    f"{100 * LOW_CAPACITY_SHARE:g} % of the {best:.3g} this concentration gives "
                    "at its pKa: a small addition of acid or base will move the pH; choose a "

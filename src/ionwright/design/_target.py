@@ -90,6 +90,7 @@ class TargetResult:
     stock_mL_per_kg_water: float | None = None
     recipe_water_kg: float = 1.0
     cautions: list[str] = field(default_factory=list)
+    closed_sample: bool = False     # the recipe fixed its pH: dosed as a closed sample
 
     @property
     def pH(self) -> float:
@@ -122,9 +123,11 @@ class TargetResult:
                   f"of water ({grams:.5g} g/kg)")]
         if self.stock is not None and self.stock_mL_per_kg_water is not None:
             millilitres = self.stock_mL_per_kg_water * self.recipe_water_kg
+            how = ("a [[pour]] of the whole sample and an [[add]] of that volume" if
+                   self.closed_sample else "an [[add]] of that volume")
             lines.append(f"  as {self.stock.label:<15}{millilitres:12.5g} mL added to the recipe "
-                         f"as written (an [[add]] of that volume; "
-                         f"{self.stock_mL_per_kg_water:.5g} mL per kg of its water)")
+                         f"as written ({how}; {self.stock_mL_per_kg_water:.5g} mL per kg of "
+                         f"its water)")
         lines.append(f"  pH re-solved      {self.pH:12.6f}")
         lines += [f"  - {c}" for c in self.cautions]
         return "\n".join(lines) + "\n\n" + r.report()
@@ -172,7 +175,8 @@ def target(recipe: str | Path | Mapping[str, Any] | Recipe, pH: float, adjust: s
     notes = texts(of_category(result.notices, CAUTION))
     if held is not None:
         notes += stock_cautions(held, bench)
-    return TargetResult(made.name, pH, amount, result, held, volume, water, notes)
+    return TargetResult(made.name, pH, amount, result, held, volume, water, notes,
+                        closed_sample=bench is not opened)
 
 
 def _volume_for(amount: float, n_L: float, w_L: float) -> float:

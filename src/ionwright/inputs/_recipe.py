@@ -179,7 +179,8 @@ def _from_mapping(data: dict[str, Any], origin: str, base_dir: Path,
     recipe = Recipe(temperature_C=t, activity_model=model, tables=tables,
                     fix=fixed, title=str(data.get("title", "")), origin=origin,
                     base_dir=base_dir,
-                    phases={k: data[k] for k in ("solids", "gases") if k in data},
+                    phases={k: _numbers_as_floats(data[k]) for k in ("solids", "gases")
+                            if k in data},
                     dissolve=tuple((name, _plain_amount(value, origin, name))
                                    for name, value in dissolve.items()) if plain else ())
     if plain:  # amounts in mol/kg of water as given: nothing to convert
@@ -402,6 +403,14 @@ def _fix(fix: Any, origin: str) -> dict[str, float]:
     if "pH" in fixed:
         check_ph(fixed["pH"], f"{origin} [fix] pH")
     return fixed
+
+
+def _numbers_as_floats(table: Any) -> Any:
+    """A [solids] or [gases] table with its numbers of any type (NumPy, Decimal) as floats,
+    which is what the phase reader takes for a plain amount; anything else as given."""
+    if not isinstance(table, Mapping):
+        return table
+    return {k: float(v) if is_number(v) else v for k, v in table.items()}
 
 
 def _plain_amount(value: Any, origin: str, name: str) -> float:

@@ -10,6 +10,11 @@ the saturation of such salts activity coefficients are of order one, so the boun
 close to the truth; a recipe merely past saturation (7 mol/kg NaCl) is solved and its
 saturation index reported with a warning (:mod:`ionwright.outputs._supersaturation`).
 A solid listed under ``[solids]`` is a slurry on purpose and is never refused.
+
+Salts without a solid in the tables get a cruder bound: the ionic strength of the ions
+no pH takes apart (Na+, Ca2+, Cl-: a floor of the real one) past
+:data:`IONIC_STRENGTH_CEILING` (CaCl2 at 45 mol/kg ran 22 s to a solver failure with
+Pitzer and printed pH −15 with Davies).
 """
 
 from __future__ import annotations
@@ -25,6 +30,28 @@ from ..errors import RecipeError
 
 SOLUBLE_LOG_K = -1.0     # log10 Ksp of the salts the check covers (halite 1.57, sylvite 0.90)
 ABSURD_SI = 1.0          # ideal SI at which a recipe is refused: 10 × the solubility product
+#: Ionic strength (mol/kg, every ion free) no model here describes: ten times the range of
+#: the widest bundled one (Pitzer, 6 mol/kg); the strongest brines, CaCl2 near saturation
+#: at 100 °C, stay near 43 (about 14 mol/kg, from memory)
+IONIC_STRENGTH_CEILING = 60.0
+
+
+def refuse_past_any_ionic_strength(totals: Mapping[str, float], charges: Mapping[str, float],
+                                   where: str) -> None:
+    """Raise :class:`RecipeError` when the components of *charges* (the ions no species
+    protonates), at their *totals* (mol/kg), alone give an ionic strength past
+    :data:`IONIC_STRENGTH_CEILING`: no solution holds that much, and no activity model means
+    anything there."""
+    strength = 0.5 * sum(charges.get(c, 0.0) ** 2 * m for c, m in totals.items() if m > 0)
+    if strength > IONIC_STRENGTH_CEILING:
+        ions = sorted((c for c in totals if charges.get(c) and totals[c] > 0),
+                      key=lambda c: -charges[c] ** 2 * totals[c])
+        named = ", ".join(f"{c} {totals[c]:.3g} mol/kg" for c in ions[:3])
+        raise RecipeError(where, f"its ions ({named}) give an ionic strength of at least "
+                          f"{strength:.3g} mol/kg, past {IONIC_STRENGTH_CEILING:g}: no solution "
+                          "holds that much, and no activity model describes it",
+                          "check each amount and its unit (mol/kg or mmol/kg, g or mg, mol/L "
+                          "or mmol/L)")
 
 
 def refuse_past_any_solubility(totals: Mapping[str, float], tables: TableSet, t_C: float,

@@ -13,8 +13,10 @@ would cost more import time than the table below costs lines.
 from __future__ import annotations
 
 import math
+import numbers
 import re
 from dataclasses import dataclass
+from decimal import Decimal
 
 from ..errors import FormulaError, RecipeError, close_matches
 from ..chemistry._formula import Formula, parse_formula
@@ -46,16 +48,21 @@ UNITS: dict[str, tuple[str, int]] = {
     "mg/mL": ("mass_per_volume", 0), "g/mL": ("mass_per_volume", 3),
     "g/cm3": ("mass_per_volume", 3), "kg/L": ("mass_per_volume", 3),
     "kg/m3": ("mass_per_volume", 0), "%w/v": ("mass_per_volume", 1),
-    "g/100mL": ("mass_per_volume", 1),
+    "g/100mL": ("mass_per_volume", 1), "g/dL": ("mass_per_volume", 1),
+    "mg/dL": ("mass_per_volume", -2),
     "eq/L": ("equivalents", 0), "meq/L": ("equivalents", -3), "ueq/L": ("equivalents", -6),
     "%w/w": ("mass_fraction", -2),
     "ppm": ("mass_fraction", -6),       # mg per kg of solution (not mg/L: see DEVELOPERS.md)
+    "ppb": ("mass_fraction", -9),       # ug per kg of solution
 }
 
 #: Alternative spellings folded onto the keys of :data:`UNITS`.
 _SPELLINGS = {"μ": "u", "µ": "u", "³": "3", "/l": "/L", "wt%": "%w/w", "(w/w)": "w/w",
               "(w/v)": "w/v"}
-_LOWER_LITRE = {"l": "L", "ml": "mL", "ul": "uL"}
+_LOWER_LITRE = {"l": "L", "ml": "mL", "ul": "uL", "dl": "dL"}
+#: A litre written in lower case after a slash and an optional count ("g/100 ml", "mg/dl")
+_PER_LOWER_LITRE = re.compile(r"(?P<head>.*/\d*)(?P<litre>l|ml|ul|dl)")
+_MASS_PER_KG = re.compile(r"(k|m|u|n)?g/kg")
 _QUANTITY = re.compile(
     r"^\s*(?P<number>[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*"
     r"(?P<unit>.*?)(?:\s+as\s+(?P<basis>\S+))?\s*$")
@@ -88,6 +95,10 @@ def parse_quantity(text: object, where: str) -> Quantity:
         For a value that is not text, a missing number or unit, an unknown unit, a
         negative or non-finite number, or a basis that is not a formula.
     """
+    if isinstance(text, (numbers.Real, Decimal)) and not isinstance(text, bool):
+        raise RecipeError(where, f"{text!r} has no unit: this key needs a number with its "
+                          "unit, in quotes", 'write it in quotes with its unit, e.g. '
+                          '"48 mg/L", "1.0 mol/L", "3.40 g" or "1.000 kg"')
     if not isinstance(text, str):
         raise RecipeError(where, f"{text!r} must be a number, or a number with a unit in "
                           "quotes", 'e.g. 0.1 (mol per kg of water) or "3.40 g" or "48 mg/L"')
@@ -109,6 +120,9 @@ def parse_quantity(text: object, where: str) -> Quantity:
         elif unit.startswith("g/100"):
             hint = ("write % w/w for g per 100 g of solution, or g/100 mL (the same as % w/v) "
                     "for g per 100 mL; ")
+        elif _MASS_PER_KG.fullmatch(unit):   # not "mol/kg": a mass is no amount
+            hint = ("per kg of solution write ppm (mg/kg) or ppb (ug/kg); per kg of water "
+                    "give the amount, e.g. mmol/kg; ")
         raise RecipeError(where, f"unknown unit {match['unit']!r} in {text!r}",
                           f"{hint}known units: {', '.join(UNITS)}")
     if not math.isfinite(value) or value < 0:
@@ -161,7 +175,7 @@ def _normalise(unit: str) -> str:
     for old, new in _SPELLINGS.items():
         unit = unit.replace(old, new)
     unit = re.sub(r"\s+", "", unit)
-    for old, new in _LOWER_LITRE.items():
-        if unit == old or unit.endswith("/" + old):
-            unit = unit[: len(unit) - len(old)] + new
-    return unit
+    if unit in _LOWER_LITRE:
+        return _LOWER_LITRE[unit]
+    per = _PER_LOWER_LITRE.fullmatch(unit)
+    return per["head"] + _LOWER_LITRE[per["litre"]] if per else unit

@@ -43,13 +43,26 @@ def beyond_model_range(model: Any, ionic_strength: np.ndarray | float) -> np.nda
     return np.logical_not(within(ionic_strength, model.max_ionic_strength))
 
 
+#: Past this many times a model's stated range its activity coefficients are no estimate
+#: at all (Davies at I = 135 mol/kg gives log γ = +20 and a pH of −15)
+FAR_BEYOND = 10.0
+
+
 def model_range_notice(model: Any, ionic_strength: float | None = None) -> Notice:
     """The notice for a solution beyond *model*'s stated range (*ionic_strength* None: the
-    text shared by many samples)."""
+    text shared by many samples); far beyond it, the numbers are called meaningless."""
     limit = model.max_ionic_strength
+    data = {"model": model.name, "ionic_strength": ionic_strength, "limit": limit}
+    if ionic_strength is not None and ionic_strength > FAR_BEYOND * limit:
+        return Notice(VALIDITY, "model-range",
+                      f"ionic strength {ionic_strength:.4g} mol/kg is far beyond the range "
+                      f"of the {model.name} model (up to about {limit:g} mol/kg; here more "
+                      f"than {FAR_BEYOND:g} times that): its activity coefficients, and with "
+                      f"them the pH and "
+                      f"the saturation indices, are not meaningful here; check the amounts, "
+                      f"or use a model valid at this strength", data)
     which = "" if ionic_strength is None else f" {ionic_strength:.4g} mol/kg is"
     return Notice(VALIDITY, "model-range",
                   f"ionic strength{which} beyond the range of the {model.name} model (up to "
                   f"about {limit:g} mol/kg); results are less certain; compare models or use "
-                  f"one valid at this strength",
-                  {"model": model.name, "ionic_strength": ionic_strength, "limit": limit})
+                  f"one valid at this strength", data)
