@@ -48,6 +48,7 @@ from ..chemistry._density import Solute, ingredient_solute, volume_L_per_kg_wate
 from ..inputs._recipe import DEFAULT_TABLES, MOLALITY_CEILING, Recipe, solution_of
 from ..engine._totals import component_totals, negative_totals
 from ..outputs._solved_samples import SolvedSamples
+from ._analyses import convert_analyses
 from ._cells import (BELOW_LIMIT_COLUMN, DEFAULT_DETECTION_POLICY, NOT_ANALYSED_COLUMN, Gaps,
                      check_policy, numeric_column, read_cells)
 from ._progress import ProgressCallback, RowProgress
@@ -157,6 +158,7 @@ def plan_columns(headers: Sequence[str], tables: TableSet, species: Sequence[str
 
 
 def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Column:
+    from ..inputs._analysis import CARBONATE_KEYS
     from ..inputs._analytes import NAMED_KEYS, map_analyte
     from ..chemistry._ingredients import makeup
     from ..inputs._units import parse_quantity
@@ -187,8 +189,8 @@ def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Colu
     except RecipeError as exc:
         return Column(header, "amount", name, unit,
                       problem=f"{unit!r} is not a unit ionwright knows ({exc.hint})")
-    if name in NAMED_KEYS or name == "alkalinity":
-        brings = ("CO3^2-",) if name == "alkalinity" else ()
+    if name in NAMED_KEYS or name in CARBONATE_KEYS:
+        brings = ("CO3^2-",) if name in CARBONATE_KEYS else ()
         return Column(header, "analysis", name, unit, components=brings)
     try:
         component = map_analyte(name, tables, where).component
@@ -278,7 +280,7 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
                   f"{lo:g}–{hi:g} °C")
             temperature = np.where(np.isfinite(numbers), numbers, DEFAULT_TEMPERATURE_C)
             gaps.note(empty, f"temperature not given: {DEFAULT_TEMPERATURE_C:g} °C assumed")
-        else:
+        elif col.key != "alkalinity":  # a Gran alkalinity may be negative
             _flag(problem, numbers < 0, lambda r: f"column {col.header!r}: {numbers[r]:g} is "
                   "negative; amounts must be ≥ 0")
             if col.kind == "ingredient":  # plain mol/kg, as a recipe's plausibility check
@@ -289,8 +291,11 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
     plain = [c for c in plan.columns if c.kind == "ingredient" and not c.problem]
     converted = [c for c in plan.columns if c.kind in ("amount", "analysis")]
     by_recipe = np.array([bool(b) for b in balance], dtype=bool)
+    measured = by_recipe.copy()   # rows that are water analyses, converted together
     for col in converted:
-        by_recipe |= np.nan_to_num(values[col.header]) > 0
+        given = np.nan_to_num(values[col.header]) != 0
+        by_recipe |= given
+        measured = (measured | given) if col.kind == "analysis" else measured & ~given
     from ..chemistry._ingredients import makeup
 
     for col in plain:  # the same additions, in the same order, as component_totals
@@ -303,14 +308,13 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         np.stack([np.nan_to_num(values[c.header]) for c in plain], axis=1)
         if plain else np.zeros((n, 0)), temperature)
     analysis = np.zeros(n, dtype=bool)
-    for r in np.flatnonzero(by_recipe):
-        if problem[r]:
-            continue
-        try:
-            recipe = _recipe_row(plan, values, int(r), tables, model, registry, balance[r])
-        except IonwrightError as exc:
-            problem[r] = _row_message(exc, plan)
-            continue
+    measured &= np.array([not p for p in problem], dtype=bool)
+    for col in plain:  # a row with plain ingredients is a recipe, not an analysis
+        measured &= ~(np.nan_to_num(values[col.header]) != 0)
+    _analysis_rows(np.flatnonzero(measured), plan, values, temperature, fixed_ph, balance,
+                   tables, model, registry, problem, totals, water, analysis)
+    for r, recipe in _recipe_rows(plan, values, by_recipe & ~measured, problem, tables, model,
+                                  registry, balance):
         row_totals, _ = component_totals(recipe, tables)
         totals[r] = [row_totals.get(c, 0.0) for c in comps]
         temperature[r] = recipe.temperature_C
@@ -339,6 +343,59 @@ def _balance_cells(raw, problem: list[str]) -> list[str]:
     return out
 
 
+def _analysis_rows(rows: np.ndarray, plan: Plan, values: Mapping[str, np.ndarray],
+                   temperature: np.ndarray, fixed_ph: np.ndarray, balance: Sequence[str],
+                   tables: TableSet, model: str, registry: Registry, problem: list[str],
+                   totals: np.ndarray, water: np.ndarray, analysis: np.ndarray) -> None:
+    """Convert the water-analysis *rows* together (:mod:`._analyses`) into *totals*,
+    *water* per litre and *analysis*; a row that cannot be converted gets its problem."""
+    if not rows.size:
+        return
+    columns = [c for c in plan.columns if c.kind == "analysis" and not c.problem]
+    converted = convert_analyses(columns, {c.header: values[c.header][rows] for c in columns},
+                                 temperature[rows], fixed_ph[rows],
+                                 [balance[r] for r in rows], tables, registry.model(model))
+    index = {c: j for j, c in enumerate(plan.components)}
+    for k, r in enumerate(rows):
+        if converted.problem[k]:
+            problem[r] = converted.problem[k]
+            continue
+        for comp, value in converted.totals[k].items():
+            totals[r, index[comp]] = value
+        water[r] = converted.water_kg_per_L[k]
+        analysis[r] = True
+
+
+def _recipe_rows(plan: Plan, values: Mapping[str, np.ndarray], by_recipe: np.ndarray,
+                 problem: list[str], tables: TableSet, model: str, registry: Registry,
+                 balance: Sequence[str]) -> Iterator[tuple[int, Recipe]]:
+    """(row, complete recipe) of every valid row read as a recipe or an analysis; the
+    analyses' fits are resolved together (:func:`ionwright.engine._fits.fit_analyses`),
+    a row whose reading or fit fails gets its problem instead."""
+    from ..engine._fits import fit_analyses
+    from ..engine._resolve import resolve
+    from ..inputs._analysis import AnalysisFit
+
+    pending: list[tuple[int, Recipe, AnalysisFit]] = []
+    for r in np.flatnonzero(by_recipe).tolist():
+        if problem[r]:
+            continue
+        try:
+            recipe = _recipe_row(plan, values, r, tables, model, registry, balance[r])
+            if isinstance(recipe.pending, AnalysisFit):
+                pending.append((r, recipe, recipe.pending))
+                continue
+            yield r, resolve(recipe, registry)
+        except IonwrightError as exc:
+            problem[r] = _row_message(exc, plan)
+    fitted = fit_analyses([(recipe, fit) for _, recipe, fit in pending], registry)
+    for (r, _, _), found in zip(pending, fitted):
+        if isinstance(found, IonwrightError):
+            problem[r] = _row_message(found, plan)
+        else:
+            yield r, found
+
+
 def _solute(name: str, tables: TableSet) -> Solute:
     """What one mole of ingredient *name* weighs and occupies (for the density)."""
     from ..chemistry._ingredients import makeup
@@ -356,9 +413,8 @@ def _flag(problem: list[str], mask: np.ndarray, message) -> None:
 
 def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: TableSet,
                 model: str, registry: Registry, balance_on: str = "") -> Recipe:
-    """The complete recipe of row *r* read as a recipe or an analysis (balanced on the ion
-    *balance_on* when given)."""
-    from ..engine._resolve import resolve
+    """The recipe of row *r* read as a recipe or an analysis (balanced on the ion
+    *balance_on* when given), as read: what needs an equilibrium is still pending."""
     from ..inputs._recipe import read_recipe
 
     cells = {c.header: float(values[c.header][r]) for c in plan.columns if c.header in values}
@@ -390,7 +446,7 @@ def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: Ta
         data.update(temperature_C=t, dissolve=dissolve)
         if math.isfinite(ph):
             data["fix"] = {"pH": float(ph)}
-    return resolve(read_recipe(data, registry), registry)
+    return read_recipe(data, registry)
 
 
 def _row_message(exc: IonwrightError, plan: Plan) -> str:
