@@ -59,13 +59,13 @@ def analysis_frame(n: int, seed: int = 1, blank_share: float = BLANK_SHARE):
     return pd.DataFrame(data)
 
 
-def median_rate(frame, runs: int) -> tuple[float, object]:
+def median_rate(frame, runs: int, threads: int = 1) -> tuple[float, object]:
     import ionwright
 
     times, out = [], None
     for _ in range(runs):
         start = time.perf_counter()
-        out = ionwright.solve_batch(frame, threads=1)
+        out = ionwright.solve_batch(frame, threads=threads)
         times.append(time.perf_counter() - start)
     return len(frame) / statistics.median(times), out
 
@@ -87,6 +87,8 @@ def main() -> None:
     analysis_rate, out = median_rate(complete, runs)
     gaps_rate, gaps_out = median_rate(gaps, runs)
     recipe_again, _ = median_rate(recipes, runs)
+    big = natural_water_frame(4 * n if not args.smoke else n, seed=3)
+    threads = {k: median_rate(big, runs, threads=k)[0] for k in (1, 2)}
     after = pace()
     recipe_rate = statistics.median([recipe_rate, recipe_again])
     statuses = {**out["status"].value_counts().to_dict()}
@@ -106,6 +108,12 @@ def main() -> None:
         f"**Ratio analyses / recipes: {ratio:.3f}** complete, **{gaps_ratio:.3f}** with "
         f"blank cells (target ≥ 0.10). Statuses: {statuses} complete, "
         f"{gaps_out['status'].value_counts().to_dict()} with blanks.", "",
+        "Local threads (plain recipes, "
+        f"{len(big)} rows, the solver's chunks of 8,192 shared by the threads): "
+        + ", ".join(f"{k} thread{'s' if k > 1 else ''} {r:,.0f} rows/s" for k, r in
+                    threads.items())
+        + f"; 2 threads / 1 = {threads[2] / threads[1]:.2f}. The default (the cores this "
+        "process may use, at most 4) stands while 2 threads beat 1.", "",
         "The machine was shared with other work while this ran: rerun when it is quiet "
         "(`python benchmarks/bench_analyses.py`) before quoting absolute rates.",
     ]
