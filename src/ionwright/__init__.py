@@ -12,7 +12,7 @@ start with an underscore are internal and may change.
 """
 
 from . import notices, status
-from .batch._run import solve_batch
+from .batch._entry import solve_batch
 from .design._buffer import BufferCard, design_buffer
 from .design._compare import Comparison, compare_models
 from .design._sweep import Sweep, dilution, pH_series, temperature_series, titration

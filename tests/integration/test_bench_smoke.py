@@ -46,3 +46,14 @@ def test_the_benchmark_smoke_run_writes_its_results(tmp_path):
         assert heading in text
     assert "500 of 500 random waters converged" in text
     assert "exit status 0" in text
+
+
+def test_the_analyses_benchmark_runs_and_its_rows_all_convert():
+    import subprocess
+    import sys
+
+    done = subprocess.run([sys.executable, str(BENCH / "bench_analyses.py"), "--smoke"],
+                          capture_output=True, text=True, timeout=600)
+    assert done.returncode == 0, done.stderr
+    assert "Ratio analyses / recipes" in done.stdout
+    assert "{'converged': 50} with blanks" in done.stdout

@@ -73,9 +73,13 @@ def test_bad_quantities_name_the_key(text, problem):
 
 def test_a_mass_per_kg_is_not_offered_an_amount_per_kg():
     """"mg/kg" once got "did you mean 'mol/kg'": a mass is no amount, the hint says which
-    units mean a mass per kg of solution and which an amount per kg of water."""
+    units mean a mass per kg of solution and which an amount per kg of water. Since issue
+    15 mg/kg, g/kg and ug/kg are read as per kg of solution (as ppm); a mass per kg they do
+    not list is refused with that hint."""
+    assert parse_quantity("35 mg/kg", "k") == parse_quantity("35 ppm", "k").__class__(
+        parse_quantity("35 ppm", "k").value, "mass_fraction", "35 mg/kg", None, -6)
     with pytest.raises(RecipeError) as err:
-        parse_quantity("35 mg/kg", "k")
+        parse_quantity("35 ng/kg", "k")
     assert "did you mean" not in str(err.value)
     assert "ppm" in err.value.hint and "mmol/kg" in err.value.hint
 

@@ -15,21 +15,25 @@ One row is one sample. Columns are read by their header:
 * a column of text that names no ingredient (a sample id, a site) is carried through.
 
 The output holds every input column first, then the solved pH, the ionic strength, the
-molality of the chosen species, saturation indices, ``status`` (a word of
+derived quantities, the molality of the chosen species, saturation indices, the gaps
+(``not analysed``, ``below detection limit``), ``status`` (a word of
 :mod:`ionwright.status`: converged, a solver status such as max-iterations, or invalid)
 and ``message``; rows keep their order and index and none is dropped. Rows
 that share a chemical system (the same components present and the same fixed pH or not)
 are solved together by one batched solve, with temperature and totals per row; a row
 that fails there is retried alone with the careful path before it is marked failed. A
-row with a bad cell (empty, not a number, negative, an unknown unit or ingredient in its
-column header) is marked invalid with a message that names the column.
+blank cell is "not analysed" and ``"<0.05"`` below a detection limit (:mod:`._cells`);
+a row with a bad cell (text that is no number, negative, an unknown unit or ingredient in
+its column header) is marked invalid with a message that names the column. Rows that are
+water analyses are converted together (:mod:`._analyses`); every row gets the derived
+quantities of a single solve (:mod:`._derived_columns`). The public entry point is
+:func:`ionwright.solve_batch` (:mod:`._entry`).
 """
 
 from __future__ import annotations
 
 import math
 import re
-from contextlib import contextmanager
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any, Callable, Iterable, Iterator, Mapping, Sequence
 
@@ -48,12 +52,11 @@ from ..chemistry._density import Solute, ingredient_solute, volume_L_per_kg_wate
 from ..inputs._recipe import DEFAULT_TABLES, MOLALITY_CEILING, Recipe, solution_of
 from ..engine._totals import component_totals, negative_totals
 from ..outputs._solved_samples import SolvedSamples
+from ._analyses import convert_analyses
 from ._cells import (BELOW_LIMIT_COLUMN, DEFAULT_DETECTION_POLICY, NOT_ANALYSED_COLUMN, Gaps,
-                     check_policy, numeric_column, read_cells)
+                     numeric_column, read_cells)
 from ._progress import ProgressCallback, RowProgress
-from ._derived_columns import DerivedOptions, DerivedTable, derived_headers, derived_options
-from ..outputs._cautions import CHARGE_BALANCE_LIMIT
-from ..outputs._derived import TDS_AUTO
+from ._derived_columns import DerivedOptions, DerivedTable, derived_headers
 from ..core._newton.numerics import RESIDUAL_TOLERANCE
 from ..status import CONVERGED, INVALID
 from ..chemistry._constants import LN10
@@ -73,7 +76,6 @@ TEMPERATURE_NAMES = ("temperature_C", "temperature [C]", "temperature [°C]")
 BALANCE_COLUMN = "balance_on"
 ENGINES = ("local", "dask")
 PARTITION_ROWS = 65_536        # rows per task when the work is spread over a cluster
-LOCAL_WORKERS = 2              # worker processes of the default local dask cluster
 DEFAULT_TEMPERATURE_C = 25.0
 _HEADER_UNIT = re.compile(r"^(?P<name>.*?)\s*\[(?P<unit>[^\]]*)\]\s*$")
 
@@ -157,6 +159,7 @@ def plan_columns(headers: Sequence[str], tables: TableSet, species: Sequence[str
 
 
 def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Column:
+    from ..inputs._analysis import CARBONATE_KEYS
     from ..inputs._analytes import NAMED_KEYS, map_analyte
     from ..chemistry._ingredients import makeup
     from ..inputs._units import parse_quantity
@@ -187,8 +190,8 @@ def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Colu
     except RecipeError as exc:
         return Column(header, "amount", name, unit,
                       problem=f"{unit!r} is not a unit ionwright knows ({exc.hint})")
-    if name in NAMED_KEYS or name == "alkalinity":
-        brings = ("CO3^2-",) if name == "alkalinity" else ()
+    if name in NAMED_KEYS or name in CARBONATE_KEYS:
+        brings = ("CO3^2-",) if name in CARBONATE_KEYS else ()
         return Column(header, "analysis", name, unit, components=brings)
     try:
         component = map_analyte(name, tables, where).component
@@ -278,7 +281,7 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
                   f"{lo:g}–{hi:g} °C")
             temperature = np.where(np.isfinite(numbers), numbers, DEFAULT_TEMPERATURE_C)
             gaps.note(empty, f"temperature not given: {DEFAULT_TEMPERATURE_C:g} °C assumed")
-        else:
+        elif col.key != "alkalinity":  # a Gran alkalinity may be negative
             _flag(problem, numbers < 0, lambda r: f"column {col.header!r}: {numbers[r]:g} is "
                   "negative; amounts must be ≥ 0")
             if col.kind == "ingredient":  # plain mol/kg, as a recipe's plausibility check
@@ -289,8 +292,11 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
     plain = [c for c in plan.columns if c.kind == "ingredient" and not c.problem]
     converted = [c for c in plan.columns if c.kind in ("amount", "analysis")]
     by_recipe = np.array([bool(b) for b in balance], dtype=bool)
+    measured = by_recipe.copy()   # rows that are water analyses, converted together
     for col in converted:
-        by_recipe |= np.nan_to_num(values[col.header]) > 0
+        given = np.nan_to_num(values[col.header]) != 0
+        by_recipe |= given
+        measured = (measured | given) if col.kind == "analysis" else measured & ~given
     from ..chemistry._ingredients import makeup
 
     for col in plain:  # the same additions, in the same order, as component_totals
@@ -303,14 +309,13 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         np.stack([np.nan_to_num(values[c.header]) for c in plain], axis=1)
         if plain else np.zeros((n, 0)), temperature)
     analysis = np.zeros(n, dtype=bool)
-    for r in np.flatnonzero(by_recipe):
-        if problem[r]:
-            continue
-        try:
-            recipe = _recipe_row(plan, values, int(r), tables, model, registry, balance[r])
-        except IonwrightError as exc:
-            problem[r] = _row_message(exc, plan)
-            continue
+    measured &= np.array([not p for p in problem], dtype=bool)
+    for col in plain:  # a row with plain ingredients is a recipe, not an analysis
+        measured &= ~(np.nan_to_num(values[col.header]) != 0)
+    _analysis_rows(np.flatnonzero(measured), plan, values, temperature, fixed_ph, balance,
+                   tables, model, registry, problem, totals, water, analysis)
+    for r, recipe in _recipe_rows(plan, values, by_recipe & ~measured, problem, tables, model,
+                                  registry, balance):
         row_totals, _ = component_totals(recipe, tables)
         totals[r] = [row_totals.get(c, 0.0) for c in comps]
         temperature[r] = recipe.temperature_C
@@ -324,9 +329,11 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
 
 def _balance_cells(raw, problem: list[str]) -> list[str]:
     """The ion each row balances on ("" for none) from a ``balance_on`` column."""
+    import pandas as pd
+
     out = []
     for r, value in enumerate(raw.tolist()):
-        if value is None or (isinstance(value, float) and math.isnan(value)) \
+        if (not isinstance(value, str) and pd.isna(value)) \
                 or (isinstance(value, str) and not value.strip()):
             out.append("")
         elif isinstance(value, str):
@@ -337,6 +344,59 @@ def _balance_cells(raw, problem: list[str]) -> list[str]:
                 problem[r] = (f"column {BALANCE_COLUMN!r}: {value!r} must name an ion, e.g. "
                               "Cl (or leave it blank)")
     return out
+
+
+def _analysis_rows(rows: np.ndarray, plan: Plan, values: Mapping[str, np.ndarray],
+                   temperature: np.ndarray, fixed_ph: np.ndarray, balance: Sequence[str],
+                   tables: TableSet, model: str, registry: Registry, problem: list[str],
+                   totals: np.ndarray, water: np.ndarray, analysis: np.ndarray) -> None:
+    """Convert the water-analysis *rows* together (:mod:`._analyses`) into *totals*,
+    *water* per litre and *analysis*; a row that cannot be converted gets its problem."""
+    if not rows.size:
+        return
+    columns = [c for c in plan.columns if c.kind == "analysis" and not c.problem]
+    converted = convert_analyses(columns, {c.header: values[c.header][rows] for c in columns},
+                                 temperature[rows], fixed_ph[rows],
+                                 [balance[r] for r in rows], tables, registry.model(model))
+    index = {c: j for j, c in enumerate(plan.components)}
+    for k, r in enumerate(rows):
+        if converted.problem[k]:
+            problem[r] = converted.problem[k]
+            continue
+        for comp, value in converted.totals[k].items():
+            totals[r, index[comp]] = value
+        water[r] = converted.water_kg_per_L[k]
+        analysis[r] = True
+
+
+def _recipe_rows(plan: Plan, values: Mapping[str, np.ndarray], by_recipe: np.ndarray,
+                 problem: list[str], tables: TableSet, model: str, registry: Registry,
+                 balance: Sequence[str]) -> Iterator[tuple[int, Recipe]]:
+    """(row, complete recipe) of every valid row read as a recipe or an analysis; the
+    analyses' fits are resolved together (:func:`ionwright.engine._fits.fit_analyses`),
+    a row whose reading or fit fails gets its problem instead."""
+    from ..engine._fits import fit_analyses
+    from ..engine._resolve import resolve
+    from ..inputs._analysis import AnalysisFit
+
+    pending: list[tuple[int, Recipe, AnalysisFit]] = []
+    for r in np.flatnonzero(by_recipe).tolist():
+        if problem[r]:
+            continue
+        try:
+            recipe = _recipe_row(plan, values, r, tables, model, registry, balance[r])
+            if isinstance(recipe.pending, AnalysisFit):
+                pending.append((r, recipe, recipe.pending))
+                continue
+            yield r, resolve(recipe, registry)
+        except IonwrightError as exc:
+            problem[r] = _row_message(exc, plan)
+    fitted = fit_analyses([(recipe, fit) for _, recipe, fit in pending], registry)
+    for (r, _, _), found in zip(pending, fitted):
+        if isinstance(found, IonwrightError):
+            problem[r] = _row_message(found, plan)
+        else:
+            yield r, found
 
 
 def _solute(name: str, tables: TableSet) -> Solute:
@@ -356,9 +416,8 @@ def _flag(problem: list[str], mask: np.ndarray, message) -> None:
 
 def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: TableSet,
                 model: str, registry: Registry, balance_on: str = "") -> Recipe:
-    """The complete recipe of row *r* read as a recipe or an analysis (balanced on the ion
-    *balance_on* when given)."""
-    from ..engine._resolve import resolve
+    """The recipe of row *r* read as a recipe or an analysis (balanced on the ion
+    *balance_on* when given), as read: what needs an equilibrium is still pending."""
     from ..inputs._recipe import read_recipe
 
     cells = {c.header: float(values[c.header][r]) for c in plan.columns if c.header in values}
@@ -390,7 +449,7 @@ def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: Ta
         data.update(temperature_C=t, dissolve=dissolve)
         if math.isfinite(ph):
             data["fix"] = {"pH": float(ph)}
-    return resolve(read_recipe(data, registry), registry)
+    return read_recipe(data, registry)
 
 
 def _row_message(exc: IonwrightError, plan: Plan) -> str:
@@ -592,73 +651,7 @@ def _row_codes(flags: np.ndarray) -> np.ndarray:
     return padded.view(np.dtype((np.void, width))).ravel()
 
 
-# -- the public entry point --------------------------------------------------------------
-
-def solve_batch(frame: pd.DataFrame, *, species: Sequence[str] | None = None,
-                model: str = "davies", tables: Sequence[str] = DEFAULT_TABLES,
-                labels: Iterable[str] = (), engine: str = "local",
-                address: str | None = None, partition_rows: int = PARTITION_ROWS,
-                threads: int | None = None, registry: Registry | None = None,
-                tds: str = TDS_AUTO, balance_limit: float = CHARGE_BALANCE_LIMIT,
-                ions: bool = False, detection_limit: str = DEFAULT_DETECTION_POLICY,
-                progress: ProgressCallback | None = None) -> pd.DataFrame:
-    """Speciate every row of *frame*; the input columns first, then the results.
-
-    Parameters
-    ----------
-    frame
-        One row per sample; see the module docstring for how columns are read.
-    species
-        Species whose molality to report (default: every species the columns can form).
-    model, tables
-        Activity model and constant tables, as in a recipe.
-    labels
-        Columns to carry through unread (text columns naming no ingredient always are).
-    engine
-        ``"local"`` (this process) or ``"dask"`` (the same work in partitions of
-        *partition_rows* rows on a dask cluster: a local one, or the scheduler at
-        *address*; needs ``pip install ionwright[distributed]``).
-    threads
-        Threads of the local solve (default: the cores available, at most
-        :data:`ionwright.solver.MAX_THREADS`); the dask engine solves each partition on
-        one thread and leaves the parallelism to the cluster. Answers do not depend on it.
-    tds
-        What the ``TDS [mg/L]`` column holds: ``"calculated"`` (the Standard Methods
-        1030E calculated sum), ``"species-sum"`` (every dissolved species), or
-        ``"auto"`` (calculated for rows read as analyses, species sum for recipes); both
-        are also given in their own columns.
-    balance_limit
-        Charge-balance error (%) beyond which a row is flagged (default 5).
-    ions
-        Also give each component's total in mg/L and meq/L.
-    detection_limit
-        What a cell such as ``"<0.05"`` (below the detection limit) stands for:
-        ``"zero"``, ``"half"`` (default) or ``"limit"``. A blank cell is "not analysed":
-        the ion is left out and the row says so (columns ``not analysed`` and ``below
-        detection limit`` list them).
-    progress
-        Called as ``progress(done, total)`` as rows finish (from the solver's threads
-        too; the local engine reports solved chunks, the dask engine partitions).
-
-    Returns
-    -------
-    pandas.DataFrame
-        Same index and row order as *frame*; never fewer rows.
-    """
-    if engine not in ENGINES:
-        raise UnknownNameError("engine", engine, ENGINES, f"engines: {', '.join(ENGINES)}")
-    _check_frame(frame)
-    options: dict[str, Any] = dict(species=None if species is None else list(species),
-                                   model=model, tables=list(tables), labels=list(labels),
-                                   derived=derived_options(tds, balance_limit, ions),
-                                   detection_limit=detection_limit)
-    check_policy(detection_limit)
-    if engine == "dask":
-        return _dask_batch(frame, {**options, "threads": 1}, address, partition_rows,
-                           progress)
-    return _solve_frame(frame, registry=registry, threads=threads, progress=progress,
-                        **options)
-
+# -- one frame --------------------------------------------------------------------------------
 
 def _check_frame(frame: Any) -> None:
     """Refuse what is not a table of samples: not a DataFrame, or a column twice."""
@@ -721,51 +714,3 @@ def text_columns_of(frame: pd.DataFrame) -> list[str]:
             and not pd.api.types.is_bool_dtype(frame[h])
             and pd.to_numeric(frame[h], errors="coerce").isna().all()
             and frame[h].notna().any() and not numeric_column(frame[h])]
-
-
-def solve_partition(part: pd.DataFrame, options: Mapping[str, Any]) -> pd.DataFrame:
-    """One task of the dask engine: the local solve of one partition of rows."""
-    return _solve_frame(part, **options)
-
-
-@contextmanager
-def dask_client(address: str | None = None) -> Iterator[Any]:
-    """A dask.distributed client: of the scheduler at *address*, else of a new local
-    cluster (closed on exit)."""
-    try:
-        from dask.distributed import Client, LocalCluster
-    except ImportError:
-        raise IonwrightError("the dask engine needs dask.distributed, which is not "
-                             "installed", 'pip install "ionwright[distributed]", or use '
-                             'engine="local"') from None
-    cluster = None if address else LocalCluster(n_workers=LOCAL_WORKERS, threads_per_worker=1,
-                                                 processes=True, dashboard_address=None)
-    client = Client(address or cluster)
-    try:
-        yield client
-    finally:
-        client.close()
-        if cluster is not None:
-            cluster.close()
-
-
-def _dask_batch(frame: pd.DataFrame, options: Mapping[str, Any], address: str | None,
-                partition_rows: int, progress: ProgressCallback | None = None
-                ) -> pd.DataFrame:
-    """The rows in partitions of *partition_rows*, mapped over a dask cluster, in order;
-    *progress* hears of each partition as it finishes."""
-    import pandas as pd
-
-    if partition_rows < 1:
-        raise RecipeError("batch options", f"partition_rows = {partition_rows} must be ≥ 1")
-    parts = [frame.iloc[i:i + partition_rows] for i in range(0, len(frame), partition_rows)]
-    with dask_client(address) as client:
-        if not parts:
-            return _solve_frame(frame, **options)
-        from dask.distributed import as_completed
-
-        futures = client.map(solve_partition, parts, options=dict(options), pure=False)
-        rows = RowProgress(len(frame), progress)
-        for done in as_completed(futures):
-            rows.advance(len(parts[futures.index(done)]))
-        return pd.concat(client.gather(futures))

@@ -181,14 +181,25 @@ def solution_volume_L(water_kg: float, amounts: Iterable[tuple[Solute, Any]],
 def volume_L_per_kg_water(solutes: Sequence[Solute], molalities: np.ndarray,
                           t_C: np.ndarray) -> np.ndarray:
     """:func:`solution_volume_L` of 1 kg of water for each row of *molalities* (n, k) of
-    the *solutes*, at the rows' temperatures *t_C* (n,): the same terms in the same
-    order, vectorised over samples (batches of plain molalities)."""
+    the *solutes*, at the rows' temperatures *t_C* (n,) (batches of plain molalities)."""
     t = np.asarray(t_C, dtype=float)
-    volume_mL = 1000.0 / (np.asarray(water_density_kg_m3(t), dtype=float) / 1000.0)
-    strength = np.zeros(t.shape)
-    for k, solute in enumerate(solutes):
-        volume_mL = volume_mL + molalities[:, k] * solute.molar_volume
-        strength = strength + molalities[:, k] * solute.ionic_strength
-    excess = VOLUME_SLOPE * np.where(strength > 0, strength, 0.0) ** 1.5
-    volume_mL = np.where(strength > ABSURD_IONIC_STRENGTH, np.inf, volume_mL + excess)
+    return solution_volume_rows(np.ones(t.shape), solutes,
+                                [molalities[:, k] for k in range(len(solutes))], t)
+
+
+def solution_volume_rows(water_kg: np.ndarray, solutes: Sequence[Solute],
+                         moles: Sequence[np.ndarray], t_C: np.ndarray) -> np.ndarray:
+    """:func:`solution_volume_L` of many samples at once: *water_kg* (n,), the moles (n,)
+    of each of the *solutes*, temperatures (n,); the same terms in the same order."""
+    density = np.asarray(water_density_kg_m3(np.asarray(t_C, dtype=float)), dtype=float)
+    volume_mL = 1000.0 * water_kg / (density / 1000.0)
+    strength = np.zeros(np.shape(water_kg))
+    for solute, n in zip(solutes, moles):
+        volume_mL = volume_mL + n * solute.molar_volume
+        strength = strength + n * solute.ionic_strength
+    with np.errstate(divide="ignore", invalid="ignore"):
+        ratio = np.where((water_kg > 0) & (strength > 0), strength / water_kg, 0.0)
+    excess = VOLUME_SLOPE * water_kg * np.where(ratio > 0, ratio, 0.0) ** 1.5
+    volume_mL = np.where(ratio > ABSURD_IONIC_STRENGTH, np.inf,
+                         np.where(ratio > 0, volume_mL + excess, volume_mL))
     return volume_mL / 1000.0

@@ -38,9 +38,16 @@ from ._units import (CALCIUM_CARBONATE, CALCIUM_CARBONATE_EQUIVALENTS, Quantity,
 #: pH a meter reads in a water sample; beyond it a value is a slip (a conductivity, a unit)
 MEASURED_PH = (0.0, 14.0)
 ANALYTE_DIMENSIONS = ("mass_per_volume", "molarity", "molality", "equivalents",
-                      "mass_fraction")
+                      "mass_fraction", "per_mass_solution")
 ALKALINITY_DIMENSIONS = ("equivalents", "mass_per_volume", "molarity")
+DIC_DIMENSIONS = ("molarity", "molality", "mass_per_volume", "mass_fraction",
+                  "per_mass_solution")
+#: Keys that give the carbonate: alkalinity (with the pH) or dissolved inorganic carbon
+CARBONATE_KEYS = {"alkalinity", "DIC"}
 CARBONATE = "CO3^2-"
+#: What a mass of DIC refers to without a basis: never used bare (a mass needs "as C");
+#: the formula that links a basis (C, CO2, HCO3) to the carbonate component
+DIC_ANALYTE = Analyte(CARBONATE, parse_formula("CO3"), 1.0)
 PROTON = "H+"
 
 
@@ -85,7 +92,7 @@ def read_analysis(section: Any, origin: str, tables: TableSet) -> AnalysisFit:
     given: list[Entry] = []
     keys: dict[str, str] = {}
     for key, value in section.items():
-        if key in NAMED_KEYS:
+        if key in NAMED_KEYS or key in CARBONATE_KEYS:
             continue
         analyte = map_analyte(key, tables, f"{where} {key}", states)
         component = analyte.component
@@ -99,6 +106,9 @@ def read_analysis(section: Any, origin: str, tables: TableSet) -> AnalysisFit:
         given.append(_analyte_entry(component_solute(component, tables), analyte,
                                     quantity, f"{where} {key}", f"[analysis] {key}"))
     alkalinity = _alkalinity(section, ph, where)
+    dic = _dic_entry(section, tables, where)
+    if dic is not None:
+        given.append(dic)
     balance = _balance_target(section, ph, keys, tables, where)
     return AnalysisFit(where, t, ph, density, tuple(given), alkalinity, balance,
                        str(section.get(balance[0], "not given")) if balance else "not given")
@@ -183,6 +193,8 @@ def _analyte_entry(solute, analyte: Analyte, quantity: Quantity, where: str,
         entry.per_litre = v * per_analyte
     elif d == "molality":
         entry.per_kg_water = v * per_analyte
+    elif d == "per_mass_solution":  # mol per kg of solution
+        entry.per_gram_solution = v / 1000.0 * per_analyte
     else:  # equivalents
         if solute.formula.charge == 0:
             raise RecipeError(where, f"{quantity.text!r}: equivalents need an ion, and "
@@ -193,18 +205,23 @@ def _analyte_entry(solute, analyte: Analyte, quantity: Quantity, where: str,
 
 def _alkalinity(section: Mapping[str, Any], ph: float | None, where: str
                 ) -> tuple[float, str] | None:
-    """(alkalinity in eq per litre, as given), or None when not given."""
+    """(alkalinity in eq per litre, as given), or None when not given.
+
+    Above the carbonic-acid end point the alkalinity is positive; at or below it a Gran
+    titration gives zero or a negative alkalinity (the acid the sample holds beyond the
+    end point), which fits the carbonate from the small share of bicarbonate left.
+    """
     if "alkalinity" not in section:
         return None
     key = f"{where} alkalinity"
     if ph is None:
         raise RecipeError(key, "alkalinity needs the measured pH to fix the carbonate system",
                           "add the field pH, e.g. pH = 7.9")
-    if ph <= ALKALINITY_END_POINT_PH:
-        raise RecipeError(key, f"a sample at pH {ph:g} is already below the carbonic-acid end "
-                          f"point (pH {ALKALINITY_END_POINT_PH:g}) and has no alkalinity",
-                          "leave alkalinity out; its acidity is set by the pH")
-    quantity = expect(parse_quantity(section["alkalinity"], key), ALKALINITY_DIMENSIONS, key)
+    if "DIC" in section:
+        raise RecipeError(key, "alkalinity and DIC both fix the carbonate total",
+                          "give one of them (with the pH)")
+    quantity = expect(parse_quantity(section["alkalinity"], key, negative=True),
+                      ALKALINITY_DIMENSIONS, key)
     if quantity.dimension == "mass_per_volume":
         if quantity.basis != CALCIUM_CARBONATE:
             raise RecipeError(key, f"{quantity.text!r}: a mass of alkalinity must be written "
@@ -212,10 +229,32 @@ def _alkalinity(section: Mapping[str, Any], ph: float | None, where: str
         eq = quantity.value / CALCIUM_CARBONATE.molar_mass * CALCIUM_CARBONATE_EQUIVALENTS
     else:  # meq/L, or mmol/L of acid used to the end point
         eq = quantity.value
-    if eq <= 0:
-        raise RecipeError(key, f"{quantity.text!r} must be more than zero",
-                          "leave alkalinity out for a sample without carbonate")
+    if ph > ALKALINITY_END_POINT_PH and eq <= 0:
+        raise RecipeError(key, f"{quantity.text!r} at pH {ph:g}: above the carbonic-acid end "
+                          f"point (pH {ALKALINITY_END_POINT_PH:g}) a sample's alkalinity is "
+                          "more than zero", "leave alkalinity out for a sample without "
+                          "carbonate; a negative (Gran) alkalinity belongs to an acid water "
+                          "below that pH")
+    if ph <= ALKALINITY_END_POINT_PH and eq > 0:
+        raise RecipeError(key, f"{quantity.text!r} at pH {ph:g}: at or below the carbonic-"
+                          f"acid end point (pH {ALKALINITY_END_POINT_PH:g}) the alkalinity is "
+                          "zero or negative (Gran)", "check the pH and the alkalinity's sign; "
+                          "or leave alkalinity out and give DIC")
     return eq, quantity.text
+
+
+def _dic_entry(section: Mapping[str, Any], tables: TableSet, where: str) -> Entry | None:
+    """The carbonate total given as dissolved inorganic carbon (``DIC = "24 mg/L as C"`` or
+    mmol/L), or None when not given."""
+    if "DIC" not in section:
+        return None
+    key = f"{where} DIC"
+    quantity = expect(parse_quantity(section["DIC"], key), DIC_DIMENSIONS, key)
+    if quantity.dimension in ("mass_per_volume", "mass_fraction") and quantity.basis is None:
+        raise RecipeError(key, f"{quantity.text!r}: a mass of DIC needs its basis",
+                          'write "24 mg/L as C" (or as CO2, as HCO3), or give mmol/L')
+    solute = component_solute(CARBONATE, tables)
+    return _analyte_entry(solute, DIC_ANALYTE, quantity, key, "[analysis] DIC")
 
 
 def _balance_target(section: Mapping[str, Any], ph: float | None, keys: Mapping[str, str],

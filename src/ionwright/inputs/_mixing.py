@@ -9,11 +9,15 @@ need the solution density: given, tabulated for concentrated stocks, or estimate
 from __future__ import annotations
 
 import math
-from collections.abc import Iterable
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, replace
+from typing import Any
+
+import numpy as np
 
 from ..chemistry._density import (DENSITY_METHOD, WATER_MOLAR_MASS, Solute, solution_volume_L,
-                                  water_density)
+                                  solution_volume_rows, water_density)
+from ..chemistry._water import density as water_density_kg_m3
 from ..data._stock_densities import StockDensity
 from ..errors import RecipeError
 from ._stock_density import estimate_warning, tabulated_density
@@ -67,17 +71,18 @@ class Entry:
     """One solute entry and how its moles follow from the water, volume and mass.
 
     moles = absolute + per_kg_water · W + per_litre · V + per_gram_solution · M,
-    with W the final water (kg), V the final volume (L) and M the solution mass (g).
+    with W the final water (kg), V the final volume (L) and M the solution mass (g). The
+    coefficients are numbers, or arrays of one per sample for :func:`make_up_litres`.
     """
 
     solute: Solute
     kind: str                     # "ingredient" or "component"
     key: str
     given: str
-    absolute: float = 0.0
-    per_kg_water: float = 0.0
-    per_litre: float = 0.0
-    per_gram_solution: float = 0.0
+    absolute: Any = 0.0             # float, or an array over samples
+    per_kg_water: Any = 0.0
+    per_litre: Any = 0.0
+    per_gram_solution: Any = 0.0
     note: str = ""                # shown beside the conversion (e.g. a stock's density)
 
     def moles(self, water_kg: float, volume_L: float, mass_g: float) -> float:
@@ -124,6 +129,8 @@ def entry_for(solute: Solute, kind: str, quantity: Quantity, where: str, label: 
         entry.per_litre = v / abs(solute.formula.charge)
     elif d == "mass_fraction":
         entry.per_gram_solution = _moles_of_mass(v, quantity, solute, where)
+    elif d == "per_mass_solution":  # mol per kg of solution
+        entry.per_gram_solution = v / 1000.0
     else:  # pragma: no cover - callers check the dimension first
         raise RecipeError(where, f"{quantity.text!r} cannot be an amount")
     return entry
@@ -212,6 +219,73 @@ def mix(entries: Iterable[Entry], t_C: float, *, water_kg: float | None = None,
     solution = Solution(water, volume, mass, "given" if density is not None else "estimated",
                         conversions, () if density is not None else rough)
     return Mixture(entries, moles, solution)
+
+
+@dataclass(frozen=True)
+class LitreRows:
+    """Many samples made up to one litre each (:func:`make_up_litres`): water (kg), mass
+    (g) and the moles of each entry per sample, and which samples had room for water."""
+
+    water_kg: np.ndarray
+    mass_g: np.ndarray
+    moles: tuple[np.ndarray, ...]
+    ok: np.ndarray
+
+    @property
+    def water_kg_per_L(self) -> np.ndarray:
+        return self.water_kg
+
+
+def make_up_litres(entries: Sequence[Entry], t_C: np.ndarray,
+                   density: np.ndarray | None = None) -> LitreRows:
+    """:func:`mix` with ``volume_L=1`` for n samples at once (water analyses of a batch):
+    the entries' coefficients are arrays (n,), *density* (g/mL) NaN where it is estimated.
+    The same fixed point, term by term; a sample settles when :func:`mix` would stop, and
+    one without room for water is marked not ok instead of raising."""
+    t = np.asarray(t_C, dtype=float)
+    n = t.shape[0]
+    given = np.full(n, np.nan) if density is None else np.asarray(density, dtype=float)
+    estimated = ~np.isfinite(given)
+    fraction = np.zeros(n)
+    for e in entries:
+        fraction = fraction + e.per_gram_solution * e.solute.molar_mass
+    rho_w = np.asarray(water_density_kg_m3(t), dtype=float) / 1000.0
+    water = 1.0 * rho_w
+    volume = np.ones(n)
+    ok = fraction < 1.0
+    active = ok.copy()
+    solutes = [e.solute for e in entries]
+
+    def moles_at(w, v, m):
+        return [e.absolute + e.per_kg_water * w + e.per_litre * v + e.per_gram_solution * m
+                for e in entries]
+
+    def mass_at(w, v):
+        solutes_g = 0.0       # summed first, then added to the water, as mix() does
+        for e, n0 in zip(entries, moles_at(w, v, 0.0)):
+            solutes_g = solutes_g + e.solute.molar_mass * n0
+        return (1000.0 * w + solutes_g) / (1.0 - fraction)
+
+    for _ in range(MAX_ROUNDS):
+        if not active.any():
+            break
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            mass = mass_at(water, volume)
+            moles = moles_at(water, volume, mass)
+            made = np.where(estimated, solution_volume_rows(water, solutes, moles, t),
+                            mass / (1000.0 * np.where(estimated, 1.0, given)))
+            new_water = water * 1.0 / made
+        room = np.isfinite(new_water) & (new_water > WATER_FLOOR) & (new_water > 0)
+        ok &= room | ~active
+        active &= room
+        done = np.abs(new_water - water) <= RELATIVE_TOLERANCE * water
+        water = np.where(active, new_water, water)
+        active &= ~done
+    ok &= ~active   # still moving after MAX_ROUNDS: no room
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        mass = mass_at(water, volume)
+        moles = moles_at(water, volume, mass)
+    return LitreRows(water, mass, tuple(moles), ok)
 
 
 def _no_room(entries: tuple[Entry, ...], where: str, detail: str) -> RecipeError:

@@ -60,7 +60,7 @@ POUR_KEYS = {"recipe", "volume"}
 CONVERTED_KEYS = {"water", "volume", "density", "add", "pour"}
 #: What a [dissolve] amount may be: absolute, per kg of water, per litre, or a fraction.
 DISSOLVE_DIMENSIONS = ("amount", "mass", "molality", "molarity", "mass_per_volume",
-                       "equivalents", "mass_fraction")
+                       "equivalents", "mass_fraction", "per_mass_solution")
 STOCK_DIMENSIONS = ("molarity", "molality", "mass_per_volume", "mass_fraction")
 #: Largest plausible mol per kg of water of one ingredient or ion: the most soluble salts
 #: saturate at a few tens of mol/kg (lithium chloride near 20, ammonium nitrate near 26 at

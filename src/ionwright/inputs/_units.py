@@ -15,7 +15,7 @@ from __future__ import annotations
 import math
 import numbers
 import re
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from decimal import Decimal
 
 from ..errors import FormulaError, RecipeError, close_matches
@@ -31,6 +31,7 @@ DIMENSIONS: dict[str, tuple[str, str]] = {
     "mass_per_volume": ("a mass per volume", "48 mg/L"),
     "equivalents": ("equivalents per litre", "3.2 meq/L"),
     "mass_fraction": ("a mass fraction of the solution", "10 % w/w"),
+    "per_mass_solution": ("an amount per kg of solution", "10.3 mmol/kg solution"),
 }
 
 #: Unit (normalised spelling) → (dimension, power of ten to the dimension's base unit).
@@ -54,11 +55,16 @@ UNITS: dict[str, tuple[str, int]] = {
     "%w/w": ("mass_fraction", -2),
     "ppm": ("mass_fraction", -6),       # mg per kg of solution (not mg/L: see DEVELOPERS.md)
     "ppb": ("mass_fraction", -9),       # ug per kg of solution
+    "g/kg": ("mass_fraction", -3), "mg/kg": ("mass_fraction", -6),   # of solution, as ppm
+    "ug/kg": ("mass_fraction", -9),
+    "mol/kgsolution": ("per_mass_solution", 0), "mmol/kgsolution": ("per_mass_solution", -3),
+    "umol/kgsolution": ("per_mass_solution", -6),
 }
 
 #: Alternative spellings folded onto the keys of :data:`UNITS`.
 _SPELLINGS = {"μ": "u", "µ": "u", "³": "3", "/l": "/L", "wt%": "%w/w", "(w/w)": "w/w",
-              "(w/v)": "w/v"}
+              "(w/v)": "w/v", "kg soln": "kgsolution", "kg of solution": "kgsolution",
+              "kg-solution": "kgsolution"}
 _LOWER_LITRE = {"l": "L", "ml": "mL", "ul": "uL", "dl": "dL"}
 #: A litre written in lower case after a slash and an optional count ("g/100 ml", "mg/dl")
 _PER_LOWER_LITRE = re.compile(r"(?P<head>.*/\d*)(?P<litre>l|ml|ul|dl)")
@@ -81,13 +87,19 @@ class Quantity:
     dimension: str
     text: str
     basis: Formula | None = None
+    power: int = 0               # of the unit, to its dimension's base unit
+
+    def with_number(self, number):
+        """The same unit and basis for *number* (a value or an array of them) as written."""
+        return replace(self, value=to_base(number, self.power))
 
     def describe(self) -> str:
         return DIMENSIONS[self.dimension][0]
 
 
-def parse_quantity(text: object, where: str) -> Quantity:
+def parse_quantity(text: object, where: str, negative: bool = False) -> Quantity:
     """Read *text* such as ``"3.40 g"`` or ``"2.1 mg/L as N"``; *where* names the key.
+    *negative* allows a value below zero (a Gran alkalinity of an acid water).
 
     Raises
     ------
@@ -125,7 +137,7 @@ def parse_quantity(text: object, where: str) -> Quantity:
                     "give the amount, e.g. mmol/kg; ")
         raise RecipeError(where, f"unknown unit {match['unit']!r} in {text!r}",
                           f"{hint}known units: {', '.join(UNITS)}")
-    if not math.isfinite(value) or value < 0:
+    if not math.isfinite(value) or (value < 0 and not negative):
         raise RecipeError(where, f"{text!r} must be a finite amount ≥ 0",
                           "remove the entry to leave it out")
     dimension, power = UNITS[unit]
@@ -139,8 +151,13 @@ def parse_quantity(text: object, where: str) -> Quantity:
         if dimension not in ("mass", "mass_per_volume", "mass_fraction"):
             raise RecipeError(where, f"{text!r}: 'as {match['basis']}' applies to masses "
                               "only", 'e.g. "2.1 mg/L as N"')
-    scaled = value * 10.0 ** power if power >= 0 else value / 10.0 ** -power
-    return Quantity(scaled, dimension, text.strip(), basis)
+    return Quantity(to_base(value, power), dimension, text.strip(), basis, power)
+
+
+def to_base(value, power: int):
+    """*value* (a number or an array of them) in its dimension's base unit, given the
+    unit's power of ten; divisions for negative powers keep "5 umol" exactly 5e-6."""
+    return value * 10.0 ** power if power >= 0 else value / 10.0 ** -power
 
 
 def expect(quantity: Quantity, allowed: tuple[str, ...], where: str) -> Quantity:

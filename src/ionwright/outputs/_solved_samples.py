@@ -65,14 +65,22 @@ class SolvedSamples:
         return tuple(parse_formula(self.tables.entry(name).formula)
                      for name in self.system.species)
 
+    @cached_property
+    def _first_of(self) -> dict[tuple[str, int], int]:
+        """Index of the first species of each formula (by its Hill formula and charge)."""
+        out: dict[tuple[str, int], int] = {}
+        for i, f in enumerate(self.formulas):
+            out.setdefault((f.hill(), f.charge), i)
+        return out
+
     def species_index(self, formula: Formula) -> int | None:
         """Index of the species with *formula*, or None when the system has none."""
-        return next((i for i, f in enumerate(self.formulas) if f == formula), None)
+        return self._first_of.get((formula.hill(), formula.charge))
 
     def component_index(self, formula: Formula) -> int | None:
         """Column of the component with *formula*, or None."""
-        n_c = self.system.n_components
-        return next((j for j, f in enumerate(self.formulas[:n_c]) if f == formula), None)
+        i = self.species_index(formula)
+        return i if i is not None and i < self.system.n_components else None
 
 
 def parent_total(s: SolvedSamples, species: int) -> np.ndarray:

@@ -56,8 +56,11 @@ def register(subparsers) -> None:
         "written only when complete (an interrupted run leaves none). Parquet files need "
         "pip install \"ionwright[parquet]\"; the progress bar on a terminal needs "
         "\"ionwright[progress]\"; --engine dask needs \"ionwright[distributed]\".")
-    parser.add_argument("input", help="input table (.csv or .parquet)")
-    parser.add_argument("-o", "--output", required=True, help="output table (.csv or .parquet)")
+    parser.add_argument("input", help="input table (.csv or .parquet); with --engine dask "
+                        "and an output folder also a folder or a quoted glob ('wells-*.csv')")
+    parser.add_argument("-o", "--output", required=True,
+                        help="output table (.csv or .parquet); with --engine dask a folder "
+                        "(ending in /) receives Parquet parts written by the workers")
     parser.add_argument("--species", nargs="+", default=None, metavar="NAME",
                         help="species whose molality to report (default: all)")
     parser.add_argument("--model", default="davies", help="activity model (default davies)")
@@ -96,6 +99,8 @@ def register(subparsers) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    if args.engine == "dask" and _is_folder(args.output):
+        return _run_on_workers(args)
     source, target = Path(args.input), Path(args.output)
     if source.suffix.lower() not in FORMATS:
         raise RecipeError(f"input {str(source)!r}", "is neither .csv nor .parquet",
@@ -157,6 +162,51 @@ def run(args: argparse.Namespace) -> int:
     return 0
 
 
+def _is_folder(output: str) -> bool:
+    """Whether *output* names a folder (ends with a slash, exists as one, or has no
+    suffix): the dask engine then writes Parquet parts there from the workers."""
+    path = Path(output)
+    return output.endswith(("/", os.sep)) or path.is_dir() or not path.suffix
+
+
+def _run_on_workers(args: argparse.Namespace) -> int:
+    """``--engine dask -o FOLDER/``: the workers read the input (files, a folder or a
+    glob), solve it and write Parquet parts; this process holds only the counts."""
+    import glob
+
+    from ...batch._distributed import dask_client, files_on_cluster
+
+    if not glob.glob(args.input):
+        raise RecipeError(f"input {args.input!r}", "matches no file or folder",
+                          "check the path or the glob pattern (quote it for the shell)")
+    options = dict(species=args.species, model=args.model, tables=args.tables,
+                   labels=args.label,
+                   derived=derived_options(args.tds, args.balance_limit, args.ions),
+                   detection_limit=args.detection_limit)
+    started = time.perf_counter()
+    with _stopped_by_signals(), BatchProgress(None) as bar, \
+            dask_client(args.address) as client:
+        counts = files_on_cluster(args.input, args.output, options, client,
+                                  lambda done, total: bar(done), args.label)
+    elapsed = time.perf_counter() - started
+    total = counts.sum(numeric_only=True)
+    rows = int(total.get("rows", 0))
+    invalid = int(total.get(INVALID, 0))
+    failed = sum(int(total.get(s, 0)) for s in SOLVER_STATUSES if s != CONVERGED)
+    print(f"{rows} rows: {int(total.get(CONVERGED, 0))} converged, {failed} not converged, "
+          f"{invalid} invalid; {elapsed:.2f} s ({rows / max(elapsed, 1e-9):,.0f} rows/s); "
+          f"written to {args.output} as {len(counts)} Parquet part(s) by the workers")
+    print(f"{int(total.get('blank cells', 0))} blank cells (not analysed, left out), "
+          f"{int(total.get('below limit', 0))} below a detection limit (taken as "
+          f"{args.detection_limit}); {int(total.get('balance flagged', 0))} rows with a "
+          f"charge-balance error beyond ±{args.balance_limit:g} %")
+    if (failed or invalid) and not args.accept_partial:
+        print(f"ionwright batch: {failed + invalid} row(s) have no result (see 'status' and "
+              "'message'); exit status 1 (--accept-partial exits 0)", file=sys.stderr)
+        return 1
+    return 0
+
+
 def _count(solved, counts: dict[str, int]) -> None:
     """Add a solved chunk's rows, statuses, gaps and flags to *counts*."""
     status = solved["status"].value_counts()
@@ -176,7 +226,8 @@ def _solved_chunks(chunks: Iterator[Any], options: dict, engine: str,
                    progress: Callable[[int], None] | None = None) -> Iterator[Any]:
     """Each chunk solved, in input order: here, or a few at a time on a dask cluster;
     *progress* hears the rows done of the chunk being solved here."""
-    from ...batch._run import _check_frame, _solve_frame, dask_client, solve_partition
+    from ...batch._distributed import dask_client, solve_partition
+    from ...batch._run import _check_frame, _solve_frame
 
     if engine == "local":
         for chunk in chunks:
