@@ -173,11 +173,9 @@ def test_report_and_json_show_the_phases():
     assert "solids and gases" in text and "gypsum" in text and "taken up" in text
 
 
-def test_the_old_word_for_may_form_is_read_with_a_note():
+def test_an_unknown_solid_mode_is_refused_with_the_modes_named():
     recipe = {"dissolve": {"CaCl2": 0.05, "Na2SO4": 0.05}}
-    old = ionwright.solve({**recipe, "solids": {"gypsum": "precipitate-only"}})
-    new = ionwright.solve({**recipe, "solids": {"gypsum": "may-form"}})
-    assert old.pH == new.pH
-    assert old.phases["gypsum"]["mode"] == "may-form"
-    assert any("now called 'may-form'" in w for w in old.warnings)
-    assert not any("now called" in w for w in new.warnings)
+    with pytest.raises(ionwright.RecipeError) as info:
+        ionwright.solve({**recipe, "solids": {"gypsum": "form-if-saturated"}})
+    text = str(info.value)
+    assert "'gypsum'" in text and '"may-form"' in text and '"equilibrate"' in text

@@ -38,7 +38,7 @@ import numpy as np
 
 from . import _solver as solver
 from ..errors import RESIDUAL_TOLERANCE, PhaseRuleError, RecipeError, UnknownNameError
-from ..notices import INPUT, SOLVER, Notice
+from ..notices import SOLVER, Notice
 from ..status import CONVERGED, MAX_ITERATIONS, succeeded
 from ..chemistry._formula import parse_formula
 from ._response import response
@@ -51,8 +51,6 @@ EQUILIBRATE = "equilibrate"
 MAY_FORM = "may-form"
 AMOUNT = "amount"
 SOLID_WORDS = (EQUILIBRATE, MAY_FORM)
-#: Older words for a mode, still read, with a note in the result that names the new word.
-RENAMED_SOLID_WORDS = {"precipitate-only": MAY_FORM}
 
 ATM_PER_UNIT = {"atm": 1.0, "matm": 1e-3, "uatm": 1e-6, "µatm": 1e-6, "μatm": 1e-6,
                 "bar": 1 / 1.01325, "mbar": 1e-3 / 1.01325, "kPa": 1 / 101.325,
@@ -108,7 +106,6 @@ class PhaseChoice:
 
     solids: tuple[SolidChoice, ...] = ()
     gases: tuple[GasChoice, ...] = ()
-    notes: tuple[Notice, ...] = ()    # renamed words read, for the result's notices
 
     def __bool__(self) -> bool:
         return bool(self.solids or self.gases)
@@ -121,13 +118,7 @@ def read_phases(raw: Mapping[str, Any], tables: TableSet, origin: str = "(mappin
               for name, value in _table(raw, "solids", origin).items()]
     gases = [_gas_choice(name, value, tables, origin)
              for name, value in _table(raw, "gases", origin).items()]
-    notes = tuple(dict.fromkeys(
-        Notice(INPUT, "renamed-word", f"solid mode {old!r} is now called {new!r}; the old "
-               "word is still read", {"old": old, "new": new})
-        for old, new in RENAMED_SOLID_WORDS.items()
-        for value in _table(raw, "solids", origin).values()
-        if isinstance(value, str) and value.strip().lower() == old))
-    return PhaseChoice(tuple(s for s in solids if s is not None), tuple(gases), notes)
+    return PhaseChoice(tuple(s for s in solids if s is not None), tuple(gases))
 
 
 def _table(raw: Mapping[str, Any], key: str, origin: str) -> Mapping[str, Any]:
@@ -146,7 +137,6 @@ def _solid_choice(name: str, value: Any, tables: TableSet, origin: str) -> Solid
     where = f"{origin} [solids] {name!r}"
     if isinstance(value, str):
         word = value.strip().lower()
-        word = RENAMED_SOLID_WORDS.get(word, word)
         if word in SOLID_WORDS:
             return SolidChoice(name, word, given=value)
     amount = _solid_amount(value, tables.solids[name].formula, where)

@@ -180,7 +180,7 @@ class CompiledRecipe:
         state = equilibrate(self.system, self.tables, totals, bound, t, self.choice,
                             np.broadcast_to(fixed, totals.shape))
         state.notes = [*state.equilibrium.notes, *self.system.temperature_notes(t),
-                       *self.choice.notes, *self._replacements()]
+                       *self._replacements()]
         state.traced = traced
         return state
 
