@@ -26,7 +26,9 @@ def register(subparsers) -> None:
                         help="with --temperature: hold a fixed or measured pH at every "
                         "temperature (default: the closed sample is warmed, its pH follows)")
     parser.add_argument("--points", type=int, default=101, help="number of points (101)")
-    parser.add_argument("--species", help="comma-separated species to tabulate")
+    parser.add_argument("--species", nargs="+", action="extend", default=[], metavar="NAME",
+                        help="species to tabulate, as in batch (NAME NAME ..., or "
+                        "comma-separated; repeatable)")
     parser.add_argument("--beyond-range", action="store_true",
                         help="keep points past the activity model's range (with a warning)")
     parser.add_argument("--json", action="store_true", help="print JSON instead of CSV")
@@ -49,8 +51,8 @@ def run(args: argparse.Namespace) -> int:
     from .._paths import check_plot_path
 
     common = {"points": args.points, "beyond_range": args.beyond_range,
-              "species": tuple(s.strip() for s in args.species.split(","))
-              if args.species else ()}
+              "species": tuple(name.strip() for given in args.species
+                               for name in given.split(",") if name.strip())}
     if args.add and not args.to:
         raise RecipeError("--to", "a titration needs --to", 'e.g. --to "50 mL"')
     if args.hold_pH and not args.temperature:
