@@ -12,7 +12,9 @@ def register(subparsers) -> None:
         "sweep", help="titrate, dilute, warm or hold a recipe at a range of pH; table out",
         description="Solve a recipe at many points in one batch and print a table (CSV, or "
         "JSON) of pH, ionic strength, buffer capacity, chosen species and saturation "
-        "indices. Titrations also report their equivalence points.")
+        "indices. Titrations also report their equivalence points. A water analysis (or "
+        "a recipe with [fix] pH) starts at its measured pH as a closed sample: titrated with "
+        "acid it ends at its alkalinity.")
     parser.add_argument("recipe", help="recipe TOML file")
     kind = parser.add_mutually_exclusive_group(required=True)
     kind.add_argument("--add", metavar="TITRANT", help='titrant, e.g. "HCl 0.1 mol/L"')
