@@ -72,3 +72,14 @@ def test_unknown_gas_in_a_recipe_is_a_clear_error(tmp_path, capsys):
     path.write_text('[gases]\nC02 = "420 uatm"\n', encoding="utf-8")
     assert main(["solve", str(path)]) == 2
     assert "unknown gas 'C02'" in capsys.readouterr().err
+
+
+@pytest.mark.parametrize("flags", [["--species", "HEPES-", "HHEPES"],
+                                   ["--species", "HEPES-,HHEPES"],
+                                   ["--species", "HEPES-", "--species", "HHEPES"]])
+def test_sweep_species_are_given_as_batch_takes_them(rinse, capsys, flags):
+    """Space-separated as in batch, comma-separated, or repeated (issue 16: the space form
+    of batch was refused by sweep as 'unrecognized arguments')."""
+    assert main(["sweep", str(rinse), "--pH", "6:8", "--points", "3", *flags]) == 0
+    header = capsys.readouterr().out.splitlines()[0].split(",")
+    assert [c for c in header if c.startswith("m(")] == ["m(HEPES-)", "m(HHEPES)"]

@@ -92,3 +92,25 @@ def test_diluting_an_analysis_moves_its_ph(lake):
     assert diluted.pH[0] == pytest.approx(7.2, abs=1e-9)
     assert np.ptp(diluted.pH) > 0.01
     assert _closed_notes(diluted.notices)
+
+
+@pytest.mark.parametrize("recipe", [
+    {"dissolve": {"NaHCO3": 0.004, "CaCl2": 0.003}, "fix": {"pH": 7.8}},
+    {"dissolve": {"NaHCO3": 0.004, "CaCl2": 0.003}, "fix": {"pH": 8.6},
+     "solids": {"calcite": "may-form"}},
+    {"dissolve": {"NaHCO3": 0.004, "CaCl2": 0.003}, "fix": {"pH": 7.0},
+     "solids": {"calcite": "equilibrate"}},
+    {"dissolve": {"NaCl": 0.01}, "fix": {"pH": 6.0}, "gases": {"CO2": "420 uatm"}},
+], ids=["plain", "calcite may form", "calcite in excess", "open to CO2"])
+def test_the_closed_sample_starts_at_the_fixed_ph(recipe):
+    """Its protons count what solids and gases exchanged at the fixed pH, so that solved
+    with the pH free it is where it started, to round-off."""
+    from ionwright.engine._solve import compile_recipe
+
+    held = compile_recipe(recipe)
+    closed = held.closed()
+    assert "pH" not in closed.recipe.fix and closed is not held
+    state = closed.solve(closed.base)
+    assert closed.pH(state)[0] == pytest.approx(recipe["fix"]["pH"], abs=1e-9)
+    free = compile_recipe({"dissolve": {"NaCl": 0.01}})
+    assert free.closed() is free       # a recipe that fixes no pH is closed already

@@ -12,7 +12,9 @@ def register(subparsers) -> None:
         "sweep", help="titrate, dilute, warm or hold a recipe at a range of pH; table out",
         description="Solve a recipe at many points in one batch and print a table (CSV, or "
         "JSON) of pH, ionic strength, buffer capacity, chosen species and saturation "
-        "indices. Titrations also report their equivalence points.")
+        "indices. Titrations also report their equivalence points. A water analysis (or "
+        "a recipe with [fix] pH) starts at its measured pH as a closed sample: titrated with "
+        "acid it ends at its alkalinity.")
     parser.add_argument("recipe", help="recipe TOML file")
     kind = parser.add_mutually_exclusive_group(required=True)
     kind.add_argument("--add", metavar="TITRANT", help='titrant, e.g. "HCl 0.1 mol/L"')
@@ -26,7 +28,9 @@ def register(subparsers) -> None:
                         help="with --temperature: hold a fixed or measured pH at every "
                         "temperature (default: the closed sample is warmed, its pH follows)")
     parser.add_argument("--points", type=int, default=101, help="number of points (101)")
-    parser.add_argument("--species", help="comma-separated species to tabulate")
+    parser.add_argument("--species", nargs="+", action="extend", default=[], metavar="NAME",
+                        help="species to tabulate, as in batch (NAME NAME ..., or "
+                        "comma-separated; repeatable)")
     parser.add_argument("--beyond-range", action="store_true",
                         help="keep points past the activity model's range (with a warning)")
     parser.add_argument("--json", action="store_true", help="print JSON instead of CSV")
@@ -49,8 +53,8 @@ def run(args: argparse.Namespace) -> int:
     from .._paths import check_plot_path
 
     common = {"points": args.points, "beyond_range": args.beyond_range,
-              "species": tuple(s.strip() for s in args.species.split(","))
-              if args.species else ()}
+              "species": tuple(name.strip() for given in args.species
+                               for name in given.split(",") if name.strip())}
     if args.add and not args.to:
         raise RecipeError("--to", "a titration needs --to", 'e.g. --to "50 mL"')
     if args.hold_pH and not args.temperature:

@@ -13,7 +13,9 @@ def register(subparsers) -> None:
     parser = subparsers.add_parser(
         "target", help="find the dose of an ingredient that gives a target pH",
         description="Find the amount of one ingredient (or the volume of its stock) that "
-        "brings a recipe to a target pH at the recipe's temperature, solved exactly.")
+        "brings a recipe to a target pH at the recipe's temperature, solved exactly. A "
+        "water analysis (or a recipe with [fix] pH) is dosed from its measured pH, as a "
+        "closed sample.")
     parser.add_argument("recipe", help="recipe TOML file")
     parser.add_argument("--pH", type=float, required=True, help="target pH")
     parser.add_argument("--adjust", required=True,
