@@ -122,8 +122,24 @@ class Sweep:
                 row[f"m({s})"] = float(self.molality(s)[k])
             for name, si in self.saturation.items():
                 row[f"SI({name})"] = float(si[k])
+            for j, phase in enumerate(self.state.solids):  # + dissolved, − precipitated
+                if phase.kind == "solid":
+                    row[f"into_solution({phase.name})_g_per_kg"] = float(
+                        self.state.dissolved[k, j] * phase.molar_mass)
             out.append(row)
         return out
+
+    def into_solution(self, solid: str) -> np.ndarray:
+        """mol of *solid* per kg of water gone into solution at each point (negative where
+        it precipitated: the sludge of a coagulant dose)."""
+        names = [p.name for p in self.state.solids if p.kind == "solid"]
+        if solid not in names:
+            from ..errors import UnknownNameError
+
+            raise UnknownNameError("solid of this sweep", solid, names,
+                                   "list it under [solids] in the recipe")
+        j = next(j for j, p in enumerate(self.state.solids) if p.name == solid)
+        return self.state.dissolved[:, j].copy()
 
     def to_csv(self) -> str:
         rows = self.rows()
