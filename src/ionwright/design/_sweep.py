@@ -29,6 +29,7 @@ from typing import Any
 import numpy as np
 
 from ..notices import INPUT, VALIDITY, Notice, texts
+from ..outputs._cautions import dissolved_levels, drinking_water_caution
 from ..outputs._model_numbers import beyond_model_range
 from ..status import succeeded
 from ..chemistry._density import component_solute, ingredient_solute
@@ -361,9 +362,21 @@ def _finish(bench: CompiledRecipe, kind: str, variable: str, values: np.ndarray,
             f"ionic strength is beyond the {bench.model.name} model's range (up to about "
             f"{limit:g}); those points are less certain",
             {"model": bench.model.name, "from": float(first), "limit": limit}))
+    notes.extend(_drinking_water_notes(bench, kept_state))
     return Sweep(kind, variable, values[:kept], bench, kept_state, chosen,
                  buffer_capacity(kept_state) if kept else np.zeros(0),
                  saturation=_saturation(bench, kept_state), notices=notes, stopped=stopped)
+
+
+def _drinking_water_notes(bench: CompiledRecipe, state: PhaseEquilibrium) -> list[Notice]:
+    """The lead/copper/cadmium/arsenic caution at the highest level any point reaches."""
+    components = bench.system.components
+    highest: dict[str, float] = {}
+    for row in state.totals:
+        for element, mg in dissolved_levels(dict(zip(components, row)), bench.tables).items():
+            highest[element] = max(mg, highest.get(element, 0.0))
+    caution = drinking_water_caution(highest)
+    return [] if caution is None else [caution]
 
 
 def _take_state(state: PhaseEquilibrium, rows: np.ndarray) -> PhaseEquilibrium:
