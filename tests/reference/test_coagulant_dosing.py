@@ -97,3 +97,15 @@ def test_an_unknown_solid_of_a_sweep_is_named():
     sweep = ionwright.titration(_jar("alum"), "alum 10 g/L", "2 mL", points=3)
     with pytest.raises(ionwright.errors.UnknownNameError, match="gibbsite"):
         sweep.into_solution("gibbsite")
+
+
+def test_a_water_analysis_is_dosed_as_a_closed_sample_with_its_floc():
+    analysis = {"temperature_C": 15.0, "pH": 7.8, "alkalinity": "60 mg/L as CaCO3",
+                "Ca": "22 mg/L", "Mg": "4 mg/L", "Na": "9 mg/L", "Cl": "12 mg/L",
+                "SO4": "15 mg/L"}                                   # invented river water
+    dosed = ionwright.target({"analysis": analysis, "solids": {"ferrihydrite": "may-form"}},
+                             pH=6.8, adjust="ferric chloride")
+    assert dosed.pH == pytest.approx(6.8, abs=1e-6)
+    floc = dosed.result.to_dict()["phases"]["ferrihydrite"]
+    assert floc["into_solution_mol_per_kg"] == pytest.approx(
+        -dosed.amount_mol_per_kg, rel=1e-3)          # ferric iron is nearly all floc
