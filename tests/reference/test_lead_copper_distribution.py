@@ -122,3 +122,9 @@ def test_a_batch_row_with_lead_carries_the_caution_and_a_row_without_does_not():
     assert "CAUTION: dissolved lead" in out["message"].iloc[0]
     assert "local codes" in out["message"].iloc[0]
     assert "CAUTION: dissolved lead" not in out["message"].iloc[1]
+
+
+def test_the_report_prints_the_caution_before_the_other_warnings():
+    report = _solve({"cerussite": "equilibrate"}).report()
+    warnings = report[report.index("\nwarnings\n"):].splitlines()[2:]
+    assert warnings[0].startswith("  - CAUTION: dissolved lead")

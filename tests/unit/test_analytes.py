@@ -125,3 +125,8 @@ def test_an_unknown_batch_column_names_both_readings(tables):
     (column,) = batch.plan_columns(["Mangnese [mg/L]"], tables).columns
     assert "unknown ingredient 'Mangnese'" in column.problem
     assert "did you mean 'manganese'" in column.problem
+
+
+def test_a_state_key_that_settles_no_analyte_is_refused():
+    with pytest.raises(RecipeError, match=r"\[analysis\] iron_state: settles no analyte"):
+        ionwright.solve({"analysis": {**BASE, "Fe(III)": "0.1 mg/L", "iron_state": "Fe(III)"}})
