@@ -103,6 +103,7 @@ class Column:
     unit: str = ""
     components: tuple[str, ...] = ()   # components the column can bring
     problem: str = ""             # set when the column cannot be read at all
+    note: str = ""                # how an analyte was read (Fe taken as Fe(II))
 
 
 @dataclass
@@ -195,8 +196,9 @@ def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Colu
         brings = ("CO3^2-",) if name in CARBONATE_KEYS else ()
         return Column(header, "analysis", name, unit, components=brings)
     try:
-        component = map_analyte(name, tables, where).component
-        return Column(header, "analysis", name, unit, components=(component,))
+        analyte = map_analyte(name, tables, where)
+        return Column(header, "analysis", name, unit, components=(analyte.component,),
+                      note=analyte.note)
     except RecipeError as exc:
         as_analyte = f"as an analyte: {exc.problem} ({exc.hint})"
     try:
@@ -562,6 +564,10 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, pla
     metals = _drinking_water_flag(system, tables, totals)
     if metals is not None:
         flagged.append(metals)
+    for col in plan.columns:  # an oxidation state assumed, as the single analysis says
+        if col.note and col.components[0] in system.components:
+            j = system.components.index(col.components[0])
+            flagged.append((f"column {col.header!r}: {col.note}", totals[:, j] > 0))
     out.status[rows] = status  # the solver's own word where it did not converge
     out.message[rows] = _notes(system, model, out.ph[rows], out.ionic_strength[rows], t, ok,
                                eq.molality, _log10_hydroxide(system, tables, eq), flagged)
