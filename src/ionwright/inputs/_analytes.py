@@ -213,8 +213,8 @@ def _usual(key: str, element: str | None, candidates: list[str], tables: TableSe
         return None
     others = [f"{element}({_roman(s)})" for s in sorted(held) if s != usual]
     return held[usual], (f"taken as {element}({_roman(usual)}), the usual state of dissolved "
-                         f"{key}; write {' or '.join(others)} or set {state_key} if the "
-                         "sample holds another"), ""
+                         f"{key}; if the sample holds another, write {' or '.join(others)} "
+                         f"(or set {state_key} in an [analysis])"), ""
 
 
 def _oxidation_state(tables: TableSet, component: str, element: str) -> int:
