@@ -125,3 +125,16 @@ def test_an_unknown_batch_column_names_both_readings(tables):
     (column,) = batch.plan_columns(["Mangnese [mg/L]"], tables).columns
     assert "unknown ingredient 'Mangnese'" in column.problem
     assert "did you mean 'manganese'" in column.problem
+
+
+def test_a_state_key_that_settles_no_analyte_is_refused():
+    with pytest.raises(RecipeError, match=r"\[analysis\] iron_state: settles no analyte"):
+        ionwright.solve({"analysis": {**BASE, "Fe(III)": "0.1 mg/L", "iron_state": "Fe(III)"}})
+
+
+def test_a_batch_row_says_which_iron_a_bare_fe_column_was_taken_as():
+    frame = pd.DataFrame({"pH": [7.2, 7.2], "Na [mg/L]": [20.0, 20.0],
+                          "Cl [mg/L]": [30.0, 30.0], "Fe [mg/L]": [0.3, 0.0]})
+    out = ionwright.solve_batch(frame)
+    assert "column 'Fe [mg/L]': taken as Fe(II)" in out["message"].iloc[0]
+    assert "taken as Fe(II)" not in out["message"].iloc[1]

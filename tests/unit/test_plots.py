@@ -77,3 +77,23 @@ def test_every_solid_has_its_own_colour_and_line_style():
     assert len(lines) > len(plots.PALETTE)
     looks = {(line.get_color(), str(line.get_linestyle())) for line in lines}
     assert len(looks) == len(lines)
+
+
+def test_a_dose_that_precipitates_draws_the_solid_formed_beside_the_ph(tmp_path):
+    """A coagulant dose: the titration figure gets a right-hand axis with the floc formed
+    (mg per kg of water), the numbers of the sweep's own column."""
+    dosed = sweep.titration({"dissolve": {"NaHCO3": 1.2e-3, "CaCl2": 5e-4},
+                             "solids": {"amorphous Al(OH)3": "may-form"}},
+                            "alum 10 g/L", "6 mL", points=7)
+    fig = plots.titration_curve(dosed)
+    assert len(fig.axes) == 2
+    (line,) = fig.axes[1].get_lines()
+    expected = [-row["into_solution(amorphous Al(OH)3)_g_per_kg"] * 1000.0
+                for row in dosed.rows()]
+    assert list(line.get_ydata()) == pytest.approx(expected, rel=1e-12)
+    assert "formed" in fig.axes[1].get_ylabel()
+    plots.save(fig, tmp_path / "alum.png")
+
+
+def test_a_titration_without_solids_has_one_axis(titrated):
+    assert len(plots.titration_curve(titrated).axes) == 1

@@ -41,7 +41,8 @@ import numpy as np
 
 from ..core import _solver as solver
 from ..outputs._cautions import (CORROSIVE_HIGH_PH, CORROSIVE_LOW_PH, CORROSIVE_REFERENCE_C,
-                                 corrosive_limits, corrosive_text)
+                                 DRINKING_WATER_ELEMENTS, corrosive_limits, corrosive_text,
+                                 drinking_water_text)
 from ..outputs._model_numbers import beyond_model_range, model_range_notice
 from ..errors import IonwrightError, RecipeError, UnknownNameError
 from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
@@ -102,6 +103,7 @@ class Column:
     unit: str = ""
     components: tuple[str, ...] = ()   # components the column can bring
     problem: str = ""             # set when the column cannot be read at all
+    note: str = ""                # how an analyte was read (Fe taken as Fe(II))
 
 
 @dataclass
@@ -194,8 +196,9 @@ def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Colu
         brings = ("CO3^2-",) if name in CARBONATE_KEYS else ()
         return Column(header, "analysis", name, unit, components=brings)
     try:
-        component = map_analyte(name, tables, where).component
-        return Column(header, "analysis", name, unit, components=(component,))
+        analyte = map_analyte(name, tables, where)
+        return Column(header, "analysis", name, unit, components=(analyte.component,),
+                      note=analyte.note)
     except RecipeError as exc:
         as_analyte = f"as an analyte: {exc.problem} ({exc.hint})"
     try:
@@ -558,6 +561,13 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, pla
         over_group = np.zeros(len(rows), dtype=bool)
         over_group[ok] = mask
         flagged.append((text, over_group))
+    metals = _drinking_water_flag(system, tables, totals)
+    if metals is not None:
+        flagged.append(metals)
+    for col in plan.columns:  # an oxidation state assumed, as the single analysis says
+        if col.note and col.components[0] in system.components:
+            j = system.components.index(col.components[0])
+            flagged.append((f"column {col.header!r}: {col.note}", totals[:, j] > 0))
     out.status[rows] = status  # the solver's own word where it did not converge
     out.message[rows] = _notes(system, model, out.ph[rows], out.ionic_strength[rows], t, ok,
                                eq.molality, _log10_hydroxide(system, tables, eq), flagged)
@@ -578,6 +588,19 @@ def _saturation(system: ChemicalSystem, tables: TableSet, eq: solver.Equilibrium
     for j, name in enumerate(plan.solids):
         if name in found:
             target[good, j] = found[name]
+
+
+def _drinking_water_flag(system: ChemicalSystem, tables: TableSet, totals: np.ndarray
+                         ) -> tuple[str, np.ndarray] | None:
+    """(caution, rows) for rows holding lead, copper, cadmium or arsenic, or None."""
+    found = {e: [j for j, c in enumerate(system.components)
+                 if e in tables.components[c].elements]
+             for e in DRINKING_WATER_ELEMENTS}
+    found = {e: cols for e, cols in found.items() if cols}
+    if not found:
+        return None
+    rows = np.any(totals[:, [j for cols in found.values() for j in cols]] > 0, axis=1)
+    return drinking_water_text(found), rows
 
 
 def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: np.ndarray,

@@ -38,7 +38,7 @@ import numpy as np
 
 from . import _solver as solver
 from ..errors import RESIDUAL_TOLERANCE, PhaseRuleError, RecipeError, UnknownNameError
-from ..notices import SOLVER, Notice
+from ..notices import SOLVER, VALIDITY, Notice
 from ..status import CONVERGED, MAX_ITERATIONS, succeeded
 from ..chemistry._formula import parse_formula
 from ._response import response
@@ -444,6 +444,36 @@ def equilibrate(system: ChemicalSystem, tables: TableSet, totals: np.ndarray, bo
     state = work.run()
     state.skipped = skipped
     return state
+
+
+def solids_fix_totals_notes(state: PhaseEquilibrium, components: Sequence[str],
+                            given: np.ndarray) -> list[Notice]:
+    """A notice when the solids held at equilibrium leave no freedom to the components
+    they are made of (as many independent solids as such components, as cerussite and
+    hydrocerussite at a fixed pH): the phase rule then sets those components' activities
+    from the solids alone, and the amounts the recipe gave of them (a water's carbonate,
+    its measured alkalinity) are taken up or released by the solids, not kept. *given*
+    (n, c) marks the system *components* whose totals the recipe gave (not a trace)."""
+    basis, solids, modes, free = state.basis, state.solids, state.modes, state.free
+    held = [s for s, m in zip(solids, modes) if m.mode == EQUILIBRATE]
+    if len(held) < 2:   # one solid in excess fixing its one metal is the usual question
+        return []
+    rows = basis.new_direction(np.array([s.stoichiometry for s in held]))[:, free]
+    involved = np.flatnonzero(np.any(np.abs(rows) > 1e-12, axis=0))
+    if involved.size != len(held) or np.linalg.matrix_rank(rows[:, involved]) < len(held):
+        return []
+    names = [str(n) for n in np.array(basis.components)[free][involved]]
+    stated = [n for n in names if n in components and given[:, components.index(n)].any()]
+    if not stated:
+        return []
+    solid_names = " and ".join(s.name for s in held)
+    return [Notice(VALIDITY, "solids-fix-totals",
+                   f"{solid_names} held at equilibrium fix the activities of "
+                   f"{' and '.join(names)} (the phase rule leaves them no freedom here): the "
+                   f"solution's {' and '.join(stated)} come from the solids, not from what the "
+                   "recipe gives, which the solids take up or release; to keep what was given, "
+                   'hold one solid at "equilibrate" and make the others "may-form"',
+                   {"solids": [s.name for s in held], "components": names, "given": stated})]
 
 
 def check_phase_rule(basis: GasBasis, solids: Sequence[PhaseReaction],

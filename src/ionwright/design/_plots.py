@@ -107,8 +107,27 @@ def titration_curve(sweep: Sweep) -> Figure:
                     fontsize=9, color=PALETTE[1])
     ax.set_xlabel(x_label(sweep), color=INK, fontsize=11)
     ax.set_ylabel("pH", color=INK, fontsize=11)
+    _solids_formed_axis(ax, sweep)
     _title(ax, sweep, "titration")
     return fig
+
+
+def _solids_formed_axis(ax, sweep: Sweep) -> None:
+    """A right-hand axis with each solid the dose precipitates (mg per kg of water): the
+    sludge of a coagulant dose beside the pH it reaches. Nothing when no solid forms."""
+    formed = {phase.name: -1000.0 * phase.molar_mass * sweep.state.dissolved[:, j]
+              for j, phase in enumerate(sweep.state.solids) if phase.kind == "solid"}
+    formed = {name: mg for name, mg in formed.items() if np.nanmax(mg, initial=0.0) > 0}
+    if not formed:
+        return
+    right = ax.twinx()
+    right.spines["top"].set_visible(False)
+    right.tick_params(colors=INK, labelsize=10)
+    for k, (name, mg) in enumerate(formed.items(), 1):
+        right.plot(sweep.values, mg, linewidth=1.8, label=f"{name} formed", **_look(k))
+    right.set_ylim(bottom=0)
+    right.set_ylabel("solid formed (mg per kg of water)", color=INK, fontsize=11)
+    right.legend(frameon=False, fontsize=9, loc="upper center")
 
 
 def species_distribution(sweep: Sweep, component: str) -> Figure:

@@ -29,6 +29,7 @@ from typing import Any
 import numpy as np
 
 from ..notices import INPUT, VALIDITY, Notice, texts
+from ..outputs._cautions import dissolved_levels, drinking_water_caution
 from ..outputs._model_numbers import beyond_model_range
 from ..status import succeeded
 from ..chemistry._density import component_solute, ingredient_solute
@@ -122,8 +123,24 @@ class Sweep:
                 row[f"m({s})"] = float(self.molality(s)[k])
             for name, si in self.saturation.items():
                 row[f"SI({name})"] = float(si[k])
+            for j, phase in enumerate(self.state.solids):  # + dissolved, − precipitated
+                if phase.kind == "solid":
+                    row[f"into_solution({phase.name})_g_per_kg"] = float(
+                        self.state.dissolved[k, j] * phase.molar_mass)
             out.append(row)
         return out
+
+    def into_solution(self, solid: str) -> np.ndarray:
+        """mol of *solid* per kg of water gone into solution at each point (negative where
+        it precipitated: the sludge of a coagulant dose)."""
+        names = [p.name for p in self.state.solids if p.kind == "solid"]
+        if solid not in names:
+            from ..errors import UnknownNameError
+
+            raise UnknownNameError("solid of this sweep", solid, names,
+                                   "list it under [solids] in the recipe")
+        j = next(j for j, p in enumerate(self.state.solids) if p.name == solid)
+        return self.state.dissolved[:, j].copy()
 
     def to_csv(self) -> str:
         rows = self.rows()
@@ -345,9 +362,21 @@ def _finish(bench: CompiledRecipe, kind: str, variable: str, values: np.ndarray,
             f"ionic strength is beyond the {bench.model.name} model's range (up to about "
             f"{limit:g}); those points are less certain",
             {"model": bench.model.name, "from": float(first), "limit": limit}))
+    notes.extend(_drinking_water_notes(bench, kept_state))
     return Sweep(kind, variable, values[:kept], bench, kept_state, chosen,
                  buffer_capacity(kept_state) if kept else np.zeros(0),
                  saturation=_saturation(bench, kept_state), notices=notes, stopped=stopped)
+
+
+def _drinking_water_notes(bench: CompiledRecipe, state: PhaseEquilibrium) -> list[Notice]:
+    """The lead/copper/cadmium/arsenic caution at the highest level any point reaches."""
+    components = bench.system.components
+    highest: dict[str, float] = {}
+    for row in state.totals:
+        for element, mg in dissolved_levels(dict(zip(components, row)), bench.tables).items():
+            highest[element] = max(mg, highest.get(element, 0.0))
+    caution = drinking_water_caution(highest)
+    return [] if caution is None else [caution]
 
 
 def _take_state(state: PhaseEquilibrium, rows: np.ndarray) -> PhaseEquilibrium:

@@ -22,7 +22,7 @@ from ..chemistry._ingredients import Makeup, makeup
 from ..chemistry._tableset import TableSet
 from ..core import _solver as solver
 from ..core._phases import (PhaseChoice, PhaseEquilibrium, _take, components_needed, describe,
-                            equilibrate, failure, read_phases)
+                            equilibrate, failure, read_phases, solids_fix_totals_notes)
 from ..core._solver import Equilibrium
 from ..core._system import PROTON, WATER, ChemicalSystem, compile_system
 from ..errors import ConvergenceError, RecipeError
@@ -179,8 +179,10 @@ class CompiledRecipe:
         fixed = self.fixed() if fixed is None else fixed
         state = equilibrate(self.system, self.tables, totals, bound, t, self.choice,
                             np.broadcast_to(fixed, totals.shape))
+        given = (totals > 0) & ~traced
         state.notes = [*state.equilibrium.notes, *self.system.temperature_notes(t),
-                       *self._replacements()]
+                       *self._replacements(),
+                       *solids_fix_totals_notes(state, self.system.components, given)]
         state.traced = traced
         return state
 

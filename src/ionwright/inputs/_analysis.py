@@ -29,7 +29,7 @@ from ..chemistry._formula import parse_formula
 from ..chemistry._tableset import TableSet
 from ..core._acid_base import ALKALINITY_END_POINT_PH
 from ..errors import RecipeError
-from ._analytes import NAMED_KEYS, Analyte, map_analyte, read_states
+from ._analytes import NAMED_KEYS, Analyte, check_states_used, map_analyte, read_states
 from ._checks import as_number, check_temperature, given_density
 from ._mixing import Conversion, Entry, Mixture, mix
 from ._units import (CALCIUM_CARBONATE, CALCIUM_CARBONATE_EQUIVALENTS, Quantity,
@@ -90,11 +90,13 @@ def read_analysis(section: Any, origin: str, tables: TableSet) -> AnalysisFit:
     density = given_density(section, where)
     states = read_states(section, tables, where)
     given: list[Entry] = []
+    analytes: list[Analyte] = []
     keys: dict[str, str] = {}
     for key, value in section.items():
         if key in NAMED_KEYS or key in CARBONATE_KEYS:
             continue
         analyte = map_analyte(key, tables, f"{where} {key}", states)
+        analytes.append(analyte)
         component = analyte.component
         if component in keys.values():
             other = next(k for k, c in keys.items() if c == component)
@@ -105,6 +107,7 @@ def read_analysis(section: Any, origin: str, tables: TableSet) -> AnalysisFit:
                           f"{where} {key}")
         given.append(_analyte_entry(component_solute(component, tables), analyte,
                                     quantity, f"{where} {key}", f"[analysis] {key}"))
+    check_states_used(section, analytes, where)
     alkalinity = _alkalinity(section, ph, where)
     dic = _dic_entry(section, tables, where)
     if dic is not None:

@@ -60,6 +60,7 @@ class Analyte:
     formula: Formula
     per_mole: float
     note: str = ""
+    settled_by: str = ""     # the state key that chose the component, if one did
 
 
 def map_analyte(key: str, tables: TableSet, where: str,
@@ -84,13 +85,27 @@ def map_analyte(key: str, tables: TableSet, where: str,
         raise RecipeError(where, f"the tables have no component for {key!r} (made of "
                           f"{', '.join(sorted(heavy))})", "add the ion to a table "
                           "(`ionwright tables show components` lists them) or remove the entry")
-    component, note = _choose(key, formula, stated, candidates, tables, where, states or {})
+    component, note, settled_by = _choose(key, formula, stated, candidates, tables, where,
+                                          states or {})
     elements = tables.components[component].elements
     ratios = {formula.elements[el] / elements[el] for el in heavy}
     if len(ratios) != 1:
         raise RecipeError(where, f"{key!r} does not map onto {component} one to one",
                           "give the ion's own formula")
-    return Analyte(component, formula, ratios.pop(), note)
+    return Analyte(component, formula, ratios.pop(), note, settled_by)
+
+
+def check_states_used(states_given: Mapping[str, object], analytes: list[Analyte],
+                      where: str) -> None:
+    """Refuse a state key that settled no analyte (no bare Fe or As in the analysis): an
+    option that does nothing is a slip the user should hear about."""
+    used = {a.settled_by for a in analytes}
+    for key, element in STATE_KEYS.items():
+        if key in states_given and key not in used:
+            raise RecipeError(f"{where} {key}", f"settles no analyte: the analysis has no "
+                              f"bare {element} (keys such as {element}({_roman(USUAL_STATES[element])}) "
+                              "state their own state)",
+                              f"remove {key}, or give the analyte as {element} = \"...\"")
 
 
 def read_states(section: Mapping[str, object], tables: TableSet,
@@ -151,8 +166,9 @@ def _spelled_out(key: str, where: str) -> tuple[str, int | None]:
 
 
 def _choose(key: str, formula: Formula, stated: int | None, candidates: list[str],
-            tables: TableSet, where: str, states: Mapping[str, int]) -> tuple[str, str]:
-    """(component, note) among *candidates*: by stated state, charge or oxygen count."""
+            tables: TableSet, where: str, states: Mapping[str, int]) -> tuple[str, str, str]:
+    """(component, note, state key used) among *candidates*: by stated state, charge or
+    oxygen count, else by a state key or the usual state."""
     heavy = sorted(set(formula.elements) - LIGHT)
     element = heavy[0] if len(heavy) == 1 else None
     if stated is not None:
@@ -161,7 +177,7 @@ def _choose(key: str, formula: Formula, stated: int | None, candidates: list[str
             raise RecipeError(where, f"the tables hold {_describe(held, element or '')}, not "
                               f"{element}({_roman(stated)})", "name a state the tables hold, "
                               "or add a component for this one to a table")
-        return held[stated], ""
+        return held[stated], "", ""
     if len(candidates) > 1 and formula.charge:
         candidates = [c for c in candidates if tables.components[c].charge == formula.charge] \
             or candidates
@@ -176,27 +192,29 @@ def _choose(key: str, formula: Formula, stated: int | None, candidates: list[str
         raise RecipeError(where, f"{key!r} could be {' or '.join(candidates)}",
                           "write the ion more fully (SO4, or S for sulfide), or its state "
                           "(Fe(III))")
-    return candidates[0], ""
+    return candidates[0], "", ""
 
 
 def _usual(key: str, element: str | None, candidates: list[str], tables: TableSet,
-           states: Mapping[str, int]) -> tuple[str, str] | None:
-    """(component, note) of a bare element held in several states: the state key's
-    state, else the usual one; None for an element without a usual state."""
+           states: Mapping[str, int]) -> tuple[str, str, str] | None:
+    """(component, note, state key used or "") of a bare element held in several states:
+    the state key's state, else the usual one; None for an element without a usual
+    state."""
     if element not in USUAL_STATES:
         return None
     state_key = next(k for k, e in STATE_KEYS.items() if e == element)
     held = {_oxidation_state(tables, c, element): c for c in candidates}
     given = states.get(element)
     if given in held:   # read_states checked it against the tables
-        return held[given], f"taken as {element}({_roman(given)}), as {state_key} says"
+        return held[given], f"taken as {element}({_roman(given)}), as {state_key} says", \
+            state_key
     usual = USUAL_STATES[element]
     if usual not in held:
         return None
     others = [f"{element}({_roman(s)})" for s in sorted(held) if s != usual]
     return held[usual], (f"taken as {element}({_roman(usual)}), the usual state of dissolved "
-                         f"{key}; write {' or '.join(others)} or set {state_key} if the "
-                         "sample holds another")
+                         f"{key}; if the sample holds another, write {' or '.join(others)} "
+                         f"(or set {state_key} in an [analysis])"), ""
 
 
 def _oxidation_state(tables: TableSet, component: str, element: str) -> int:

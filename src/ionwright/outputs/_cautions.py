@@ -2,7 +2,8 @@
 
 Where a number can hurt someone the report says so: corrosive pH (US EPA 40 CFR
 261.22), toxic gas that an acid solution releases (H2S from sulfide, HCN from cyanide,
-chlorine from hypochlorite), free ammonia above pH 9.5, and a charge-balance error
+chlorine from hypochlorite), free ammonia above pH 9.5, lead, copper, cadmium and arsenic
+in water (regulated in drinking water), and a charge-balance error
 beyond ±5 % that makes an analysis doubtful. Gas checks look for the species by
 formula, so they apply to any table that has them and are skipped only when the
 solution holds none of that species. The cautions never replace local codes, measured
@@ -11,10 +12,13 @@ values or licensed practice.
 
 from __future__ import annotations
 
+from typing import Iterable, Mapping
+
 import numpy as np
 
 from ._derived import charge_balance_error_percent
-from ..chemistry._formula import Formula, parse_formula
+from ..chemistry._formula import Formula, molar_mass, parse_formula
+from ..chemistry._tableset import TableSet
 from ..chemistry._water import log10_kw
 from ..core._system import log10_k_at
 from ..notices import CAUTION, DATA_QUALITY, Notice
@@ -39,6 +43,12 @@ CHLORINE_RELEASE_PH = 5.0
 FREE_AMMONIA_PH = 9.5      # above it, most ammonia is free NH3  # common practice
 CHARGE_BALANCE_LIMIT = 5.0  # % acceptance guide for water analyses  # common practice
 DEFER = "follow your site's safety rules, local codes and licensed practice"
+#: Elements whose level in drinking water is regulated and that a solve can put a number
+#: on (lead and copper from pipes, cadmium, arsenic); the caution names each one present.
+DRINKING_WATER_ELEMENTS = {"Pb": "lead", "Cu": "copper", "Cd": "cadmium", "As": "arsenic"}
+DRINKING_WATER_ADVICE = ("these metals are regulated in drinking water, and decisions on them "
+                         "(tap sampling, action levels, corrosion control, lead service lines, "
+                         "compliance) follow local codes, measured values and licensed practice")
 _VOLATILE = (("H2S", "sulfide", "hydrogen sulfide"), ("HCN", "cyanide", "hydrogen cyanide"))
 _HYPOCHLORITE = (parse_formula("ClO-"), parse_formula("HClO"))
 _AMMONIA = parse_formula("NH3")
@@ -78,6 +88,10 @@ def cautions(result: Speciation) -> list[Notice]:
             f"CAUTION: ammonia at pH {ph:.2f} (above {FREE_AMMONIA_PH:g}): "
             f"{100 * ammonia[0]:.3g} % is free NH3, which escapes as an irritant gas "
             f"and is toxic to fish; ventilate and {DEFER}", {"share": ammonia[0], "pH": ph}))
+    levels = dissolved_levels(result.totals, result.tables)
+    metals = drinking_water_caution(levels)
+    if metals is not None:
+        out.append(metals)
     out.extend(_balanced_by_protons(result))
     error = charge_balance_error_percent(result)
     if abs(error) > CHARGE_BALANCE_LIMIT:
@@ -90,6 +104,43 @@ def cautions(result: Speciation) -> list[Notice]:
             f"measured values, local codes and licensed practice",
             {"error_percent": error, "limit_percent": CHARGE_BALANCE_LIMIT}))
     return out
+
+
+def dissolved_levels(totals: Mapping[str, float], tables: TableSet) -> dict[str, float]:
+    """mg per kg of water of each element of :data:`DRINKING_WATER_ELEMENTS` dissolved,
+    from component *totals* (mol/kg water); elements absent are left out."""
+    levels: dict[str, float] = {}
+    for component, molality in totals.items():
+        elements = tables.components[component].elements if component in tables.components \
+            else {}
+        for element in DRINKING_WATER_ELEMENTS.keys() & elements.keys():
+            if molality > 0:
+                levels[element] = levels.get(element, 0.0) + (
+                    1000.0 * molality * elements[element] * molar_mass(element))
+    return levels
+
+
+def drinking_water_caution(levels: Mapping[str, float]) -> Notice | None:
+    """The caution on lead, copper, cadmium and arsenic in water: their computed levels
+    (mg per kg of water) are estimates, and decisions on them belong to local codes."""
+    if not levels:
+        return None
+    shown = ", ".join(f"{DRINKING_WATER_ELEMENTS[e]} {_level(mg)}" for e, mg in levels.items())
+    return Notice(CAUTION, "drinking-water-metals",
+                  f"CAUTION: dissolved {shown} per kg of water, computed from published "
+                  f"constants, not measured; {DRINKING_WATER_ADVICE}",
+                  {"mg_per_kg_water": dict(levels)})
+
+
+def drinking_water_text(elements: Iterable[str]) -> str:
+    """The same caution without numbers, for a batch row (its columns hold the numbers)."""
+    names = ", ".join(DRINKING_WATER_ELEMENTS[e] for e in elements)
+    return (f"CAUTION: dissolved {names} computed from published constants, not measured; "
+            f"{DRINKING_WATER_ADVICE}")
+
+
+def _level(mg: float) -> str:
+    return f"{mg:.3g} mg" if mg >= 0.1 else f"{1000 * mg:.3g} µg"
 
 
 def _balanced_by_protons(result: Speciation) -> list[Notice]:

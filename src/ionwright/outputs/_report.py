@@ -7,6 +7,7 @@ Species are shown in their pretty form (``CO₃²⁻``); JSON and tables keep th
 from __future__ import annotations
 
 from ..chemistry._names import pretty_name
+from ..notices import CAUTION
 from ._buffer_quantities import report_lines as formulation_lines
 from ._derived import report_lines as derived_lines
 from ._phase_report import phase_lines
@@ -55,7 +56,7 @@ def text_report(result) -> str:
     lines += derived_lines(r)
     lines += formulation_lines(r)
     lines += constants_section(r)
-    if r.warnings:
+    if r.notices:  # cautions first, as a reader must not miss them
         lines += ["", "warnings"]
-        lines += [f"  - {w}" for w in r.warnings]
+        lines += [f"  - {n.text}" for n in sorted(r.notices, key=lambda n: n.category != CAUTION)]
     return "\n".join(lines)
