@@ -103,7 +103,8 @@ def report_lines(speciation: Speciation) -> list[str]:
         lines.append(f"  stated as {summary['stated']}")
     for couple, pe in summary["couples_pe"].items():
         lines.append(f"  {couple:<18} implies pe {pe:6.2f} (Eh {float(eh_from_pe(pe, speciation.temperature_C)):+.3f} V)")
-    if summary["oxygen_saturation_percent"] is not None:
-        lines.append(f"  dissolved O2       {summary['oxygen_saturation_percent']:.3g} % of "
-                     "saturation with air (fresh water, 1 atm)")
+    saturation = summary["oxygen_saturation_percent"]
+    if saturation is not None:
+        shown = f"{saturation:.3g} %" if saturation >= 0.01 else "below 0.01 %"
+        lines.append(f"  dissolved O2       {shown} of saturation with air (fresh water, 1 atm)")
     return ["", "redox level", *lines] if lines else []
