@@ -57,8 +57,8 @@ def couple_pe(speciation: Speciation) -> dict[str, float]:
         electrons = couple.reaction[ELECTRON]
         rest = sum(nu * log_a[part] for part, nu in couple.reaction.items()
                    if part != ELECTRON)
-        log_k = float(log10_k_at(couple.logk, np.array([t]))[0])
-        out[f"{oxidised}/{reduced}"] = float(-(log_a[reduced] - log_k - rest) / electrons)
+        log10_k_couple = float(log10_k_at(couple.logk, np.array([t]))[0])
+        out[f"{oxidised}/{reduced}"] = float(-(log_a[reduced] - log10_k_couple - rest) / electrons)
     return out
 
 
