@@ -139,8 +139,8 @@ API = [
             ("'disolve'",), ("dissolve",)),
     Refusal("fix pH 20", solve_map({**RINSE_MAP, "fix": {"pH": 20}}), RecipeError,
             ("[fix] pH", "20"), ("between",)),
-    Refusal("fix unknown key", solve_map({**RINSE_MAP, "fix": {"pe": 4}}), RecipeError,
-            ("'pe'",), ("pH",)),
+    Refusal("fix unknown key", solve_map({**RINSE_MAP, "fix": {"pOH": 4}}), RecipeError,
+            ("'pOH'",), ("pH",)),
     # names
     Refusal("NaCL", solve_map({"dissolve": {"NaCL": 0.1}}), UnknownNameError, ("'NaCL'",),
             ("'NaCl'",)),

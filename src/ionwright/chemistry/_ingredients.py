@@ -12,7 +12,7 @@ suggestions ranked by similarity of the whole name (:mod:`._name_match`).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from itertools import combinations
 from typing import Mapping
 
@@ -21,6 +21,7 @@ import numpy as np
 from ..errors import FormulaError, IonwrightError, RecipeError, UnknownNameError
 from ._formula import parse_formula
 from ._name_match import suggestions
+from ._redox import in_linked_basis, unlinked
 from ._salt_names import AmbiguousSaltName, formula_from_name
 from ._tableset import TableSet
 
@@ -50,6 +51,10 @@ def makeup(name: str, tables: TableSet) -> Makeup:
     meant: close reagent names, and formulas within one slip of it (case: ``NaCL`` for
     NaCl; one extra character: ``NaOHH`` for NaOH) that the tables can make.
     """
+    base = unlinked(tables)
+    if base is not None:  # a linked set: the make-up of the unlinked one, in its components
+        made = makeup(name, base)
+        return replace(made, per_mole=in_linked_basis(made.per_mole, tables))
     if not isinstance(name, str) or not name.strip():
         raise RecipeError("ingredient", f"{name!r} must be a name (text)",
                           'give a named reagent or a formula, e.g. "NaOH" or "citric acid"')

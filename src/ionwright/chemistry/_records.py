@@ -200,6 +200,8 @@ class ConstantTable:
     gases: Mapping[str, Phase]
     reagents: Mapping[str, Reagent]
     counts: Mapping[str, int] = field(default_factory=dict)
+    #: redox couples: component name → that component as a species formed with electrons
+    couples: Mapping[str, Species] = field(default_factory=dict)
 
     def citation(self, key: str) -> str:
         """Full citation for a source key (the key itself if it is a literal citation)."""

@@ -59,6 +59,9 @@ class TableSet:
         self.solids: dict[str, Phase] = merged["solids"]
         self.gases: dict[str, Phase] = merged["gases"]
         self.reagents: dict[str, Reagent] = merged["reagents"]
+        self.couples: dict[str, Species] = {}
+        for table in tables:  # later tables override earlier ones, like the other kinds
+            self.couples.update(table.couples)
         self._reagent_index = {}
         for reagent in self.reagents.values():
             for label in (reagent.name, *reagent.aliases):
@@ -140,6 +143,13 @@ class TableSet:
         stoichiometry = {c: v for c, v in stoichiometry.items() if abs(v) > BALANCE_TOLERANCE}
         return Resolved(name, stoichiometry, tuple(terms))
 
+    def active_couples(self) -> dict[str, Species]:
+        """The redox couples this set can use: those whose named component and whose
+        parts it defines (a couple of metals' iron is idle in a set without metals)."""
+        known = {**self.components, **self.species}
+        return {name: couple for name, couple in self.couples.items()
+                if name in self.components and all(part in known for part in couple.reaction)}
+
     # -- checks -----------------------------------------------------------------------
     def problems(self) -> list[str]:
         """Every missing basis, unknown reference, unbalanced reaction or cycle."""
@@ -155,6 +165,8 @@ class TableSet:
                                    ("gas", self.gases, "dissolves_to")):
             for record in records.values():
                 out.extend(_reaction_problems(kind, record, record.reaction, key, known))
+        for couple in self.active_couples().values():
+            out.extend(_reaction_problems("couple", couple, couple.reaction, "from", known))
         for reagent in self.reagents.values():
             if reagent.makes is not None:
                 out.extend(_reaction_problems("reagent", reagent, reagent.makes, "makes", known,

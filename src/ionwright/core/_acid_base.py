@@ -9,7 +9,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from ._system import ChemicalSystem
+from ..chemistry._redox import unlinked
+from ._system import PROTON, WATER, ChemicalSystem
 from ..chemistry._constants import LN10
 
 #: pH of the carbonic-acid end point that total alkalinity is titrated to; acids with pK
@@ -52,10 +53,31 @@ def alkalinity_weights(system: ChemicalSystem, t_C: float) -> np.ndarray:
 def alkalinity_weights_at(system: ChemicalSystem, t_C: np.ndarray) -> np.ndarray:
     """:func:`alkalinity_weights` at each temperature of *t_C* (n,): shape (n, s)."""
     formation = system.log10_k(np.asarray(t_C, dtype=float).reshape(-1))
-    nu = system.nu
-    level = np.zeros((formation.shape[0], system.n_components))
-    for j in range(1, system.n_components):
-        members = series(system, j)
+    nu = _own_states(system)
+    others = np.abs(nu[:, 1:]) > 0
+    level = np.zeros((formation.shape[0], nu.shape[1]))
+    for j in range(1, nu.shape[1]):
+        members = np.flatnonzero((nu[:, j] == 1) & (others.sum(axis=1) == 1))
+        if members.size == 0:  # a component with no species of its own state
+            continue
         score = formation[:, members] - nu[members, 0] * ALKALINITY_END_POINT_PH
         level[:, j] = nu[members[np.argmax(score, axis=1)], 0]
     return level[:, 1:] @ nu[:, 1:].T - nu[:, 0]
+
+
+def _own_states(system: ChemicalSystem) -> np.ndarray:
+    """The system's stoichiometry with each oxidation state as its own component (H+
+    first): for a redox-linked system, its species as the unlinked tables form them, so
+    that NH4+ counts its own proton and not the nine of the NO3-/NH3 couple."""
+    base = unlinked(system.tables)
+    if base is None:
+        return system.nu
+    rows = [base.resolve(name).stoichiometry for name in system.species]
+    columns = [PROTON, *sorted({c for r in rows for c in r} - {PROTON, WATER})]
+    at = {c: j for j, c in enumerate(columns)}
+    nu = np.zeros((len(rows), len(columns)))
+    for i, row in enumerate(rows):
+        for comp, coeff in row.items():
+            if comp != WATER:
+                nu[i, at[comp]] = coeff
+    return nu

@@ -302,6 +302,10 @@ class GasBasis:
     def n_components(self) -> int:
         return self.base.n_components
 
+    @property
+    def component_charge(self) -> np.ndarray:
+        return self.base.component_charge
+
     def kappa(self, t_C: np.ndarray) -> np.ndarray:
         """log10 K of each gas in its pivot column, zero elsewhere: shape (n, c)."""
         t_C = np.atleast_1d(np.asarray(t_C, dtype=float))

@@ -3,6 +3,8 @@
 Given a merged table set and the components a recipe contains, the system holds every
 species that can form from them, as arrays ready for the vectorised solver. Water (H2O)
 is a component whose activity is fixed by the activity model, so it has no mass balance.
+The electron (e-, when a recipe states a redox level) is the last component and has no
+species of its own: it counts in no charge balance and no ionic strength.
 """
 
 from __future__ import annotations
@@ -18,6 +20,7 @@ from ..activity._base import SpeciesProperties
 from ..activity._pairs import FORMS_EVERY_SPECIES, IGNORED_COMPONENTS, IonPairSet
 from ._sparse import SparseRows
 from ..chemistry._records import LogK
+from ..chemistry._redox import ELECTRON
 from ..chemistry._tableset import Resolved, TableSet
 from ..notices import VALIDITY, Notice
 
@@ -51,8 +54,8 @@ class ChemicalSystem:
     """Components and species of one recipe's chemistry, as solver-ready arrays."""
 
     tables: TableSet
-    components: tuple[str, ...]      # solver components, H+ first, no H2O
-    species: tuple[str, ...]         # components first, then formed species
+    components: tuple[str, ...]      # solver components, H+ first, e- last, no H2O
+    species: tuple[str, ...]         # components (but e-) first, then formed species
     nu: np.ndarray                   # (s, c) stoichiometry in solver components
     nu_water: np.ndarray             # (s,) coefficient of H2O
     charge: np.ndarray               # (s,)
@@ -64,6 +67,14 @@ class ChemicalSystem:
     @property
     def n_components(self) -> int:
         return len(self.components)
+
+    @cached_property
+    def component_charge(self) -> np.ndarray:
+        """(c,) charge of each component as the solver counts it: the electron's is 0."""
+        out = np.zeros(self.n_components)
+        rows = self.n_components - (self.components[-1] == ELECTRON)
+        out[:rows] = self.charge[:rows]
+        return out
 
     def log10_k(self, t_C: np.ndarray, samples_last: bool = False) -> np.ndarray:
         """log10 K of formation of every species at *t_C* of shape (n,): (n, s), or
@@ -207,9 +218,10 @@ def compile_system(tables: TableSet, present: Iterable[str],
 
 def _compile(tables: TableSet, present: frozenset[str], ion_pairs: IonPairSet) -> ChemicalSystem:
     present = frozenset(tables.species_name(c) for c in present) - {WATER, PROTON}
-    components = (PROTON, *sorted(present, key=_component_order))
+    electron = (ELECTRON,) if ELECTRON in present else ()
+    components = (PROTON, *sorted(present - {ELECTRON}, key=_component_order), *electron)
     allowed = set(components) | {WATER}
-    resolved = [tables.resolve(c) for c in components]
+    resolved = [tables.resolve(c) for c in components if c != ELECTRON]
     left_out = []
     for name in tables.species:
         res = tables.resolve(name)

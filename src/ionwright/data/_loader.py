@@ -36,10 +36,11 @@ _ALLOWED = {
     "solids": _COMMON | _LOGK_KEYS | {"dissolves_to"},
     "gases": _COMMON | _LOGK_KEYS | {"dissolves_to"},
     "reagents": _COMMON | {"makes", "aliases"},
+    "couples": _COMMON | _LOGK_KEYS | {"from"},
 }
 _SECTIONS = {"about", "sources", *_ALLOWED}
 #: Sections whose entry names carry a charge, and are written the one way ionwright does.
-_CHARGED_NAMES = {"components", "species"}
+_CHARGED_NAMES = {"components", "species", "couples"}
 _TOML_POSITION = re.compile(r"\(at line (\d+), column (\d+)\)")
 
 
@@ -83,7 +84,7 @@ class _Builder:
         built = {section: self._section(section, factory) for section, factory in (
             ("components", self._component), ("species", self._species),
             ("solids", self._phase("solid")), ("gases", self._phase("gas")),
-            ("reagents", self._reagent))}
+            ("reagents", self._reagent), ("couples", self._couple))}
         if self.problems:
             raise TableError(self.origin, self.problems)
         return ConstantTable(
@@ -240,8 +241,8 @@ class _Builder:
             setschenow=self._number(where, entry, "setschenow"),
             from_memory=bool(entry.get("from_memory", False)), note=entry.get("note", ""))
 
-    def _species(self, name: str, entry: dict) -> Species | None:
-        where = f"species {name!r}"
+    def _species(self, name: str, entry: dict, kind: str = "species") -> Species | None:
+        where = f"{kind} {name!r}"
         formula = self._formula(where, name, entry)
         reaction = self._stoichiometry(where, entry, "from")
         logk = self._logk(where, entry)
@@ -255,6 +256,11 @@ class _Builder:
             tj_a=self._number(where, entry, "tj_a"), tj_b=self._number(where, entry, "tj_b"),
             setschenow=self._number(where, entry, "setschenow"),
             from_memory=bool(entry.get("from_memory", False)), note=entry.get("note", ""))
+
+    def _couple(self, name: str, entry: dict) -> Species | None:
+        """A redox couple: component *name* as a species formed from its oxidised form and
+        electrons, used only when a recipe states a redox level (chemistry/_redox.py)."""
+        return self._species(name, entry, "couple")
 
     def _phase(self, kind: str) -> Callable[[str, dict], Phase | None]:
         def build(name: str, entry: dict) -> Phase | None:

@@ -19,6 +19,7 @@ import numpy as np
 
 from ..activity._pairs import ion_pairs_of
 from ..chemistry._ingredients import Makeup, makeup
+from ..chemistry._redox import ELECTRON, electron_tables
 from ..chemistry._tableset import TableSet
 from ..core import _solver as solver
 from ..core._phases import (PhaseChoice, PhaseEquilibrium, _take, components_needed, describe,
@@ -34,6 +35,7 @@ from ..plugins._registry import Registry, default_registry
 from ..plugins._table_sets import load_tables
 from ..notices import CONSTANTS, INPUT, Notice, wrap
 from ..status import succeeded
+from ._redox_level import states_redox_level
 from ._totals import check_totals, component_totals
 from ..chemistry._constants import LN10
 
@@ -76,10 +78,16 @@ class CompiledRecipe:
                               "compile it with compile_recipe, which resolves it")
         model = registry.model(recipe.activity_model)
         tables = load_tables(recipe.tables, registry)
+        choice = read_phases(recipe.phases, tables, recipe.origin) if recipe.phases else NO_PHASES
+        if states_redox_level(recipe, choice, tables):
+            tables = electron_tables(tables)
+            choice = read_phases(recipe.phases, tables, recipe.origin) if recipe.phases \
+                else NO_PHASES
         totals, makeups = component_totals(recipe, tables)
         check_totals(totals, recipe.origin)
-        choice = read_phases(recipe.phases, tables, recipe.origin) if recipe.phases else NO_PHASES
         present = {c for c, v in totals.items() if v > 0} | components_needed(choice, tables)
+        if "pe" in recipe.fix:
+            present.add(ELECTRON)
         for name in also:
             present |= set(makeup(name, tables).per_mole)
         system = compile_system(tables, present - {WATER, PROTON}, ion_pairs_of(model))
@@ -96,10 +104,12 @@ class CompiledRecipe:
         return out
 
     def fixed(self) -> np.ndarray:
-        """log10 activities the recipe fixes (its pH), NaN elsewhere: shape (c,)."""
+        """log10 activities the recipe fixes (its pH and pe), NaN elsewhere: shape (c,)."""
         out = np.full(self.system.n_components, np.nan)
         if "pH" in self.recipe.fix:
             out[0] = -self.recipe.fix["pH"]
+        if "pe" in self.recipe.fix:
+            out[self.system.components.index(ELECTRON)] = -self.recipe.fix["pe"]
         return out
 
     def closed(self) -> CompiledRecipe:

@@ -5,6 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..chemistry._ingredients import Makeup, makeup
+from ..chemistry._redox import in_linked_basis, unlinked
 from ..chemistry._tableset import TableSet
 from ..core._system import PROTON, WATER
 from ..errors import RecipeError
@@ -20,7 +21,12 @@ def component_totals(recipe: Recipe, tables: TableSet) -> tuple[dict[str, float]
         makeups.append(made)
         for comp, nu in made.per_mole.items():
             totals[comp] = totals.get(comp, 0.0) + nu * amount
+    given: dict[str, float] = {}
     for comp, amount in recipe.components:  # given directly: analyses, poured solutions
+        given[comp] = given.get(comp, 0.0) + amount
+    if unlinked(tables) is not None:  # oxidation states linked: Fe2+ given is Fe3+ + e-
+        given = in_linked_basis(given, tables)
+    for comp, amount in given.items():
         totals[comp] = totals.get(comp, 0.0) + amount
     totals.pop(WATER, None)
     totals.setdefault(PROTON, 0.0)

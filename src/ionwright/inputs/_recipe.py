@@ -43,17 +43,18 @@ from ._checks import (as_number, check_ph, check_temperature, given_density, is_
                       optional_quantity, positive, reject_unknown)
 from ._mixing import (Conversion, Entry, Portion, Solution, _dry, entry_for, mix, portion_of,
                       poured_into, stock_portion)
+from ._redox_level import REDOX_KEYS, read_redox_level
 from ._units import expect, parse_quantity
 
 if TYPE_CHECKING:
     from ..plugins._registry import Registry
 
 DEFAULT_MODEL = "davies"
-#: The bundled tables a recipe uses when it names none: metals and organics sit on core.
-DEFAULT_TABLES = ("core", "metals", "organics")
+#: The bundled tables a recipe uses when it names none: metals, organics and redox sit on core.
+DEFAULT_TABLES = ("core", "metals", "organics", "redox")
 TOP_KEYS = {"title", "temperature_C", "activity_model", "tables", "dissolve", "fix",
             "water", "volume", "density", "add", "pour", "analysis", "solids", "gases"}
-FIX_KEYS = {"pH"}
+FIX_KEYS = {"pH"} | REDOX_KEYS
 ADD_KEYS = {"stock", "concentration", "volume", "density"}
 POUR_KEYS = {"recipe", "volume"}
 #: Keys that make a recipe need converting (plain-number recipes are read as they are).
@@ -95,6 +96,7 @@ class Recipe:
     phases: Mapping[str, Any] = field(default_factory=dict)  # raw [solids], [gases]: phases.py
     pending: AnalysisFit | Composition | None = None
     from_analysis: bool = False      # an [analysis]: a water sample as measured
+    redox_level: str = ""    # how the recipe stated its redox level, for reports
 
 
 @dataclass(frozen=True)
@@ -173,14 +175,14 @@ def _from_mapping(data: dict[str, Any], origin: str, base_dir: Path,
             raise RecipeError(f"{origin} [dissolve]", f"ingredient {name!r} must be a name "
                               "(text)", "write the ingredient's name or formula as text, e.g. "
                               "{'NaCl': 0.1}")
-    fixed = _fix(data.get("fix", {}), origin)
+    fixed, phases, redox_level = _fix(data.get("fix", {}), t, origin,
+                                      {k: _numbers_as_floats(data[k])
+                                       for k in ("solids", "gases") if k in data})
     plain = (all(is_number(v) for v in dissolve.values()) and "analysis" not in data
              and not set(data) & CONVERTED_KEYS)
     recipe = Recipe(temperature_C=t, activity_model=model, tables=tables,
                     fix=fixed, title=str(data.get("title", "")), origin=origin,
-                    base_dir=base_dir,
-                    phases={k: _numbers_as_floats(data[k]) for k in ("solids", "gases")
-                            if k in data},
+                    base_dir=base_dir, phases=phases, redox_level=redox_level,
                     dissolve=tuple((name, _plain_amount(value, origin, name))
                                    for name, value in dissolve.items()) if plain else ())
     if plain:  # amounts in mol/kg of water as given: nothing to convert
@@ -394,15 +396,30 @@ def _table_names(tables: Any, origin: str, base_dir: Path) -> tuple[str, ...]:
                  else t for t in tables)
 
 
-def _fix(fix: Any, origin: str) -> dict[str, float]:
+def _fix(fix: Any, t_C: float, origin: str, phases: dict[str, Any]
+         ) -> tuple[dict[str, float], dict[str, Any], str]:
+    """The fixed pH and pe of ``[fix]``, the phases (with the O2 pressure that a stated
+    dissolved oxygen stands for) and how the redox level was stated."""
     if not isinstance(fix, dict):
         raise RecipeError(f"{origin} [fix]", "must be a table such as pH = 7.0")
     reject_unknown(fix, FIX_KEYS, origin, "key of [fix]")
-    fixed = {key: as_number(value, f"{origin} [fix] {key}", "7.0")
-             for key, value in fix.items()}
-    if "pH" in fixed:
-        check_ph(fixed["pH"], f"{origin} [fix] pH")
-    return fixed
+    fixed = {}
+    if "pH" in fix:
+        fixed["pH"] = check_ph(as_number(fix["pH"], f"{origin} [fix] pH", "7.0"),
+                               f"{origin} [fix] pH")
+    level = read_redox_level(fix, t_C, origin)
+    if level is None:
+        return fixed, phases, ""
+    if level.pe is not None:
+        fixed["pe"] = level.pe
+    if level.o2_pressure_atm is not None:
+        gases = phases.get("gases", {})
+        if isinstance(gases, dict) and {"O2", "O2(g)"} & set(gases):
+            raise RecipeError(f"{origin} [fix] dissolved_oxygen", "and an O2 pressure under "
+                              "[gases] both state the redox level", "keep one of them")
+        phases = {**phases, "gases": {**(gases if isinstance(gases, dict) else {}),
+                                      "O2": level.o2_pressure_atm}}
+    return fixed, phases, level.stated
 
 
 def _numbers_as_floats(table: Any) -> Any:

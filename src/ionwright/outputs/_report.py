@@ -12,6 +12,7 @@ from ._buffer_quantities import report_lines as formulation_lines
 from ._derived import report_lines as derived_lines
 from ._phase_report import phase_lines
 from ._provenance import constants_section
+from ._redox import report_lines as redox_lines
 
 SPECIES_SHOWN = 25
 MIN_SHOWN_MOLALITY = 1e-12
@@ -25,6 +26,7 @@ def text_report(result) -> str:
         lines += [r.recipe.title, "=" * len(r.recipe.title)]
     lines += [
         f"pH                 {r.pH:8.3f}",
+        *([f"pe                 {r.pe:8.2f}   (Eh {r.Eh_V:+.3f} V)"] if r.pe is not None else []),
         f"ionic strength     {r.ionic_strength:10.4g} mol/kg",
         f"temperature        {r.temperature_C:8.1f} °C",
         f"activity model     {r.model.name} ({r.model.title})",
@@ -52,6 +54,7 @@ def text_report(result) -> str:
         lines += ["", "saturation index (log IAP/Ksp; > 0 supersaturated)"]
         for name, si in r.saturation_indices.items():
             lines.append(f"  {name:<20}{si:8.2f}")
+    lines += redox_lines(r)
     lines += phase_lines(r)
     lines += derived_lines(r)
     lines += formulation_lines(r)

@@ -19,6 +19,7 @@ from ._phase_report import phase_summary
 from ..inputs._mixing import Solution
 from ..inputs._recipe import solution_of
 from ._provenance import constants_used, ion_pairs, override_warnings
+from ._redox import redox_summary
 from ._speciation import Speciation
 from ._supersaturation import supersaturation_warnings
 
@@ -63,6 +64,21 @@ class Result(Speciation):
     def buffer(self) -> dict[str, float | None]:
         """Buffer capacity and ionic strength per kg of water and per litre."""
         return buffer_quantities(self, self.solution.water_kg_per_L)
+
+    @cached_property
+    def redox(self) -> dict[str, Any]:
+        """pe, Eh_V, the stated level, each couple's pe and the O2 saturation."""
+        return redox_summary(self)
+
+    @property
+    def pe(self) -> float | None:
+        """−log10 a(e-) when the recipe states a redox level, else None."""
+        return self.redox["pe"]
+
+    @property
+    def Eh_V(self) -> float | None:
+        """Eh in volts against the standard hydrogen electrode (None without a level)."""
+        return self.redox["Eh_V"]
 
     def recipe_grams(self) -> list[dict[str, Any]]:
         """Each ingredient in g/kg water, g/L and grams for the recipe's batch."""
@@ -112,6 +128,8 @@ class Result(Speciation):
             "temperature_C": self.temperature_C,
             "activity_model": self.model.name,
             "pH": self.pH,
+            "pe": self.pe,
+            "Eh_V": self.Eh_V,
             "ionic_strength": self.ionic_strength,
             "osmotic_coefficient": self.osmotic.osmotic_coefficient,
             "water_activity": self.osmotic.water_activity,
@@ -133,6 +151,7 @@ class Result(Speciation):
             "derived": derived_quantities(self),
             "solution": solution_summary(self),
             "phases": phase_summary(self),
+            "redox": self.redox,
             "warnings": self.warnings,
             "notices": [n.to_dict() for n in self.notices],
         }
@@ -146,7 +165,8 @@ class Result(Speciation):
         import pandas as pd
 
         frame = pd.DataFrame(self.species_rows()).set_index("name")
-        frame.attrs.update({"pH": self.pH, "temperature_C": self.temperature_C,
+        frame.attrs.update({"pH": self.pH, "pe": self.pe, "Eh_V": self.Eh_V,
+                            "temperature_C": self.temperature_C,
                             **self.buffer,
                             "osmolality_mOsm_per_kg": self.osmolality_mOsm_per_kg,
                             "water_activity": self.osmotic.water_activity,

@@ -11,6 +11,7 @@ import numpy as np
 from ..chemistry._ingredients import Makeup
 from ..chemistry._tableset import TableSet
 from ..core._solver import Equilibrium
+from ..chemistry._redox import ELECTRON
 from ..core._system import PROTON, WATER, ChemicalSystem
 from ..inputs._recipe import Recipe
 from ..notices import Notice
@@ -100,7 +101,7 @@ class Speciation:
         out = {}
         nu = self.system.nu
         for j, comp in enumerate(self.system.components):
-            if comp == PROTON or self.totals.get(comp, 0.0) <= 0:
+            if comp in (PROTON, ELECTRON) or self.totals.get(comp, 0.0) <= 0:
                 continue
             carried = nu[:, j] * self.molality
             total = carried.sum()

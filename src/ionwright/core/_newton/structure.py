@@ -175,7 +175,7 @@ class Structure:
                    abs_nu_free=rows(np.abs(nu_f).T),
                    nu_water=system.nu_water, z2=z2, half_z2=rows(0.5 * z2[None, :]),
                    free=free, fixed_columns=np.flatnonzero(~free), must_be_positive=scaled,
-                   ion_weights=0.5 * np.maximum(z2[:free.size], 1.0),
+                   ion_weights=0.5 * np.maximum(system.component_charge ** 2, 1.0),
                    only_fixed=np.flatnonzero(~np.any(nu_f != 0, axis=1)), weights=weights,
                    weights_u=weights_u, factor=factor, nf=nf, proton=proton,
                    families=Families.of(nu, proton, free))

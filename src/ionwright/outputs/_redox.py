@@ -1,0 +1,110 @@
+"""Redox quantities of a solved sample: pe, Eh, the pe each couple implies, O2 saturation.
+
+Natural waters are seldom in redox equilibrium: the pe that Fe(III)/Fe(II), NO3-/NH4+ or
+SO4^2-/HS- imply differ, often by several units. Each couple whose two forms are in the
+solution gets its own pe from their activities (the Nernst equation), so that the
+disequilibrium is shown rather than hidden behind one number. With a stated redox level
+the forms are linked and every couple gives that level back.
+
+References
+----------
+Stumm, W. & Morgan, J.J. (1996) Aquatic Chemistry, 3rd ed., Wiley, ch. 8 (pe of a couple,
+redox disequilibrium in natural waters).
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+import numpy as np
+
+from ..chemistry._constants import LN10
+from ..chemistry._oxygen import O2_MOLAR_MASS_G, saturation_mg_per_L
+from ..chemistry._redox import ELECTRON, eh_from_pe, unlinked
+from ..chemistry._water import density
+from ..core._system import PROTON, WATER, log10_k_at
+from ._speciation import Speciation
+
+OXYGEN = "O2"
+#: Free molality below which a form of a couple is taken as absent (its activity is then
+#: set by the solver's floor, not by the water)  # common practice: below any analysis
+ABSENT_MOLALITY = 1e-15
+
+
+def pe_of(speciation: Speciation) -> float | None:
+    """pe = −log10 a(e-) of a sample with a stated redox level (None without one)."""
+    components = speciation.system.components
+    if ELECTRON not in components:
+        return None
+    return float(-speciation.equilibrium.log_activity[0, components.index(ELECTRON)] / LN10)
+
+
+def couple_pe(speciation: Speciation) -> dict[str, float]:
+    """The pe each redox couple implies, named "oxidised/reduced" (e.g. "Fe3+/Fe2+"), for
+    every couple whose two forms are both in the solution."""
+    tables = speciation.tables
+    base = unlinked(tables) or tables
+    system, t = speciation.system, speciation.temperature_C
+    log_a = _log10_activities(speciation)
+    out = {}
+    for reduced, couple in base.active_couples().items():
+        oxidised = next(p for p in couple.reaction if p not in (ELECTRON, PROTON, WATER))
+        if not all(name in system.species for name in (reduced, oxidised)):
+            continue
+        if min(speciation.species_molality(reduced),
+               speciation.species_molality(oxidised)) < ABSENT_MOLALITY:
+            continue
+        electrons = couple.reaction[ELECTRON]
+        rest = sum(nu * log_a[part] for part, nu in couple.reaction.items()
+                   if part != ELECTRON)
+        log10_k_couple = float(log10_k_at(couple.logk, np.array([t]))[0])
+        out[f"{oxidised}/{reduced}"] = float(-(log_a[reduced] - log10_k_couple - rest) / electrons)
+    return out
+
+
+def oxygen_saturation_percent(speciation: Speciation) -> float | None:
+    """Dissolved O2 as % of saturation with air at the sample's temperature (fresh water,
+    1 atm; None when the sample has no O2 species)."""
+    if OXYGEN not in speciation.system.species:
+        return None
+    t = speciation.temperature_C
+    mg_per_L = speciation.species_molality(OXYGEN) * O2_MOLAR_MASS_G * 1000.0 \
+        * float(density(t)) / 1000.0
+    return float(100.0 * mg_per_L / float(saturation_mg_per_L(t)))
+
+
+def redox_summary(speciation: Speciation) -> dict[str, Any]:
+    """pe, Eh (V), the stated level, each couple's pe and the O2 saturation, for JSON."""
+    pe = pe_of(speciation)
+    return {"pe": pe,
+            "Eh_V": None if pe is None else float(eh_from_pe(pe, speciation.temperature_C)),
+            "stated": speciation.recipe.redox_level or None,
+            "couples_pe": couple_pe(speciation),
+            "oxygen_saturation_percent": oxygen_saturation_percent(speciation)}
+
+
+def _log10_activities(speciation: Speciation) -> dict[str, float]:
+    """log10 a of every species, H+ and water (−inf for a species of zero molality)."""
+    with np.errstate(divide="ignore"):
+        values = np.log10(speciation.activity)
+    out = dict(zip(speciation.system.species, values.tolist()))
+    out[WATER] = speciation.log10_water_activity
+    return out
+
+
+def report_lines(speciation: Speciation) -> list[str]:
+    """The report's redox section (nothing for a sample without redox information)."""
+    summary = redox_summary(speciation)
+    lines = []
+    if summary["pe"] is not None:
+        lines.append(f"  pe {summary['pe']:.2f}, Eh {summary['Eh_V']:+.3f} V against the "
+                     f"standard hydrogen electrode")
+    if summary["stated"]:
+        lines.append(f"  stated as {summary['stated']}")
+    for couple, pe in summary["couples_pe"].items():
+        lines.append(f"  {couple:<18} implies pe {pe:6.2f} (Eh {float(eh_from_pe(pe, speciation.temperature_C)):+.3f} V)")
+    saturation = summary["oxygen_saturation_percent"]
+    if saturation is not None:
+        shown = f"{saturation:.3g} %" if saturation >= 0.01 else "below 0.01 %"
+        lines.append(f"  dissolved O2       {shown} of saturation with air (fresh water, 1 atm)")
+    return ["", "redox level", *lines] if lines else []
