@@ -34,6 +34,16 @@ def response(system, equilibrium: Equilibrium, bound, free: np.ndarray) -> np.nd
     *system* is anything with ``nu`` and ``charge`` (a ChemicalSystem or a gas basis);
     *free* marks the components that have a mass balance.
     """
+    jac = jacobian(system, equilibrium, bound, free)
+    n, nf = jac.shape[0], jac.shape[1] - 1
+    rhs = np.zeros((n, nf + 1, nf))
+    rhs[:, :nf, :] = np.eye(nf)
+    return np.linalg.solve(jac, rhs)[:, :nf, :]
+
+
+def jacobian(system, equilibrium: Equilibrium, bound, free: np.ndarray) -> np.ndarray:
+    """The Jacobian (n, f+1, f+1) of the mass balances of the *free* components and the
+    ionic-strength condition in (ln a of the free components, √I), at the solution."""
     conc = equilibrium.molality
     u = np.sqrt(np.maximum(equilibrium.ionic_strength, 0.0))
     nu_f = system.nu[:, free]
@@ -49,6 +59,4 @@ def response(system, equilibrium: Equilibrium, bound, free: np.ndarray) -> np.nd
         jac[:, nf, nf] = -0.5 * cdg @ z2 - 2.0 * u
     else:
         jac[:, nf, nf] = -1.0
-    rhs = np.zeros((n, nf + 1, nf))
-    rhs[:, :nf, :] = np.eye(nf)
-    return np.linalg.solve(jac, rhs)[:, :nf, :]
+    return jac

@@ -21,6 +21,7 @@ from ..activity._pairs import ion_pairs_of
 from ..chemistry._ingredients import Makeup, makeup
 from ..chemistry._tableset import TableSet
 from ..core import _solver as solver
+from ..core._constant_terms import LogKShift
 from ..core._phases import (PhaseChoice, PhaseEquilibrium, _take, components_needed, describe,
                             equilibrate, failure, read_phases)
 from ..core._solver import Equilibrium
@@ -162,9 +163,11 @@ class CompiledRecipe:
 
     # -- batches ---------------------------------------------------------------------
     def solve(self, totals: np.ndarray, t_C: float | np.ndarray | None = None,
-              fixed: np.ndarray | None = None) -> PhaseEquilibrium:
+              fixed: np.ndarray | None = None, shift: LogKShift | None = None
+              ) -> PhaseEquilibrium:
         """Equilibrium of every row of *totals* (n, c) in one batch, at *t_C* (°C),
-        with the recipe's solids and gases."""
+        with the recipe's solids and gases (and each row's constants changed by its row
+        of *shift*, when given)."""
         totals = np.array(np.atleast_2d(totals), dtype=float)
         n = totals.shape[0]
         t = np.broadcast_to(self.recipe.temperature_C if t_C is None else t_C, (n,))
@@ -178,7 +181,7 @@ class CompiledRecipe:
         bound = self.model.bind(self.system.properties, t)
         fixed = self.fixed() if fixed is None else fixed
         state = equilibrate(self.system, self.tables, totals, bound, t, self.choice,
-                            np.broadcast_to(fixed, totals.shape))
+                            np.broadcast_to(fixed, totals.shape), shift)
         state.notes = [*state.equilibrium.notes, *self.system.temperature_notes(t),
                        *self._replacements()]
         state.traced = traced
