@@ -201,7 +201,8 @@ class CompiledRecipe:
                   if c == PROTON or v > 10 * TRACE}
         return Result(recipe=recipe, tables=self.tables, system=self.system, model=self.model,
                       equilibrium=eq, totals=totals, makeups=self.makeups,
-                      notes=list(state.notes), phases=describe(state, k))
+                      notes=list(state.notes), phases=describe(state, k), state=state,
+                      sample=k)
 
     def pH(self, state: PhaseEquilibrium) -> np.ndarray:
         """pH of every sample (NaN where the solve failed)."""

@@ -36,6 +36,8 @@ class Speciation:
     makeups: list[Makeup]
     notes: list[Notice] = field(default_factory=list)
     phases: dict[str, Any] = field(default_factory=dict)  # solids and gases: phases.py
+    state: Any = None    # the batch (PhaseEquilibrium) this result is sample `sample` of
+    sample: int = 0
 
     # -- numbers ----------------------------------------------------------------------
     @property
