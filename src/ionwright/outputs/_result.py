@@ -21,7 +21,8 @@ from ..inputs._recipe import solution_of
 from ._provenance import constants_used, ion_pairs, override_warnings
 from ._speciation import Speciation
 from ._supersaturation import supersaturation_warnings
-from ._uncertainty import ResultUncertainty, near_corrosive_notice, result_uncertainty
+from ._uncertainty import (ResultUncertainty, near_corrosive_notice, result_uncertainty,
+                           uncertainty_object)
 
 IMBALANCE_WARNING = 1e-6  # relative charge imbalance worth a warning with a fixed pH
 
@@ -142,7 +143,7 @@ class Result(Speciation):
             "species": self.species_rows(),
             "totals": {c: float(self.totals.get(c, 0.0)) for c in self.system.components},
             "saturation_indices": self.saturation_indices,
-            "uncertainty": self.uncertainty.to_dict(),
+            "uncertainty": uncertainty_object(self),
             "uncertainty_contributors": self.uncertainty.contributors,
             "distribution": self.distribution(),
             "iterations": int(self.equilibrium.iterations[0]),

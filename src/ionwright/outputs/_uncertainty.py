@@ -183,6 +183,12 @@ class ResultUncertainty:
                                 "between models), the amounts dissolved, the measured pH"}
 
 
+def uncertainty_object(result) -> dict[str, Any]:
+    """The ``"uncertainty"`` object of a result's JSON, with the checks a tool added."""
+    checks = {k: v for k, v in result.uncertainty_checks.items() if k != "lines"}
+    return {**result.uncertainty.to_dict(), **checks}
+
+
 def result_uncertainty(result) -> ResultUncertainty:
     """The :class:`ResultUncertainty` of one result."""
     prop = result_propagation(result)
@@ -252,4 +258,5 @@ def report_lines(result) -> list[str]:
     for d in unc.defaults:
         names = ", ".join(d["constants"][:6]) + (" …" if len(d["constants"]) > 6 else "")
         lines.append(f"  default ± {d['log10_k_uncertainty']:g} ({d['class']}): {names}")
+    lines += result.uncertainty_checks.get("lines", [])
     return lines
