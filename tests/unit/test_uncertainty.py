@@ -126,3 +126,24 @@ def test_enthalpy_uncertainty_adds_away_from_25_C(tmp_path):
     parameters = [c["parameter"] for c in at60.uncertainty.contributors["pH"]]
     assert "ΔH°" in parameters and "ΔH°" not in [
         c["parameter"] for c in at25.uncertainty.contributors["pH"]]
+
+
+def test_target_dose_uncertainty_matches_a_shifted_constant(tmp_path):
+    """The dose's uncertainty is what the dose moves by when the dominant constant moves
+    by its uncertainty: re-solving the target with pK2 + 0.05 shifts it by u (±5 %)."""
+    def table(log10_k):
+        path = tmp_path / f"lab-{log10_k}.toml"
+        path.write_text(LAB.replace("log10_k = 7.20", f"log10_k = {log10_k}"),
+                        encoding="utf-8")
+        return str(path)
+
+    recipe = {"dissolve": {"KH2PO4": 0.05}}
+    base = ionwright.target({**recipe, "tables": ["core", table(7.20)]}, pH=7.0,
+                            adjust="NaOH", stock="1 mol/L")
+    moved = ionwright.target({**recipe, "tables": ["core", table(7.25)]}, pH=7.0,
+                             adjust="NaOH", stock="1 mol/L")
+    shift = abs(moved.amount_mol_per_kg - base.amount_mol_per_kg)
+    assert base.amount_uncertainty_mol_per_kg == pytest.approx(shift, rel=0.05)
+    volume_shift = abs(moved.stock_mL_per_kg_water - base.stock_mL_per_kg_water)
+    assert base.to_dict()["stock_mL_for_recipe_uncertainty"] == pytest.approx(volume_shift,
+                                                                              rel=0.05)
