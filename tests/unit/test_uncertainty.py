@@ -6,6 +6,7 @@ from __future__ import annotations
 import json
 import textwrap
 
+import numpy as np
 import pytest
 
 import ionwright
@@ -147,3 +148,29 @@ def test_target_dose_uncertainty_matches_a_shifted_constant(tmp_path):
     volume_shift = abs(moved.stock_mL_per_kg_water - base.stock_mL_per_kg_water)
     assert base.to_dict()["stock_mL_for_recipe_uncertainty"] == pytest.approx(volume_shift,
                                                                               rel=0.05)
+
+
+def test_buffer_card_titrant_uncertainty_follows_the_buffer_capacity():
+    """The titrant's uncertainty is the base that moves the pH by its uncertainty:
+    u(V) ≈ β · u(pH) · volume / c(titrant) (Van Slyke's β; within 5 %)."""
+    card = ionwright.design_buffer("HEPES", 7.4, "50 mmol/L", temperature_C=25.0,
+                                   volume="1 L", titrant="NaOH 1 mol/L")
+    volume_L, titrant_mol_per_L = 1.0, 1.0
+    moles = card.capacity_mmol_per_L_pH / 1000.0 * card.result.pH_uncertainty * volume_L
+    expected = 1000.0 * moles / titrant_mol_per_L      # mL
+    assert card.titrant_mL_uncertainty == pytest.approx(expected, rel=0.05)
+    data = card.to_dict()
+    assert data["pH_uncertainty"] == card.result.pH_uncertainty > 0
+    assert "from the constants" in card.report()
+
+
+def test_sweep_rows_and_plot_carry_the_band(tmp_path):
+    sweep = ionwright.titration({"dissolve": {"citric acid": 0.01}}, "NaOH 0.1 mol/L",
+                                "400 mL", points=21)
+    u = sweep.pH_uncertainty
+    assert u.shape == sweep.pH.shape and np.all(u > 0)
+    first = ionwright.solve({"dissolve": {"citric acid": 0.01}})
+    assert u[0] == pytest.approx(first.pH_uncertainty, rel=1e-6)
+    assert "pH_uncertainty" in sweep.rows()[0]
+    from ionwright.design._plots import save, titration_curve
+    assert save(titration_curve(sweep), tmp_path / "t.png").stat().st_size > 0

@@ -190,7 +190,7 @@ def target(recipe: str | Path | Mapping[str, Any] | Recipe, pH: float, adjust: s
                          "L of stock per kg of water" if held else "mol/kg")
     state.notes[:0] = closed_sample_notes(opened, "dosed", "dose")
     result = bench.result(state)
-    u_s = result.pH_uncertainty / abs(float(pH_change(state, rate_of(s))[0]))
+    u_s = dose_uncertainty(state, result.pH_uncertainty, rate_of(s))
     if held is None:
         amount, volume, u_amount = s, None, u_s
     else:
@@ -203,6 +203,14 @@ def target(recipe: str | Path | Mapping[str, Any] | Recipe, pH: float, adjust: s
         notes += stock_cautions(held, bench)
     return TargetResult(made.name, pH, amount, result, held, volume, water, notes,
                         closed_sample=bench is not opened, amount_uncertainty_mol_per_kg=u_amount)
+
+
+def dose_uncertainty(state: PhaseEquilibrium, pH_uncertainty: float, rate: np.ndarray
+                     ) -> float:
+    """Standard uncertainty of a dose that gives a target pH, from the pH's uncertainty at
+    that dose: u(pH) / |dpH/ddose| (the implicit-function theorem on pH(dose, K) = target);
+    *rate* (c,) is the change of the totals per unit of dose."""
+    return pH_uncertainty / abs(float(pH_change(state, rate)[0]))
 
 
 def _volume_for(amount: float, n_L: float, w_L: float) -> float:
