@@ -70,3 +70,15 @@ def test_buffer_pH_follows_its_pKa():
     compiled, state, terms = _solved(RECIPES["phosphate buffer"])
     response = state_log_k_response(state, terms)
     assert response.pH[0, terms.column("species", "H2PO4-")] == pytest.approx(1.0, abs=1e-3)
+
+
+@pytest.mark.parametrize("name", ["phosphate buffer", "fixed pH", "warm carbonate"])
+def test_adjoint_pH_derivative_equals_the_forward_one(name):
+    """The batch's one-solve adjoint gives the forward derivatives of the pH."""
+    from ionwright.core._sensitivity import pH_log_k_derivative
+
+    compiled, state, terms = _solved(RECIPES[name])
+    forward = state_log_k_response(state, terms).pH
+    adjoint = pH_log_k_derivative(state.basis, state.equilibrium, state.bound, state.free,
+                                  terms)
+    np.testing.assert_allclose(adjoint, forward, atol=1e-12)

@@ -174,3 +174,18 @@ def test_sweep_rows_and_plot_carry_the_band(tmp_path):
     assert "pH_uncertainty" in sweep.rows()[0]
     from ionwright.design._plots import save, titration_curve
     assert save(titration_curve(sweep), tmp_path / "t.png").stat().st_size > 0
+
+
+def test_batch_column_is_the_single_solve_figure():
+    """Each batch row's pH uncertainty is that of ionwright.solve of the row (the batch
+    takes the adjoint route, the single solve the forward one)."""
+    import pandas as pd
+
+    frame = pd.DataFrame({"KH2PO4": [0.025, 0.01, 0.001], "Na2HPO4": [0.025, 0.02, 0.01],
+                          "temperature_C": [25.0, 10.0, 40.0]})
+    out = ionwright.solve_batch(frame)
+    column = out["pH uncertainty, constants [1 s.d.]"]
+    for k, row in frame.iterrows():
+        single = ionwright.solve({"temperature_C": row["temperature_C"], "dissolve": {
+            "KH2PO4": row["KH2PO4"], "Na2HPO4": row["Na2HPO4"]}})
+        assert column[k] == pytest.approx(single.pH_uncertainty, rel=1e-9)

@@ -171,6 +171,34 @@ def _free_change(basis, eq: Equilibrium, bound, free, shift, solids, present, te
     return dy + np.einsum("nfg,mg,nme->nfe", R, pf, dxi)
 
 
+def pH_log_k_derivative(system, equilibrium: Equilibrium, bound, free: np.ndarray,
+                        terms: ConstantTerms) -> np.ndarray:
+    """dpH/dlog10 K_e (n, E) of a batch solved without solids or gases, by the adjoint:
+    w = J⁻ᵀ e(H+) is one solve per sample whatever the number of constants, and
+    dpH/dK = Σ_i q_i c_i G_ie with q = ν w (plus w_u · ½ z² where γ moves with I), the same
+    numbers :func:`log_k_response` gives (tested); zero where the pH is fixed. Samples
+    that did not converge are NaN."""
+    n = equilibrium.molality.shape[0]
+    out = np.full((n, terms.size), np.nan)
+    ok = np.flatnonzero(succeeded(equilibrium.status))
+    if not free[0]:
+        out[ok] = 0.0
+        return out
+    if not ok.size:
+        return out
+    sub, sub_bound = _take(equilibrium, ok), bound_slice(bound, ok)
+    jac = jacobian(system, sub, sub_bound, free)
+    nf = int(free.sum())
+    unit = np.zeros((ok.size, nf + 1, 1))
+    unit[:, 0, 0] = 1.0                           # H+ is the first free component
+    w = np.linalg.solve(np.swapaxes(jac, 1, 2), unit)[..., 0]
+    q = w[:, :nf] @ system.nu[:, free].T
+    if is_exact(sub_bound):
+        q = q + 0.5 * w[:, nf:] * system.charge[None, :] ** 2
+    out[ok] = (q * sub.molality) @ terms.species
+    return out
+
+
 def state_log_k_response(state: PhaseEquilibrium, terms: ConstantTerms) -> LogKResponse:
     """:func:`log_k_response` of a batch solved with its solids and gases."""
     return log_k_response(state.basis, state.equilibrium, state.bound, state.free, terms,

@@ -27,8 +27,8 @@ from ..core._constant_terms import ConstantTerms, constant_terms
 from ..core._phases import PhaseEquilibrium, _take, gas_basis
 from ..core._response import is_exact
 from ..core._saturation import formable_solids
-from ..core._sensitivity import LogKResponse, log_k_response
-from ..core._solver import bound_slice
+from ..core._sensitivity import LogKResponse, log_k_response, pH_log_k_derivative
+from ..core._solver import Equilibrium, bound_slice
 from ..core._system import ChemicalSystem
 from ..notices import CAUTION, Notice
 from ._cautions import DEFER, corrosive_limits
@@ -42,6 +42,7 @@ MIN_SHARE = 1e-3
 #: (about 95 % for a normal distribution)  # common practice
 NEAR_LIMIT_SD = 2.0
 LOG_K, ENTHALPY = "log K", "ΔH°"
+CHUNK_ROWS = 8192   # samples whose derivatives are held at once in a batch
 
 
 @dataclass(frozen=True)
@@ -56,18 +57,9 @@ class Propagation:
     def terms(self) -> ConstantTerms:
         return self.response.terms
 
-    def variance_parts(self, derivative: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        """(log K part, ΔH° part), each (..., E): every constant's share of u² of the
-        result whose derivatives (n, ..., E) are given."""
-        lead = (slice(None),) + (None,) * (derivative.ndim - 2)
-        log_k = (derivative * self.constants.log10_k) ** 2
-        enthalpy = (derivative * self.constants.enthalpy[lead]) ** 2
-        return log_k, enthalpy
-
     def sd(self, derivative: np.ndarray) -> np.ndarray:
         """Standard uncertainty of the result whose derivatives (n, ..., E) are given."""
-        log_k, enthalpy = self.variance_parts(derivative)
-        return np.sqrt(np.sum(log_k + enthalpy, axis=-1))
+        return self.constants.sd(derivative)
 
     def pH(self) -> np.ndarray:
         """u(pH), (n,): zero where the pH is fixed."""
@@ -86,7 +78,7 @@ class Propagation:
         """The *shown* constants (log K or ΔH°) that add most to u² of sample *k*'s
         result, with their share of u², their uncertainty and the derivative; constants
         below :data:`MIN_SHARE` of u² are not named."""
-        log_k, enthalpy = self.variance_parts(derivative[k:k + 1])
+        log_k, enthalpy = self.constants.variance_parts(derivative[k:k + 1])
         parts = np.concatenate([log_k[0], enthalpy[0]])
         total = float(parts.sum())
         if not total > 0:
@@ -120,6 +112,25 @@ def propagation(system: ChemicalSystem, tables: TableSet, state: PhaseEquilibriu
                               state.solids, state.present)
     return Propagation(response, constant_uncertainty(tables, terms, state.t_C),
                        is_exact(state.bound))
+
+
+def batch_pH_uncertainty(system: ChemicalSystem, tables: TableSet, equilibrium: Equilibrium,
+                         bound, pH_fixed: bool) -> np.ndarray:
+    """u(pH) (n,) of a batch solved without solids or gases (the batch runner's rows), by
+    the adjoint (:func:`pH_log_k_derivative`), in chunks of :data:`CHUNK_ROWS` samples."""
+    free = np.ones(system.n_components, dtype=bool)
+    free[0] = not pH_fixed
+    terms = constant_terms(system, tables)
+    n = equilibrium.molality.shape[0]
+    out = np.empty(n)
+    for start in range(0, n, CHUNK_ROWS):
+        rows = np.arange(start, min(start + CHUNK_ROWS, n))
+        bound_rows = bound_slice(bound, rows)
+        derivative = pH_log_k_derivative(system, _take(equilibrium, rows), bound_rows, free,
+                                         terms)
+        sigma = constant_uncertainty(tables, terms, bound_rows.t_C)
+        out[rows] = sigma.sd(derivative)
+    return out
 
 
 def phase_entries(system: ChemicalSystem, tables: TableSet, state: PhaseEquilibrium | None,
