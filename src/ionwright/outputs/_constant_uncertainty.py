@@ -91,14 +91,14 @@ class ConstantUncertainty:
         """(log K part, ΔH° part), each (n, ..., E): every constant's share of u² of the
         result whose derivatives (n, ..., E) are given (GUM §5.1.2, independent inputs)."""
         lead = (slice(None),) + (None,) * (derivative.ndim - 2)
-        log_k = (derivative * self.log10_k) ** 2
-        enthalpy = (derivative * self.enthalpy[lead]) ** 2
-        return log_k, enthalpy
+        by_constant = (derivative * self.log10_k) ** 2
+        by_enthalpy = (derivative * self.enthalpy[lead]) ** 2
+        return by_constant, by_enthalpy
 
     def sd(self, derivative: np.ndarray) -> np.ndarray:
         """Standard uncertainty of the result whose derivatives (n, ..., E) are given."""
-        log_k, enthalpy = self.variance_parts(derivative)
-        return np.sqrt(np.sum(log_k + enthalpy, axis=-1))
+        by_constant, by_enthalpy = self.variance_parts(derivative)
+        return np.sqrt(np.sum(by_constant + by_enthalpy, axis=-1))
 
     def defaults_used(self) -> list[dict]:
         """Per class: the default and the constants that carry it (for the output)."""

@@ -41,7 +41,7 @@ MIN_SHARE = 1e-3
 #: Standard deviations within which a result near a corrosive limit is pointed out
 #: (about 95 % for a normal distribution)  # common practice
 NEAR_LIMIT_SD = 2.0
-LOG_K, ENTHALPY = "log K", "ΔH°"
+CONSTANT_PART, ENTHALPY_PART = "log K", "ΔH°"
 CHUNK_ROWS = 8192   # samples whose derivatives are held at once in a batch
 
 
@@ -78,8 +78,8 @@ class Propagation:
         """The *shown* constants (log K or ΔH°) that add most to u² of sample *k*'s
         result, with their share of u², their uncertainty and the derivative; constants
         below :data:`MIN_SHARE` of u² are not named."""
-        log_k, enthalpy = self.constants.variance_parts(derivative[k:k + 1])
-        parts = np.concatenate([log_k[0], enthalpy[0]])
+        by_constant, by_enthalpy = self.constants.variance_parts(derivative[k:k + 1])
+        parts = np.concatenate([by_constant[0], by_enthalpy[0]])
         total = float(parts.sum())
         if not total > 0:
             return []
@@ -94,7 +94,7 @@ class Propagation:
             sigma = (self.constants.enthalpy[k, e] if enthalpy_part
                      else self.constants.log10_k[e])
             out.append({"constant": name, "kind": section, "parameter":
-                        ENTHALPY if enthalpy_part else LOG_K,
+                        ENTHALPY_PART if enthalpy_part else CONSTANT_PART,
                         "share": float(parts[p] / total),
                         "log10_k_uncertainty": float(sigma),
                         "stated": bool(self.constants.stated[e]) or enthalpy_part,
