@@ -36,7 +36,11 @@ SOLID = "solubility product"
 #: Default standard uncertainty of log10 K (1 s.d.) for a constant whose table states
 #: none, by class; with the reason for each value.  # common practice
 CLASS_DEFAULTS: dict[str, tuple[float, str]] = {
-    WATER_IONIZATION: (0.01, "Kw is known to about ±0.01 in log10 at 0–100 °C"),
+    # re-read: Arcis, Ferguson, Cox & Tremaine (2020) J. Phys. Chem. Ref. Data 49, 033103
+    # (abstract): the revised Bandura–Lvov equation reproduces the pKw data with a
+    # standard uncertainty u(pK) = 0.016, 273–373 K at 100 kPa and up to 674 K
+    WATER_IONIZATION: (0.016, "the Kw formulation reproduces the measured pKw to ±0.016 "
+                              "(Arcis et al. 2020)"),
     ACID_BASE: (0.02, "evaluated pKa of common acids and buffers agree within a few "
                       "hundredths"),
     GAS: (0.02, "Henry's-law constants of common gases agree within a few hundredths"),
