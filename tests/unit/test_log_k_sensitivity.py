@@ -82,3 +82,21 @@ def test_adjoint_pH_derivative_equals_the_forward_one(name):
     adjoint = pH_log_k_derivative(state.basis, state.equilibrium, state.bound, state.free,
                                   terms)
     np.testing.assert_allclose(adjoint, forward, atol=1e-12)
+
+
+def test_batch_uncertainty_has_the_same_bits_alone_or_together():
+    """A row's pH uncertainty does not depend on the rows solved beside it (the batch
+    promise: partitions of a distributed batch equal the local one)."""
+    from ionwright.outputs._uncertainty import batch_pH_uncertainty
+
+    compiled = compile_recipe({"dissolve": {"NaHCO3": 0.01, "CaCl2": 0.002, "NH4Cl": 0.001}})
+    rng = np.random.default_rng(5)
+    totals = compiled.base[None, :] * rng.uniform(0.2, 2.0, (40, compiled.system.n_components))
+    state = compiled.solve(totals)
+    together = batch_pH_uncertainty(compiled.system, compiled.tables, state.equilibrium,
+                                    state.bound, False)
+    for k in (0, 7, 39):
+        alone = compiled.solve(totals[k:k + 1])
+        single = batch_pH_uncertainty(compiled.system, compiled.tables, alone.equilibrium,
+                                      alone.bound, False)
+        assert single[0] == together[k]

@@ -192,10 +192,17 @@ def pH_log_k_derivative(system, equilibrium: Equilibrium, bound, free: np.ndarra
     unit = np.zeros((ok.size, nf + 1, 1))
     unit[:, 0, 0] = 1.0                           # H+ is the first free component
     w = np.linalg.solve(np.swapaxes(jac, 1, 2), unit)[..., 0]
-    q = w[:, :nf] @ system.nu[:, free].T
+    nu_f = system.nu[:, free]
+    q = np.zeros(sub.molality.shape)
+    for j in range(nf):                 # added in a fixed order: the same bits in any batch
+        q += w[:, j, None] * nu_f[None, :, j]
     if is_exact(sub_bound):
-        q = q + 0.5 * w[:, nf:] * system.charge[None, :] ** 2
-    out[ok] = (q * sub.molality) @ terms.species
+        q += 0.5 * w[:, nf:] * system.charge[None, :] ** 2
+    weight = q * sub.molality
+    derivative = np.zeros((ok.size, terms.size))
+    for k in np.flatnonzero(np.any(terms.species != 0, axis=1)):
+        derivative += weight[:, k, None] * terms.species[k][None, :]
+    out[ok] = derivative
     return out
 
 
