@@ -23,7 +23,6 @@ from ..chemistry._records import LogK
 from ..chemistry._tableset import TableSet
 from ..chemistry._temperature import R, T_REF
 from ..core._constant_terms import ConstantTerms
-from ..core._sparse import weighted_sum
 from ..core._system import KELVIN, PROTON, WATER
 
 WATER_IONIZATION = "water ionization"
@@ -103,8 +102,11 @@ class ConstantUncertainty:
     def sd(self, derivative: np.ndarray) -> np.ndarray:
         """Standard uncertainty of the result whose derivatives (n, ..., E) are given."""
         by_constant, by_enthalpy = self.variance_parts(derivative)
-        parts = np.moveaxis(by_constant + by_enthalpy, -1, 0)
-        return np.sqrt(weighted_sum(parts))     # in entry order: the same bits in any batch
+        parts = by_constant + by_enthalpy
+        total = np.zeros(parts.shape[:-1])
+        for e in range(parts.shape[-1]):    # in entry order: the same bits in any batch
+            total += parts[..., e]
+        return np.sqrt(total)
 
     def defaults_used(self) -> list[dict]:
         """Per class: the default and the constants that carry it (for the output)."""
