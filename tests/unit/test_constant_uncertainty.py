@@ -4,7 +4,6 @@ class; the enthalpy's share away from 25 °C; the table format keeps both."""
 from __future__ import annotations
 
 import math
-import textwrap
 
 import numpy as np
 import pytest
@@ -17,22 +16,11 @@ from ionwright.outputs._constant_uncertainty import (ACID_BASE, CLASS_DEFAULTS, 
                                                      HYDROLYSIS, ION_PAIR, SOLID,
                                                      WATER_IONIZATION, constant_class,
                                                      enthalpy_share)
+from test_uncertainty import LAB as IN_HOUSE
 
-LAB = textwrap.dedent('''
-    [about]
-    name = "lab"
-    format_version = 1
-    title = "in-house constants (FICTIONAL demo data)"
-    [sources]
-    LAB = "fictional notebook"
-    [species."H2PO4-"]
-    from = { "HPO4^2-" = 1, "H+" = 1 }
-    log10_k = 7.20
-    uncertainty = 0.05
-    enthalpy_kJ = -3.6
-    enthalpy_uncertainty_kJ = 2.0
-    source = "LAB"
-''')
+# the in-house table of test_uncertainty.py with an enthalpy and its uncertainty
+LAB = IN_HOUSE.replace("uncertainty = 0.05\n", "uncertainty = 0.05\nenthalpy_kJ = -3.6\n"
+                       "enthalpy_uncertainty_kJ = 2.0\n")
 
 
 @pytest.fixture(scope="module")

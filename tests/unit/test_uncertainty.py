@@ -190,15 +190,3 @@ def test_batch_column_is_the_single_solve_figure():
             "KH2PO4": row["KH2PO4"], "Na2HPO4": row["Na2HPO4"]}})
         assert column[k] == pytest.approx(single.pH_uncertainty, rel=1e-9)
 
-
-def test_the_uncertainty_of_a_single_result_imports_no_scipy():
-    """The JSON of one result (its uncertainty included) keeps the quick start."""
-    import subprocess
-    import sys
-
-    code = ("import sys, ionwright\n"
-            "ionwright.solve({'dissolve': {'NaHCO3': 0.002, 'CaCl2': 0.001}}).to_dict()\n"
-            "print(any(m.split('.')[0] == 'scipy' for m in sys.modules))\n")
-    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                          check=True)
-    assert done.stdout.strip() == "False"
