@@ -30,8 +30,8 @@ def solve_with_uncertainty(recipe: str | Path | Mapping[str, Any] | Recipe,
     sentence = comparison.spread_sentence()
     if "pH" in recipe.fix:
         sentence = ("the pH is fixed by the recipe, so the activity models agree on it; they "
-                    "differ in the activities and saturation indices (--compare-models "
-                    "shows them side by side)")
+                    "differ in the activities and saturation indices (the comparison of "
+                    "models shows them side by side)")
     checks: dict[str, Any] = {
         "activity_model_spread": {**comparison.spread.to_dict(), "note": sentence},
         "lines": [f"  activity models    {sentence} (not included in the ± above)"]}
