@@ -15,6 +15,8 @@ from . import notices, status
 from .batch._entry import solve_batch
 from .design._buffer import BufferCard, design_buffer
 from .design._compare import Comparison, compare_models
+from .design._monte_carlo import MonteCarloCheck, monte_carlo
+from .design._uncertainty_checks import solve_with_uncertainty
 from .design._sweep import Sweep, dilution, pH_series, temperature_series, titration
 from .design._target import TargetResult, target
 from .engine._solve import solve
@@ -39,6 +41,7 @@ __all__ = [
     # design tools
     "target", "TargetResult", "design_buffer", "BufferCard", "titration", "dilution",
     "temperature_series", "pH_series", "Sweep", "compare_models", "Comparison",
+    "monte_carlo", "MonteCarloCheck", "solve_with_uncertainty",
     # plugins
     "hookimpl",
     # errors

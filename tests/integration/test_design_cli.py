@@ -53,7 +53,7 @@ def test_sweep_csv_and_plot(rinse, tmp_path, capsys):
     assert main(["sweep", str(rinse), "--add", "NaOH 0.5 mol/L", "--to", "150 mL",
                  "--points", "31", "--plot", str(plot)]) == 0
     captured = capsys.readouterr()
-    assert captured.out.splitlines()[0].startswith("titrant_mL,pH,ionic_strength")
+    assert captured.out.splitlines()[0].startswith("titrant_mL,pH,pH_uncertainty,ionic_strength")
     assert "equivalence point" in captured.err
     assert plot.stat().st_size > 1000
 

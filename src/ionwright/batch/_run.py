@@ -61,7 +61,9 @@ from ._derived_columns import DerivedOptions, DerivedTable, derived_headers
 from ..core._newton.numerics import RESIDUAL_TOLERANCE
 from ..status import CONVERGED, INVALID
 from ..chemistry._constants import LN10
+from ..core._phases import _take
 from ..core._saturation import saturation_indices
+from ..outputs._uncertainty import batch_pH_uncertainty
 from ..inputs._checks import PLAUSIBLE_PH
 
 if TYPE_CHECKING:
@@ -72,6 +74,7 @@ if TYPE_CHECKING:
 
 STATUS_COLUMN, MESSAGE_COLUMN = "status", "message"
 PH_COLUMN = "solved pH"
+PH_UNCERTAINTY_COLUMN = "pH uncertainty, constants [1 s.d.]"
 IONIC_STRENGTH_COLUMN = "ionic strength [mol/kg]"
 TEMPERATURE_NAMES = ("temperature_C", "temperature [C]", "temperature [°C]")
 BALANCE_COLUMN = "balance_on"
@@ -118,7 +121,7 @@ class Plan:
     derived: DerivedOptions = DerivedOptions()
 
     def output_columns(self) -> list[str]:
-        return [PH_COLUMN, IONIC_STRENGTH_COLUMN,
+        return [PH_COLUMN, PH_UNCERTAINTY_COLUMN, IONIC_STRENGTH_COLUMN,
                 *derived_headers(self.components, self.derived),
                 *map(species_column, self.species),
                 *map(saturation_column, self.solids), NOT_ANALYSED_COLUMN, BELOW_LIMIT_COLUMN,
@@ -478,6 +481,7 @@ class Solved:
     status: np.ndarray
     message: np.ndarray           # (n,) of str
     derived: DerivedTable
+    ph_uncertainty: np.ndarray    # (n,) from the constants' uncertainties
 
 
 def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: str,
@@ -489,7 +493,7 @@ def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: st
     out = Solved(np.full(n, np.nan), np.full(n, np.nan),
                  np.full((n, len(plan.species)), np.nan), np.full((n, len(plan.solids)), np.nan),
                  np.full(n, INVALID, dtype=object), np.array(samples.problem, dtype=object),
-                 DerivedTable(n, plan.components, plan.derived))
+                 DerivedTable(n, plan.components, plan.derived), np.full(n, np.nan))
     model = registry.model(model_name)
     proton = plan.components.index(PROTON)
     present = samples.totals > 0
@@ -534,8 +538,8 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, pla
     pinned = np.full(totals.shape, np.nan)
     if fixed:
         pinned[:, 0] = -samples.fixed_ph[rows]
-    eq = solver.solve(system, totals, model.bind(system.properties, t), pinned, threads=threads,
-                      on_chunk=on_chunk)
+    bound = model.bind(system.properties, t)
+    eq = solver.solve(system, totals, bound, pinned, threads=threads, on_chunk=on_chunk)
     status = eq.status.copy()
     for k in np.flatnonzero(status != CONVERGED):  # retry alone, carefully
         alone = solver.solve(system, totals[k:k + 1], model.bind(system.properties, t[k:k + 1]),
@@ -548,6 +552,9 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, pla
     ok = status == CONVERGED
     good = rows[ok]
     out.ph[good] = -eq.log_activity[ok, 0] / LN10
+    converged = np.flatnonzero(ok)
+    out.ph_uncertainty[good] = batch_pH_uncertainty(
+        system, tables, _take(eq, converged), solver.bound_slice(bound, converged), fixed)
     out.ionic_strength[good] = eq.ionic_strength[ok]
     index = {name: i for i, name in enumerate(system.species)}
     for j, name in enumerate(plan.species):
@@ -715,7 +722,8 @@ def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: s
     samples = read_samples(frame, plan, table_set, model, registry, detection_limit)
     solved = solve_samples(samples, plan, table_set, model, registry, threads,
                            RowProgress(len(frame), progress))
-    results = {PH_COLUMN: solved.ph, IONIC_STRENGTH_COLUMN: solved.ionic_strength}
+    results = {PH_COLUMN: solved.ph, PH_UNCERTAINTY_COLUMN: solved.ph_uncertainty,
+               IONIC_STRENGTH_COLUMN: solved.ionic_strength}
     results.update(solved.derived.columns)
     for j, name in enumerate(plan.species):
         results[species_column(name)] = solved.molality[:, j]

@@ -50,12 +50,14 @@ class LogK:
     range_C: tuple[float, float] | None = None
     uncertainty: float | None = None
     function: str | None = None
+    enthalpy_uncertainty_kJ: float | None = None
 
     def problems(self, where: str) -> list[str]:
         """Every out-of-range or inconsistent field, as messages naming *where*."""
         out = []
         numbers = {"log10_k": self.log10_k, "enthalpy_kJ": self.enthalpy_kJ,
                    "heat_capacity_J": self.heat_capacity_J, "uncertainty": self.uncertainty,
+                   "enthalpy_uncertainty_kJ": self.enthalpy_uncertainty_kJ,
                    "analytic": self.analytic, "range_C": self.range_C}
         for key, value in numbers.items():
             values = value if isinstance(value, tuple) else (value,)
@@ -94,6 +96,13 @@ class LogK:
                            f"temperatures in °C within {list(RANGE_LIMIT_C)}")
         if self.uncertainty is not None and self.uncertainty < 0:
             out.append(f"{where}: uncertainty = {self.uncertainty} must be ≥ 0")
+        if self.enthalpy_uncertainty_kJ is not None:
+            if self.enthalpy_uncertainty_kJ < 0:
+                out.append(f"{where}: enthalpy_uncertainty_kJ = {self.enthalpy_uncertainty_kJ} "
+                           "must be ≥ 0")
+            if self.enthalpy_kJ is None and self.analytic is None and self.function is None:
+                out.append(f"{where}: enthalpy_uncertainty_kJ needs a temperature description "
+                           "(enthalpy_kJ or analytic) to be the uncertainty of")
         return out
 
     @property

@@ -41,6 +41,7 @@ from ..errors import RESIDUAL_TOLERANCE, PhaseRuleError, RecipeError, UnknownNam
 from ..notices import SOLVER, VALIDITY, Notice
 from ..status import CONVERGED, MAX_ITERATIONS, succeeded
 from ..chemistry._formula import parse_formula
+from ._constant_terms import LogKShift
 from ._response import response
 from ._solver import Equilibrium, bound_slice
 from ._system import PROTON, WATER, ChemicalSystem, log10_k_at
@@ -416,8 +417,10 @@ class PhaseEquilibrium:
 
 def equilibrate(system: ChemicalSystem, tables: TableSet, totals: np.ndarray, bound,
                 t_C: np.ndarray, choice: PhaseChoice,
-                fixed_log10_activity: np.ndarray | None = None) -> PhaseEquilibrium:
-    """Solve a batch with the recipe's solids and gases; *totals* (n, c) in mol/kg.
+                fixed_log10_activity: np.ndarray | None = None,
+                shift: LogKShift | None = None) -> PhaseEquilibrium:
+    """Solve a batch with the recipe's solids and gases; *totals* (n, c) in mol/kg; with
+    *shift*, each sample's constants changed by its row of the shift.
 
     Samples that fail keep their status (never a silent answer); a recipe whose phases
     break the phase rule raises :class:`PhaseRuleError` before anything is solved.
@@ -444,7 +447,7 @@ def equilibrate(system: ChemicalSystem, tables: TableSet, totals: np.ndarray, bo
                                      - set(system.components) - {WATER})
     free = np.isnan(fixed[0])
     check_phase_rule(basis, solids, modes, free)
-    work = _Work(basis, bound, t_C, fixed, totals, tuple(solids), tuple(modes), free)
+    work = _Work(basis, bound, t_C, fixed, totals, tuple(solids), tuple(modes), free, shift)
     state = work.run()
     state.skipped = skipped
     return state
@@ -520,6 +523,7 @@ class _Work:
     solids: tuple[PhaseReaction, ...]
     modes: tuple[SolidChoice, ...]
     free: np.ndarray
+    shift: LogKShift | None = None
 
     def __post_init__(self) -> None:
         n, m = self.totals.shape[0], len(self.solids)
@@ -530,6 +534,15 @@ class _Work:
         self.water = np.array([s.water for s in self.solids])
         self.log10_k = (np.array([s.log10_k(self.t_C) for s in self.solids]).T if m
                       else np.zeros((n, 0)))
+        self.kappa_shift = np.zeros((n, c))       # the shift of the gases' log K
+        self.species_shift = None                 # of the species' log K in the gas basis
+        if self.shift is not None:
+            for gas, col in zip(self.basis.gases, self.basis.pivots):
+                self.kappa_shift[:, col] = self.shift.phase(gas.resolved, "gases")
+            self.species_shift = self.shift.species() + self.kappa_shift @ self.basis.nu.T
+            for k, solid in enumerate(self.solids):
+                self.log10_k[:, k] = self.log10_k[:, k] + self.shift.phase(solid.resolved,
+                                                                           "solids")
         mode = np.array([x.mode for x in self.modes], dtype=object)
         self.may_form = mode == MAY_FORM
         self.ceiling = np.where(self.may_form, 0.0, np.inf)[None, :].repeat(n, 0)
@@ -552,13 +565,22 @@ class _Work:
         new_totals[:, fixed_columns] = np.maximum(np.abs(new_totals[:, fixed_columns]),
                                                   FIXED_COLUMN_ALLOWANCE)
         eq = solver.solve(cast(ChemicalSystem, self.basis),  # a basis reads as a system
-                          new_totals, bound_slice(self.bound, rows), self.fixed[rows])
+                          new_totals, bound_slice(self.bound, rows), self.fixed[rows],
+                          log10_k_shift=None if self.species_shift is None
+                          else self.species_shift[rows])
         return eq, self.saturation(eq, rows)
+
+    def old_log_activity(self, eq: Equilibrium, rows: np.ndarray) -> np.ndarray:
+        """ln a of the system's own components for samples *rows* of the gas basis."""
+        old = self.basis.old_log_activity(eq.log_activity, eq.ln_water_activity, self.t_C[rows])
+        if self.shift is None:
+            return old
+        return old + LN10 * self.kappa_shift[rows] @ self.basis.inverse.T
 
     def saturation(self, eq: Equilibrium, rows: np.ndarray) -> np.ndarray:
         if not self.solids:
             return np.zeros((rows.size, 0))
-        old = self.basis.old_log_activity(eq.log_activity, eq.ln_water_activity, self.t_C[rows])
+        old = self.old_log_activity(eq, rows)
         log_iap = (old @ self.p_old.T + eq.ln_water_activity[:, None] * self.water) / LN10
         si = log_iap - self.log10_k[rows]
         return np.where(succeeded(eq.status)[:, None], si, np.nan)
@@ -774,7 +796,7 @@ class _Work:
                 "solver's ceiling on ionic strength (a fixed pH or gas can hold more ions than "
                 "the totals bound) and are reported as not converged rather than wrong",
                 {"samples": int(capped.sum())}))
-        old_y = self.basis.old_log_activity(eq.log_activity, eq.ln_water_activity, self.t_C)
+        old_y = self.old_log_activity(eq, np.arange(n))
         with_solids = self.totals + xi @ self.p_old
         new_with_solids = self.basis.new_totals(with_solids)
         carried = eq.molality @ self.basis.nu

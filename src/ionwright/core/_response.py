@@ -34,21 +34,36 @@ def response(system, equilibrium: Equilibrium, bound, free: np.ndarray) -> np.nd
     *system* is anything with ``nu`` and ``charge`` (a ChemicalSystem or a gas basis);
     *free* marks the components that have a mass balance.
     """
+    jac = jacobian(system, equilibrium, bound, free)
+    n, nf = jac.shape[0], jac.shape[1] - 1
+    rhs = np.zeros((n, nf + 1, nf))
+    rhs[:, :nf, :] = np.eye(nf)
+    return np.linalg.solve(jac, rhs)[:, :nf, :]
+
+
+def jacobian(system, equilibrium: Equilibrium, bound, free: np.ndarray) -> np.ndarray:
+    """The Jacobian (n, f+1, f+1) of the mass balances of the *free* components and the
+    ionic-strength condition in (ln a of the free components, √I), at the solution.
+
+    Sums over species are added species by species in a fixed order (elementwise over
+    the samples), so a sample's Jacobian has the same bits alone or in any batch."""
     conc = equilibrium.molality
     u = np.sqrt(np.maximum(equilibrium.ionic_strength, 0.0))
     nu_f = system.nu[:, free]
     z2 = system.charge ** 2
     n, nf = conc.shape[0], nu_f.shape[1]
     jac = np.zeros((n, nf + 1, nf + 1))
-    jac[:, :nf, :nf] = np.einsum("si,ns,sj->nij", nu_f, conc, nu_f, optimize=True)
-    if is_exact(bound):
-        dg = bound.d_ln_gamma_du(u)
-        cdg = conc * dg
-        jac[:, :nf, nf] = -cdg @ nu_f
-        jac[:, nf, :nf] = 0.5 * (conc * z2) @ nu_f
-        jac[:, nf, nf] = -0.5 * cdg @ z2 - 2.0 * u
+    exact = is_exact(bound)
+    cdg = conc * bound.d_ln_gamma_du(u) if exact else None
+    for k in np.flatnonzero(np.any(nu_f != 0, axis=1) | (z2 != 0)):
+        c = conc[:, k, None]
+        jac[:, :nf, :nf] += c[:, :, None] * np.outer(nu_f[k], nu_f[k])[None]
+        if cdg is not None:
+            jac[:, :nf, nf] -= cdg[:, k, None] * nu_f[k][None]
+            jac[:, nf, :nf] += 0.5 * z2[k] * c * nu_f[k][None]
+            jac[:, nf, nf] -= 0.5 * z2[k] * cdg[:, k]
+    if cdg is not None:
+        jac[:, nf, nf] -= 2.0 * u
     else:
         jac[:, nf, nf] = -1.0
-    rhs = np.zeros((n, nf + 1, nf))
-    rhs[:, :nf, :] = np.eye(nf)
-    return np.linalg.solve(jac, rhs)[:, :nf, :]
+    return jac

@@ -89,7 +89,8 @@ class Equilibrium:
 def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
           fixed_log10_activity: np.ndarray | None = None, *,
           method: str = "auto", threads: int | None = None,
-          on_chunk: Callable[[int], None] | None = None) -> Equilibrium:
+          on_chunk: Callable[[int], None] | None = None,
+          log10_k_shift: np.ndarray | None = None) -> Equilibrium:
     """Solve the batch: *totals* (n, c) in mol/kg, fixed log10 activities (n, c), NaN = free.
 
     *method* ``"auto"`` uses the fast path where the activity model allows it and the
@@ -100,6 +101,8 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     status, never a silent answer. Totals of the proton component may be negative
     (added base). *on_chunk*, if given, is called with the number of samples of each chunk
     as it finishes (from the thread that solved it), for progress reports.
+    *log10_k_shift* (n, s), when given, is added to each sample's log10 K of formation
+    (constants that differ from row to row: the Monte Carlo check).
     """
     if method not in METHODS:
         raise UnknownNameError("solver method", method, METHODS)
@@ -124,7 +127,10 @@ def solve(system: ChemicalSystem, totals: np.ndarray, bound: BoundModel,
     coupling = coupling_for(structure, bound, fast)
 
     def ln_k(rows: np.ndarray | slice) -> np.ndarray:
-        return LN10 * system.log10_k(bound.t_C[rows], samples_last=True)
+        log10_k = system.log10_k(bound.t_C[rows], samples_last=True)
+        if log10_k_shift is not None:
+            log10_k = log10_k + log10_k_shift[rows].T
+        return LN10 * log10_k
 
     def run(rows: np.ndarray) -> None:
         if rows.size == n:  # the whole batch in one chunk: nothing to slice

@@ -28,7 +28,7 @@ from ..chemistry._records import Component, ConstantTable, LogK, Phase, Reagent,
 FORMAT_VERSION = 1
 
 _LOGK_KEYS = {"log10_k", "enthalpy_kJ", "heat_capacity_J", "analytic", "range_C", "uncertainty",
-              "function"}
+              "enthalpy_uncertainty_kJ", "function"}
 _COMMON = {"source", "from_memory", "note", "formula"}
 _ALLOWED = {
     "components": _COMMON | {"ion_size", "tj_a", "tj_b", "setschenow"},
@@ -209,6 +209,7 @@ class _Builder:
         dh = self._number(where, entry, "enthalpy_kJ")
         dcp = self._number(where, entry, "heat_capacity_J")
         unc = self._number(where, entry, "uncertainty")
+        dh_unc = self._number(where, entry, "enthalpy_uncertainty_kJ")
         analytic = _number_list(entry.get("analytic"))
         range_c = _number_list(entry.get("range_C"))
         if entry.get("analytic") is not None and analytic is None:
@@ -223,7 +224,7 @@ class _Builder:
             self.problems.append(f"{where}: function must be a name such as \"water ionization\"")
             function = None
         span = None if range_c is None else (range_c[0], range_c[1])
-        record = LogK(log10_k, dh, dcp, analytic, span, unc, function)
+        record = LogK(log10_k, dh, dcp, analytic, span, unc, function, dh_unc)
         problems = record.problems(where)
         self.problems.extend(problems)
         return None if problems else record

@@ -28,7 +28,8 @@ import numpy as np
 from ..chemistry._density import ingredient_solute
 from ..engine._compiled import CompiledRecipe
 from ..engine._solve import compile_recipe
-from ._target import find_dose, read_stock, split_name_and_quantity, stock_cautions
+from ._target import (dose_uncertainty, find_dose, read_stock, split_name_and_quantity,
+                      stock_cautions)
 from ..plugins._table_sets import load_tables
 from ..notices import CAUTION, of_category, texts
 from ..errors import (IonwrightError, RecipeError, UnknownNameError, UnreachableTargetError,
@@ -45,6 +46,10 @@ from ..core._sensitivity import buffer_capacity
 from ..core._system import PROTON, WATER, log10_k_at
 from ..inputs._units import expect, parse_quantity
 from ..chemistry._constants import LN10
+
+#: Relative step of the titrant dose over which the totals' rate of change is taken (the
+#: totals are smooth in the dose: a central difference is exact to about 1e-12)
+DOSE_STEP = 1e-6
 
 #: Buffer families named by their anion rather than by a reagent.
 FAMILIES = {"phosphate": "PO4^3-", "acetate": "CH3COO-", "citrate": "Cit^3-",
@@ -195,6 +200,8 @@ class BufferCard:
     titrant: str | None = None
     titrant_mL: float | None = None
     cautions: list[str] = field(default_factory=list)
+    #: standard uncertainty of the titrant volume from the constants (mL)
+    titrant_mL_uncertainty: float | None = None
     warnings: list[str] = field(default_factory=list)   # plausibility of the design
 
     def to_dict(self) -> dict[str, Any]:
@@ -207,6 +214,8 @@ class BufferCard:
             "weigh": [{"name": w.name, "formula": w.formula, "molar_mass_g_per_mol": w.molar_mass,
                        "mol": w.moles, "g": w.grams} for w in self.weigh],
             "titrant": self.titrant, "titrant_mL": self.titrant_mL,
+            "titrant_mL_uncertainty": self.titrant_mL_uncertainty,
+            "pH_uncertainty": self.result.pH_uncertainty,
             "ionic_strength": self.ionic_strength,
             "buffer_capacity_mmol_per_L_per_pH": self.capacity_mmol_per_L_pH,
             "pH_drift_per_C": self.drift_per_C, "bench_pH": self.bench_pH,
@@ -222,14 +231,17 @@ class BufferCard:
         bench = f"{self.bench_temperature_C:g} °C"
         if self.method == "titrate":
             lines.append(f"dissolve in about 80 % of the volume, then titrate with "
-                         f"{self.titrant}: about {_small_volume_text(self.titrant_mL or 0.0)}")
+                         f"{self.titrant}: about {_small_volume_text(self.titrant_mL or 0.0)}"
+                         f" (± {_small_volume_text(self.titrant_mL_uncertainty or 0.0)} from "
+                         "the constants)")
             lines.append(f"  stop when the meter reads pH {self.bench_pH:.2f} at {bench}")
         else:
             lines.append("dissolve (a conjugate pair: no titration needed)")
             lines.append(f"  the meter should read pH {self.bench_pH:.2f} at {bench}")
         lines.append(f"make up to {_volume_text(self.volume_L)} with water and mix")
         lines += ["", f"at use ({self.use_temperature_C:g} °C)",
-                  f"  pH                 {self.result.pH:8.3f}",
+                  f"  pH                 {self.result.pH:8.3f} ± "
+                  f"{self.result.pH_uncertainty:.3f} made by weight (constants, 1 s.d.)",
                   f"  ionic strength     {self.ionic_strength:8.4f} mol/kg",
                   f"  buffer capacity    {self.capacity_mmol_per_L_pH:8.2f} mmol/(L·pH)",
                   f"  pH drift           {self.drift_per_C:+8.4f} per °C",
@@ -322,7 +334,7 @@ def design_buffer(buffer: str, pH: float, concentration: str, *, temperature_C: 
                          for d in doses])
 
     ceiling = (max(forms[-1].protons, 1.0) + 1.0) * amount.value + 0.01
-    dose, _ = find_dose(batch.bench, totals_of, ceiling, pH, titrant_name, "mol per L")
+    dose, state = find_dose(batch.bench, totals_of, ceiling, pH, titrant_name, "mol per L")
     mL = 1000.0 * dose * volume_q.value / stock.moles_per_L
     if mL >= 1000.0 * volume_q.value:
         raise RecipeError(f"titrant {titrant!r}", f"would take {mL:.5g} mL, more than the "
@@ -333,6 +345,11 @@ def design_buffer(buffer: str, pH: float, concentration: str, *, temperature_C: 
     card = _card(batch, final, buffer, component, pH, amount.text, t_bench, "titrate",
                  list(dissolve))
     card.titrant, card.titrant_mL = f"{titrant_name} {titrant_stock}", mL
+    step = DOSE_STEP * max(dose, 1e-12)
+    rate = (totals_of(np.array([dose + step]))[0] - totals_of(np.array([dose - step]))[0]) \
+        / (2.0 * step)
+    card.titrant_mL_uncertainty = (mL / dose * dose_uncertainty(
+        state, card.result.pH_uncertainty, rate)) if dose > 0 else 0.0
     card.cautions = stock_cautions(stock, batch.bench) + card.cautions
     card.warnings = plausibility(card, amount.value, table_set)
     return card

@@ -30,6 +30,8 @@ MAX_LINES = len(PALETTE) * len(STYLES)
 INK = "#222831"
 GRID = "#d9dde3"
 SIZE = (7.0, 4.4)
+BAND_ALPHA = 0.25       # opacity of the ± one standard uncertainty band
+BAND_LABEL = "± 1 s.d. (constants)"
 SHOWN_FRACTION = 0.01   # species below this share everywhere are left out of the legend
 LOG_RANGE = 30.0        # β spanning more than this factor is drawn on a log axis
 RELEVANT_SI = -4.0      # solids never above this SI are left out unless asked for
@@ -85,18 +87,34 @@ def _x(ax, sweep: Sweep) -> np.ndarray:
     return sweep.values
 
 
+def _band(ax, x: np.ndarray, y: np.ndarray, u: np.ndarray, colour: str,
+          label: str | None = None) -> None:
+    """A shaded band of ± one standard uncertainty (from the constants) around a curve."""
+    if np.any(u > 0):
+        widest = f" (up to ± {np.nanmax(u):.2g})" if label else ""
+        ax.fill_between(x, y - u, y + u, color=colour, alpha=BAND_ALPHA, linewidth=0,
+                        label=label and label + widest)
+
+
 def ph_curve(sweep: Sweep) -> Figure:
-    """pH against the swept quantity (temperature, dilution factor, titrant volume)."""
+    """pH against the swept quantity (temperature, dilution factor, titrant volume), with
+    the band of ± one standard uncertainty from the constants."""
     fig, ax = _figure()
-    ax.plot(_x(ax, sweep), sweep.pH, color=PALETTE[0], linewidth=2.0)
+    x = _x(ax, sweep)
+    _band(ax, x, sweep.pH, sweep.pH_uncertainty, PALETTE[0], BAND_LABEL)
+    ax.plot(x, sweep.pH, color=PALETTE[0], linewidth=2.0, label="pH")
+    if np.any(sweep.pH_uncertainty > 0):
+        ax.legend(frameon=False, fontsize=9)
     ax.set_ylabel("pH", color=INK, fontsize=11)
     _title(ax, sweep, "pH")
     return fig
 
 
 def titration_curve(sweep: Sweep) -> Figure:
-    """pH against titrant volume, with each equivalence point marked and labelled."""
+    """pH against titrant volume, with each equivalence point marked and labelled and the
+    band of ± one standard uncertainty from the constants."""
     fig, ax = _figure()
+    _band(ax, sweep.values, sweep.pH, sweep.pH_uncertainty, PALETTE[0], BAND_LABEL)
     ax.plot(sweep.values, sweep.pH, color=PALETTE[0], linewidth=2.0, label="pH")
     for k, ep in enumerate(sweep.equivalence, 1):
         ax.axvline(ep["titrant_mL"], color=PALETTE[1], linestyle=(0, (4, 3)), linewidth=1.0)
@@ -108,6 +126,7 @@ def titration_curve(sweep: Sweep) -> Figure:
     ax.set_xlabel(x_label(sweep), color=INK, fontsize=11)
     ax.set_ylabel("pH", color=INK, fontsize=11)
     _solids_formed_axis(ax, sweep)
+    ax.legend(frameon=False, fontsize=9, loc="upper left")
     _title(ax, sweep, "titration")
     return fig
 
@@ -168,7 +187,10 @@ def saturation_curve(sweep: Sweep, solids: tuple[str, ...] = ()) -> Figure:
     names = solids or tuple(sorted(near, key=lambda n: -peak[n])[:MAX_LINES])
     x = _x(ax, sweep)
     for k, name in enumerate(names):
-        ax.plot(x, sweep.saturation[name], linewidth=2.0, label=name, **_look(k))
+        look = _look(k)
+        _band(ax, x, sweep.saturation[name], sweep.saturation_uncertainty(name),
+              look["color"], BAND_LABEL if k == 0 else None)
+        ax.plot(x, sweep.saturation[name], linewidth=2.0, label=name, **look)
     ax.axhline(0.0, color=INK, linewidth=1.0)
     ax.text(x[0], 0.05, "supersaturated above, undersaturated below", fontsize=8,
             color=INK, va="bottom")

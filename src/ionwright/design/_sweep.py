@@ -23,6 +23,7 @@ import math
 import numbers
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field, replace
+from functools import cached_property
 from pathlib import Path
 from typing import Any
 
@@ -47,6 +48,7 @@ from ..core._sensitivity import buffer_capacity, pH_change
 from ..inputs._units import expect, parse_quantity
 from ..chemistry._water import VALID_RANGE_C
 from ..core._saturation import saturation_indices
+from ..outputs._uncertainty import Propagation, propagation
 
 DEFAULT_POINTS = 101
 DEFAULT_SPECIES = 6
@@ -92,6 +94,22 @@ class Sweep:
     def ionic_strength(self) -> np.ndarray:
         return self.state.equilibrium.ionic_strength
 
+    @cached_property
+    def _propagation(self) -> Propagation:
+        """The constants' uncertainty carried to every point (outputs/_uncertainty.py)."""
+        return propagation(self.bench.system, self.bench.tables, self.state,
+                           tuple(self.saturation))
+
+    @property
+    def pH_uncertainty(self) -> np.ndarray:
+        """Standard uncertainty of the pH at each point from the constants (zero where
+        the pH is held)."""
+        return self._propagation.pH()
+
+    def saturation_uncertainty(self, solid: str) -> np.ndarray:
+        """Standard uncertainty of the saturation index of *solid* at each point."""
+        return self._propagation.saturation_index(self.bench.tables, solid)
+
     def molality(self, species: str) -> np.ndarray:
         """Molality of *species* at each point (zero where one of its components is absent)."""
         system = self.bench.system
@@ -113,8 +131,11 @@ class Sweep:
 
     def rows(self) -> list[dict[str, Any]]:
         out = []
+        u_pH = self.pH_uncertainty
+        u_si = {name: self.saturation_uncertainty(name) for name in self.saturation}
         for k, value in enumerate(self.values):
             row = {self.variable: float(value), "pH": float(self.pH[k]),
+                   "pH_uncertainty": float(u_pH[k]),
                    "ionic_strength": float(self.ionic_strength[k]),
                    "buffer_capacity_mol_per_kg_per_pH": float(self.beta[k])}
             if self.slope is not None:
@@ -123,6 +144,7 @@ class Sweep:
                 row[f"m({s})"] = float(self.molality(s)[k])
             for name, si in self.saturation.items():
                 row[f"SI({name})"] = float(si[k])
+                row[f"u(SI({name}))"] = float(u_si[name][k])
             for j, phase in enumerate(self.state.solids):  # + dissolved, − precipitated
                 if phase.kind == "solid":
                     row[f"into_solution({phase.name})_g_per_kg"] = float(

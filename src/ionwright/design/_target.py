@@ -24,6 +24,7 @@ import numpy as np
 from ..chemistry._density import ingredient_solute
 from ..chemistry._ingredients import Makeup, makeup
 from ..core._phases import PhaseEquilibrium
+from ..core._sensitivity import pH_change
 from ..engine._compiled import CompiledRecipe, not_converged
 from ..engine._solve import compile_recipe
 from ._closed_sample import closed_sample_notes
@@ -91,6 +92,9 @@ class TargetResult:
     recipe_water_kg: float = 1.0
     cautions: list[str] = field(default_factory=list)
     closed_sample: bool = False     # the recipe fixed its pH: dosed as a closed sample
+    #: standard uncertainty of the dose from the constants' uncertainties (mol/kg): the
+    #: pH's uncertainty at the dose divided by how fast the dose moves the pH
+    amount_uncertainty_mol_per_kg: float = 0.0
 
     @property
     def pH(self) -> float:
@@ -99,16 +103,27 @@ class TargetResult:
     def to_dict(self) -> dict[str, Any]:
         out: dict[str, Any] = {
             "ingredient": self.ingredient, "target_pH": self.target_pH,
-            "amount_mol_per_kg": self.amount_mol_per_kg, "pH": self.pH,
+            "amount_mol_per_kg": self.amount_mol_per_kg,
+            "amount_uncertainty_mol_per_kg": self.amount_uncertainty_mol_per_kg,
+            "pH": self.pH,
             "temperature_C": self.result.temperature_C,
             "grams_per_kg_water": self.amount_mol_per_kg * self.molar_mass}
         if self.stock is not None and self.stock_mL_per_kg_water is not None:
             out["stock"] = self.stock.label
             out["stock_mL_per_kg_water"] = self.stock_mL_per_kg_water
             out["stock_mL_for_recipe"] = self.stock_mL_per_kg_water * self.recipe_water_kg
+            out["stock_mL_for_recipe_uncertainty"] = self.stock_mL_uncertainty
         out["cautions"] = self.cautions
         out["result"] = self.result.to_dict()
         return out
+
+    @property
+    def stock_mL_uncertainty(self) -> float | None:
+        """Standard uncertainty of the stock volume for the recipe as written (mL)."""
+        if self.stock is None or not self.amount_mol_per_kg > 0:
+            return None
+        return (self.stock_mL_per_kg_water or 0.0) * self.recipe_water_kg \
+            * self.amount_uncertainty_mol_per_kg / self.amount_mol_per_kg
 
     @property
     def molar_mass(self) -> float:
@@ -120,12 +135,15 @@ class TargetResult:
         grams = self.amount_mol_per_kg * self.molar_mass
         lines = [f"dose to pH {self.target_pH:g} at {r.temperature_C:g} °C",
                  (f"  {self.ingredient:<18}{1000 * self.amount_mol_per_kg:12.5g} mmol per kg "
-                  f"of water ({grams:.5g} g/kg)")]
+                  f"of water ({grams:.5g} g/kg) ± "
+                  f"{1000 * self.amount_uncertainty_mol_per_kg:.2g} mmol/kg from the "
+                  "constants (1 s.d.)")]
         if self.stock is not None and self.stock_mL_per_kg_water is not None:
             millilitres = self.stock_mL_per_kg_water * self.recipe_water_kg
             how = ("a [[pour]] of the whole sample and an [[add]] of that volume" if
                    self.closed_sample else "an [[add]] of that volume")
-            lines.append(f"  as {self.stock.label:<15}{millilitres:12.5g} mL added to the recipe "
+            lines.append(f"  as {self.stock.label:<15}{millilitres:12.5g} mL "
+                         f"± {self.stock_mL_uncertainty:.2g} mL added to the recipe "
                          f"as written ({how}; {self.stock_mL_per_kg_water:.5g} mL per kg of "
                          f"its water)")
         lines.append(f"  pH re-solved      {self.pH:12.6f}")
@@ -153,6 +171,9 @@ def target(recipe: str | Path | Mapping[str, Any] | Recipe, pH: float, adjust: s
     if stock is None:
         def totals_of(s: np.ndarray) -> np.ndarray:
             return bench.base[None, :] + s[:, None] * step[None, :]
+
+        def rate_of(s: float) -> np.ndarray:              # d totals / d s
+            return step
         ceiling, held = DOSE_CEILING, None
     else:
         held = read_stock(adjust, stock, bench.tables, bench.recipe.temperature_C, "stock")
@@ -161,22 +182,35 @@ def target(recipe: str | Path | Mapping[str, Any] | Recipe, pH: float, adjust: s
         def totals_of(s: np.ndarray) -> np.ndarray:      # s: L of stock per kg of water
             water = 1.0 + s * w_L
             return (bench.base[None, :] + (s * n_L)[:, None] * step[None, :]) / water[:, None]
+
+        def rate_of(s: float) -> np.ndarray:
+            return (n_L * step - w_L * totals_of(np.array([s]))[0]) / (1.0 + s * w_L)
         ceiling = _volume_for(DOSE_CEILING, n_L, w_L)
     s, state = find_dose(bench, totals_of, ceiling, pH, made.name,
                          "L of stock per kg of water" if held else "mol/kg")
     state.notes[:0] = closed_sample_notes(opened, "dosed", "dose")
     result = bench.result(state)
+    u_s = dose_uncertainty(state, result.pH_uncertainty, rate_of(s))
     if held is None:
-        amount, volume = s, None
+        amount, volume, u_amount = s, None, u_s
     else:
         amount = s * held.moles_per_L / (1.0 + s * held.water_kg_per_L)
         volume = 1000.0 * s
+        u_amount = u_s * held.moles_per_L / (1.0 + s * held.water_kg_per_L) ** 2
     water = bench.recipe.solution.water_kg if bench.recipe.solution is not None else 1.0
     notes = texts(of_category(result.notices, CAUTION))
     if held is not None:
         notes += stock_cautions(held, bench)
     return TargetResult(made.name, pH, amount, result, held, volume, water, notes,
-                        closed_sample=bench is not opened)
+                        closed_sample=bench is not opened, amount_uncertainty_mol_per_kg=u_amount)
+
+
+def dose_uncertainty(state: PhaseEquilibrium, pH_uncertainty: float, rate: np.ndarray
+                     ) -> float:
+    """Standard uncertainty of a dose that gives a target pH, from the pH's uncertainty at
+    that dose: u(pH) / |dpH/ddose| (the implicit-function theorem on pH(dose, K) = target);
+    *rate* (c,) is the change of the totals per unit of dose."""
+    return pH_uncertainty / abs(float(pH_change(state, rate)[0]))
 
 
 def _volume_for(amount: float, n_L: float, w_L: float) -> float:

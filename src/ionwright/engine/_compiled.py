@@ -22,6 +22,7 @@ from ..chemistry._ingredients import Makeup, makeup
 from ..chemistry._redox import ELECTRON, electron_tables
 from ..chemistry._tableset import TableSet
 from ..core import _solver as solver
+from ..core._constant_terms import LogKShift
 from ..core._phases import (PhaseChoice, PhaseEquilibrium, _take, components_needed, describe,
                             equilibrate, failure, read_phases, solids_fix_totals_notes)
 from ..core._solver import Equilibrium
@@ -172,9 +173,11 @@ class CompiledRecipe:
 
     # -- batches ---------------------------------------------------------------------
     def solve(self, totals: np.ndarray, t_C: float | np.ndarray | None = None,
-              fixed: np.ndarray | None = None) -> PhaseEquilibrium:
+              fixed: np.ndarray | None = None, shift: LogKShift | None = None
+              ) -> PhaseEquilibrium:
         """Equilibrium of every row of *totals* (n, c) in one batch, at *t_C* (°C),
-        with the recipe's solids and gases."""
+        with the recipe's solids and gases (and each row's constants changed by its row
+        of *shift*, when given)."""
         totals = np.array(np.atleast_2d(totals), dtype=float)
         n = totals.shape[0]
         t = np.broadcast_to(self.recipe.temperature_C if t_C is None else t_C, (n,))
@@ -188,7 +191,7 @@ class CompiledRecipe:
         bound = self.model.bind(self.system.properties, t)
         fixed = self.fixed() if fixed is None else fixed
         state = equilibrate(self.system, self.tables, totals, bound, t, self.choice,
-                            np.broadcast_to(fixed, totals.shape))
+                            np.broadcast_to(fixed, totals.shape), shift)
         given = (totals > 0) & ~traced
         state.notes = [*state.equilibrium.notes, *self.system.temperature_notes(t),
                        *self._replacements(),
@@ -210,7 +213,8 @@ class CompiledRecipe:
                   if c == PROTON or v > 10 * TRACE}
         return Result(recipe=recipe, tables=self.tables, system=self.system, model=self.model,
                       equilibrium=eq, totals=totals, makeups=self.makeups,
-                      notes=list(state.notes), phases=describe(state, k))
+                      notes=list(state.notes), phases=describe(state, k), state=state,
+                      sample=k)
 
     def pH(self, state: PhaseEquilibrium) -> np.ndarray:
         """pH of every sample (NaN where the solve failed)."""

@@ -13,6 +13,7 @@ from ._derived import report_lines as derived_lines
 from ._phase_report import phase_lines
 from ._provenance import constants_section
 from ._redox import report_lines as redox_lines
+from ._uncertainty import report_lines as uncertainty_lines
 
 SPECIES_SHOWN = 25
 MIN_SHOWN_MOLALITY = 1e-12
@@ -24,8 +25,9 @@ def text_report(result) -> str:
     lines = []
     if r.recipe.title:
         lines += [r.recipe.title, "=" * len(r.recipe.title)]
+    spread = "  (fixed)" if r.uncertainty.pH_fixed else f" ± {r.pH_uncertainty:.3f} (constants, 1 s.d.)"
     lines += [
-        f"pH                 {r.pH:8.3f}",
+        f"pH                 {r.pH:8.3f}{spread}",
         *([f"pe                 {r.pe:8.2f}   (Eh {r.Eh_V:+.3f} V)"] if r.pe is not None else []),
         f"ionic strength     {r.ionic_strength:10.4g} mol/kg",
         f"temperature        {r.temperature_C:8.1f} °C",
@@ -56,6 +58,7 @@ def text_report(result) -> str:
             lines.append(f"  {name:<20}{si:8.2f}")
     lines += redox_lines(r)
     lines += phase_lines(r)
+    lines += uncertainty_lines(r)
     lines += derived_lines(r)
     lines += formulation_lines(r)
     lines += constants_section(r)

@@ -22,6 +22,8 @@ from ._provenance import constants_used, ion_pairs, override_warnings
 from ._redox import redox_summary
 from ._speciation import Speciation
 from ._supersaturation import supersaturation_warnings
+from ._uncertainty import (ResultUncertainty, near_corrosive_notice, result_uncertainty,
+                           uncertainty_object)
 
 IMBALANCE_WARNING = 1e-6  # relative charge imbalance worth a warning with a fixed pH
 
@@ -85,6 +87,17 @@ class Result(Speciation):
         return recipe_in_grams(self, self.solution.water_kg, self.solution.volume_L)
 
     @cached_property
+    def uncertainty(self) -> ResultUncertainty:
+        """Uncertainty of pH, activities and saturation indices from the constants'
+        uncertainties (outputs/_uncertainty.py)."""
+        return result_uncertainty(self)
+
+    @property
+    def pH_uncertainty(self) -> float:
+        """Standard uncertainty of the pH from the constants (0 where the pH is fixed)."""
+        return self.uncertainty.pH
+
+    @cached_property
     def notices(self) -> list[Notice]:
         """Everything the reader should know about this result, as typed notices."""
         out = list(self.notes)
@@ -106,6 +119,7 @@ class Result(Speciation):
                     {"imbalance_mol_per_kg": imbalance, "scale_mol_per_kg": scale}))
         out.extend(override_warnings(self))
         out.extend(cautions(self))
+        out.extend(near_corrosive_notice(self, self.uncertainty))
         return out
 
     @property
@@ -117,9 +131,12 @@ class Result(Speciation):
     def species_rows(self) -> list[dict[str, Any]]:
         """One row per species, sorted by molality (largest first)."""
         order = np.argsort(-self.molality, kind="stable")
+        spread = self.uncertainty.log10_activity
         return [{"name": self.system.species[i], "charge": int(self.system.charge[i]),
                  "molality": float(self.molality[i]), "activity": float(self.activity[i]),
-                 "log_gamma": float(self.log10_gamma[i])} for i in order]
+                 "log_gamma": float(self.log10_gamma[i]),
+                 "log10_activity_uncertainty": spread[self.system.species[i]]}
+                for i in order]
 
     def to_dict(self) -> dict[str, Any]:
         """The JSON object of the command-line contract (see DESIGN.md)."""
@@ -128,6 +145,7 @@ class Result(Speciation):
             "temperature_C": self.temperature_C,
             "activity_model": self.model.name,
             "pH": self.pH,
+            "pH_uncertainty": self.pH_uncertainty,
             "pe": self.pe,
             "Eh_V": self.Eh_V,
             "ionic_strength": self.ionic_strength,
@@ -143,6 +161,8 @@ class Result(Speciation):
             "species": self.species_rows(),
             "totals": {c: float(self.totals.get(c, 0.0)) for c in self.system.components},
             "saturation_indices": self.saturation_indices,
+            "uncertainty": uncertainty_object(self),
+            "uncertainty_contributors": self.uncertainty.contributors,
             "distribution": self.distribution(),
             "iterations": int(self.equilibrium.iterations[0]),
             "residual": float(self.equilibrium.residual[0]),
@@ -159,13 +179,15 @@ class Result(Speciation):
     def to_frame(self):
         """Species as a pandas DataFrame indexed by name (pandas imported only here).
 
-        The solution's own quantities (pH, ionic strength and buffer capacity per kg and
+        Each species' row has its ``log10_activity_uncertainty`` (from the constants).
+        The solution's own quantities (pH and its uncertainty, ionic strength and buffer capacity per kg and
         per litre, osmolality, water activity, conductivity) are in ``frame.attrs``.
         """
         import pandas as pd
 
         frame = pd.DataFrame(self.species_rows()).set_index("name")
-        frame.attrs.update({"pH": self.pH, "pe": self.pe, "Eh_V": self.Eh_V,
+        frame.attrs.update({"pH": self.pH, "pH_uncertainty": self.pH_uncertainty,
+                            "pe": self.pe, "Eh_V": self.Eh_V,
                             "temperature_C": self.temperature_C,
                             **self.buffer,
                             "osmolality_mOsm_per_kg": self.osmolality_mOsm_per_kg,

@@ -37,6 +37,11 @@ class Speciation:
     makeups: list[Makeup]
     notes: list[Notice] = field(default_factory=list)
     phases: dict[str, Any] = field(default_factory=dict)  # solids and gases: phases.py
+    state: Any = None    # the batch (PhaseEquilibrium) this result is sample `sample` of
+    sample: int = 0
+    # checks of the uncertainty a design tool added (the spread between activity models,
+    # a Monte Carlo check): JSON objects by name, and the lines the report shows
+    uncertainty_checks: dict[str, Any] = field(default_factory=dict)
 
     # -- numbers ----------------------------------------------------------------------
     @property
