@@ -26,6 +26,7 @@ import numpy as np
 from ..chemistry._formula import parse_formula
 from ..chemistry._redox import ELECTRON, eh_from_pe
 from ..core._phases import phase_reaction
+from ..core._saturation import saturation_indices
 from ..engine._compiled import CompiledRecipe
 from ..engine._solve import compile_recipe
 from ..errors import RecipeError, names_its_arguments
@@ -37,6 +38,8 @@ from ._sweep import _points, _range
 #: Gases that set a redox level themselves: a diagram holds pe, so they cannot be kept.
 REDOX_GASES = ("O2(g)", "H2(g)")
 NOT_SOLVED = -1
+#: A solid left out of a one-solid solve is undersaturated there up to this SI.
+SETTLED_SI = 1e-6
 
 
 @dataclass
@@ -76,18 +79,22 @@ def predominance(recipe: str | Path | Mapping[str, Any] | Recipe, element: str,
     fixed[:, 0] = -grid_ph.ravel()
     fixed[:, bench.system.components.index(ELECTRON)] = -grid_pe.ravel()
     totals = np.tile(bench.base, (grid_ph.size, 1))
-    state = bench.solve(totals, fixed=fixed)
-    names, solid, amounts, total = _carriers(bench, state, element)
-    winner = np.where(succeeded(state.status), np.argmax(amounts, axis=1), NOT_SOLVED)
+    names, solid = _candidates(bench, element)
+    amounts = _amounts(bench, bench.solve(totals, fixed=fixed), names, solid, element)
+    _settle_one_solid_at_a_time(bench, totals, fixed, amounts, names, solid, element)
+    solved = np.isfinite(amounts).all(axis=1)
+    winner = np.where(solved, np.argmax(np.nan_to_num(amounts, nan=-1.0), axis=1), NOT_SOLVED)
     used = np.unique(winner[winner >= 0])
     relabel = np.full(len(names), NOT_SOLVED)
     relabel[used] = np.arange(used.size)
     winner = np.where(winner >= 0, relabel[np.maximum(winner, 0)], NOT_SOLVED)
+    total = sum(bench.tables.entry(c).elements.get(element, 0.0) * v
+                for c, v in bench.totals.items() if c != ELECTRON)
     t = bench.recipe.temperature_C
     return Predominance(
         element=element, pH=ph_axis, pe=pe_axis, names=tuple(names[i] for i in used),
         solid=tuple(solid[i] for i in used), winner=winner.reshape(grid_ph.shape),
-        total_mol_per_kg=total, t_C=t,
+        total_mol_per_kg=float(total), t_C=t,
         title=bench.recipe.title or Path(bench.recipe.origin).stem,
         upper_water_pe=_water_limit(bench, "O2(g)", t) - ph_axis,
         lower_water_pe=_water_limit(bench, "H2(g)", t) - ph_axis)
@@ -113,29 +120,61 @@ def _bench(recipe, solids: Sequence[str], registry: Registry | None) -> Compiled
                              registry)
 
 
-def _carriers(bench: CompiledRecipe, state, element: str):
-    """Names, solid flags, amounts of *element* (n, k) in each species and solid, and the
-    recipe's total of the element (mol/kg)."""
-    tables, system = bench.tables, bench.system
-    names, solid, columns = [], [], []
-    for i, name in enumerate(system.species):
-        atoms = tables.entry(name).elements.get(element, 0.0)
-        if atoms:
-            names.append(name)
-            solid.append(False)
-            columns.append(atoms * state.equilibrium.molality[:, i])
-    for k, reaction in enumerate(state.solids):
-        atoms = parse_formula(tables.solids[reaction.name].formula).elements.get(element, 0.0)
-        if atoms:
-            names.append(reaction.name)
-            solid.append(True)
-            columns.append(atoms * np.maximum(-state.dissolved[:, k], 0.0))
+def _candidates(bench: CompiledRecipe, element: str) -> tuple[list[str], list[bool]]:
+    """The species and the recipe's solids that hold *element*, and which are solids."""
+    tables = bench.tables
+    names = [n for n in bench.system.species if tables.entry(n).elements.get(element)]
+    solids = [s.name for s in bench.choice.solids
+              if parse_formula(tables.solids[s.name].formula).elements.get(element)]
     if not names:
         raise RecipeError("element", f"{element!r}: the recipe holds no species of it",
                           "dissolve an ingredient with that element, e.g. FeCl2 for Fe")
-    total = sum(tables.entry(c).elements.get(element, 0.0) * v
-                for c, v in bench.totals.items() if c != ELECTRON)
-    return names, solid, np.stack(columns, axis=1), float(total)
+    return [*names, *solids], [False] * len(names) + [True] * len(solids)
+
+
+def _amounts(bench: CompiledRecipe, state, names: list[str], solid: list[bool],
+             element: str) -> np.ndarray:
+    """mol/kg of *element* in each of *names* (n, k) in *state*; NaN rows where the solve
+    failed. Solids the state does not hold count zero."""
+    tables, n = bench.tables, state.equilibrium.molality.shape[0]
+    species = {name: i for i, name in enumerate(bench.system.species)}
+    held = {reaction.name: k for k, reaction in enumerate(state.solids)}
+    out = np.zeros((n, len(names)))
+    for j, (name, is_solid) in enumerate(zip(names, solid)):
+        if is_solid:
+            atoms = parse_formula(tables.solids[name].formula).elements[element]
+            if name in held:
+                out[:, j] = atoms * np.maximum(-state.dissolved[:, held[name]], 0.0)
+        else:
+            out[:, j] = (tables.entry(name).elements[element]
+                         * state.equilibrium.molality[:, species[name]])
+    out[~succeeded(state.status)] = np.nan
+    return out
+
+
+def _settle_one_solid_at_a_time(bench: CompiledRecipe, totals: np.ndarray, fixed: np.ndarray,
+                                amounts: np.ndarray, names: list[str], solid: list[bool],
+                                element: str) -> None:
+    """Fill the rows the joint solve left unsettled (NaN) from solves with one solid at a
+    time: with pH and pe held, the equilibrium is the one-solid solution under which every
+    other candidate solid is undersaturated (it is unique), or none when no solid forms."""
+    failed = np.flatnonzero(~np.isfinite(amounts).all(axis=1))
+    candidates = [name for name, s in zip(names, solid) if s]
+    if failed.size == 0 or not candidates:
+        return
+    for only in [None, *candidates]:
+        phases = {**bench.recipe.phases, "solids": {} if only is None else {only: "may-form"}}
+        single = CompiledRecipe.of(replace(bench.recipe, phases=phases), bench.registry)
+        state = single.solve(totals[failed], fixed=fixed[failed])
+        eq = state.equilibrium
+        si = saturation_indices(single.system, single.tables, eq.log_activity,
+                                eq.ln_water_activity, state.t_C, candidates)
+        others = [v for name, v in si.items() if name != only]
+        stable = np.logical_and.reduce([v <= SETTLED_SI for v in others]) if others \
+            else np.ones(failed.size, dtype=bool)
+        found = _amounts(single, state, names, solid, element)
+        take = stable & np.isfinite(found).all(axis=1) & ~np.isfinite(amounts[failed]).all(axis=1)
+        amounts[failed[take]] = found[take]
 
 
 def _water_limit(bench: CompiledRecipe, gas: str, t_C: float) -> float:

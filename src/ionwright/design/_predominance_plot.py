@@ -52,12 +52,10 @@ def predominance_figure(diagram: Predominance) -> Figure:
     eh.set_ylabel("Eh (V against the standard hydrogen electrode)", color=INK)
     ax.tick_params(colors=INK)
     ax.grid(True, color=GRID, linewidth=0.5, alpha=0.6)
+    unsolved = "; white: not solved" if np.any(diagram.winner == NOT_SOLVED) else ""
     ax.set_title(f"{diagram.element}: pe–pH predominance, {diagram.title}\n"
                  f"total {diagram.element} {diagram.total_mol_per_kg:.3g} mol/kg, "
-                 f"{diagram.t_C:g} °C", fontsize=11, color=INK, loc="left")
-    if np.any(diagram.winner == NOT_SOLVED):
-        ax.text(0.99, 0.01, "white: not converged", transform=ax.transAxes, ha="right",
-                va="bottom", fontsize=8, color=INK)
+                 f"{diagram.t_C:g} °C{unsolved}", fontsize=11, color=INK, loc="left")
     return fig
 
 
@@ -76,7 +74,9 @@ def _label(ax, diagram: Predominance, i: int) -> None:
     row, col = np.unravel_index(np.argmax(depth), depth.shape)
     name = pretty_name(diagram.names[i]) + (" (s)" if diagram.solid[i] else "")
     size = 11 if depth[row, col] > 6 else 8
-    ax.text(diagram.pH[col], diagram.pe[row], name, ha="center", va="center",
+    across = col / max(inside.shape[1] - 1, 1)   # keep the text inside the frame
+    align = "left" if across < 0.15 else "right" if across > 0.85 else "center"
+    ax.text(diagram.pH[col], diagram.pe[row], name, ha=align, va="center",
             fontsize=size, color=INK, fontweight="bold" if diagram.solid[i] else "normal")
 
 
