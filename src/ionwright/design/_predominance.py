@@ -184,6 +184,6 @@ def _water_limit(bench: CompiledRecipe, gas: str, t_C: float) -> float:
         raise RecipeError("tables", f"no {gas} in the recipe's tables",
                           'add the bundled "redox" table to tables')
     electrons = reaction.stoichiometry[bench.system.components.index(ELECTRON)]
-    log_k = float(reaction.log10_k(np.array([t_C]))[0])
+    log10_k = float(reaction.log10_k(np.array([t_C]))[0])
     # log K = −ν_H pH − ν_e pe at a(H2O) = 1 and 1 atm; both gases carry ν_H = ν_e
-    return -log_k / electrons
+    return -log10_k / electrons
