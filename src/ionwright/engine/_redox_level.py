@@ -6,16 +6,18 @@ from __future__ import annotations
 
 from ..chemistry._redox import holds_electron
 from ..chemistry._tableset import TableSet
-from ..core._phases import PhaseChoice
+from ..core._phases import MAY_FORM, PhaseChoice
 from ..errors import RecipeError
 from ..inputs._recipe import Recipe
 
 
 def states_redox_level(recipe: Recipe, choice: PhaseChoice, tables: TableSet) -> bool:
     """True when *recipe* links oxidation states; refuse a level stated twice, and solids
-    holding electrons (pyrolusite) with nothing to hold the level."""
+    holding electrons (pyrolusite) put in with nothing to hold the level (one that may
+    form is left out without a level, like any solid whose components are absent)."""
     gases = [g.name for g in choice.gases if holds_electron(tables, g.name, "gases")]
-    solids = [s.name for s in choice.solids if holds_electron(tables, s.name, "solids")]
+    solids = [s.name for s in choice.solids
+              if s.mode != MAY_FORM and holds_electron(tables, s.name, "solids")]
     fixed = ["[fix] " + (recipe.redox_level or "pe")] if "pe" in recipe.fix else []
     levels = [*fixed, *(f"[gases] {g}" for g in gases)]
     if len(levels) > 1:

@@ -3,4 +3,4 @@
 To add a subcommand, write a module here and add its name to :data:`COMMANDS`.
 """
 
-COMMANDS = ("solve", "demo", "tables", "target", "buffer", "sweep", "batch")
+COMMANDS = ("solve", "demo", "tables", "target", "buffer", "sweep", "batch", "diagram")
