@@ -56,8 +56,8 @@ def test_iron_at_its_standard_potential():
 def test_o2_water_couple(redox):
     """O2(g) + 4H+ + 4e- = 2H2O, E° = 1.229 V (CRC electrochemical series from Bard,
     Parsons & Jordan 1985; re-read): the O2(aq) species and the O2(g) Henry constant."""
-    log_k = redox.gases["O2(g)"].logk.log10_k - redox.species["O2"].logk.log10_k
-    assert log_k * SLOPE_25 / 4 == pytest.approx(1.229, abs=0.0005)
+    log10_k_sum = redox.gases["O2(g)"].logk.log10_k - redox.species["O2"].logk.log10_k
+    assert log10_k_sum * SLOPE_25 / 4 == pytest.approx(1.229, abs=0.0005)
 
 
 def test_iron_couple(redox):
@@ -97,8 +97,8 @@ def test_arsenic_couple(redox):
 def test_pyrolusite_against_the_series(redox):
     """MnO2 + 4H+ + 2e- = Mn2+ + 2H2O, E° = 1.224 V (CRC electrochemical series)
     # from memory"""
-    log_k = redox.solids["pyrolusite"].logk.log10_k
-    assert log_k * SLOPE_25 / 2 == pytest.approx(1.224, abs=0.002)
+    log10_k_sum = redox.solids["pyrolusite"].logk.log10_k
+    assert log10_k_sum * SLOPE_25 / 2 == pytest.approx(1.224, abs=0.002)
 
 
 def test_sulfate_sulfide_couple(redox):
@@ -110,16 +110,16 @@ def test_sulfate_sulfide_couple(redox):
 def test_nitrate_ammonium_couple(redox):
     """NO3- + 10H+ + 8e- = NH4+ + 3H2O, log10 K = 119.07 (pe° 14.88, Stumm & Morgan 1996,
     table 8.1)  # from memory; the table's NH3 couple plus NH3 + H+ = NH4+ of core."""
-    log_k = redox.couples["NH3"].logk.log10_k + redox.species["NH4+"].logk.log10_k
-    assert log_k == pytest.approx(119.07, abs=0.1)
+    log10_k_sum = redox.couples["NH3"].logk.log10_k + redox.species["NH4+"].logk.log10_k
+    assert log10_k_sum == pytest.approx(119.07, abs=0.1)
 
 
 def test_hydrogen_electrode_is_zero_at_every_temperature(redox):
     """H2(g) = 2H+ + 2e- has log10 K = 0 at every temperature (the convention of Eh)."""
     t = np.array([0.0, 25.0, 60.0])
-    log_k = (log10_k_at(redox.gases["H2(g)"].logk, t)
+    log10_k_sum = (log10_k_at(redox.gases["H2(g)"].logk, t)
              - log10_k_at(redox.species["H2"].logk, t))
-    np.testing.assert_allclose(log_k, 0.0, atol=1e-12)
+    np.testing.assert_allclose(log10_k_sum, 0.0, atol=1e-12)
 
 
 # -- dissolved oxygen and reference electrodes --------------------------------------------------
