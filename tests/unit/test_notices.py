@@ -79,3 +79,31 @@ def test_far_beyond_a_models_range_the_numbers_are_called_meaningless():
     near = ionwright.solve({"dissolve": {"NaCl": 1.0}})
     (notice,) = [n for n in near.notices if n.code == "model-range"]
     assert "less certain" in notice.text and "not meaningful" not in notice.text
+
+
+def test_a_narrowed_range_says_why_in_the_notice_and_the_explained_listing():
+    """The boric-acid pK is claimed from 5 °C (core.toml says why): at 0 °C the notice
+    and the constants listing quote the reason."""
+    result = ionwright.solve({"dissolve": {"borax": 0.01}, "temperature_C": 0.0})
+    ranged = [n for n in result.notices if n.code == "temperature-range"]
+    assert [n.data["entry"] for n in ranged] == ["B(OH)3"]
+    assert "borax pH standard" in ranged[0].text and "used at 0 °C" in ranged[0].text
+    assert not [n for n in ionwright.solve({"dissolve": {"borax": 0.01},
+                                            "temperature_C": 5.0}).notices
+                if n.code == "temperature-range"]
+
+
+def test_a_model_limit_for_some_temperatures_warns_only_there():
+    """Davies's Na+/HPO4^2- limit applies above 45 °C (activity/_measured_ranges.py)."""
+    recipe = {"dissolve": {"KH2PO4": 0.008695, "Na2HPO4": 0.03043}}
+    warm = ionwright.solve({**recipe, "temperature_C": 50.0})
+    said = [n.text for n in warm.notices if n.code == "activity-model"]
+    assert len(said) == 1 and "at 45–100 °C" in said[0] and "phosphate pH standards" in said[0]
+    for t_C in (25.0, 44.0):
+        assert not [n for n in ionwright.solve({**recipe, "temperature_C": t_C}).notices
+                    if n.code == "activity-model"]
+    # the batch path flags the same rows
+    frame = pd.DataFrame({"KH2PO4": [0.008695] * 2, "Na2HPO4": [0.03043] * 2,
+                          "temperature_C": [25.0, 50.0]})
+    notes = ionwright.solve_batch(frame)["message"].fillna("").tolist()
+    assert "HPO4^2-" not in notes[0] and "HPO4^2-" in notes[1]

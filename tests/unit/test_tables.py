@@ -176,3 +176,17 @@ def test_a_solid_dissolving_into_a_formed_species_divides_by_its_formation_const
     res = tables.resolve("sodium_hydroxide", "solids")
     assert res.stoichiometry == {"Na+": 1.0, "H2O": 1.0, "H+": -1.0}
     assert sum(m * lk.log10_k for _, m, lk in res.terms) == pytest.approx(15.5)
+
+
+def test_range_reason_needs_text_and_a_range(make_table):
+    extra = '''
+        [species.X1]
+        formula = "NaCl"
+        from = { "Na+" = 1, "Cl-" = 1 }
+        log10_k = 0.5
+        range_reason = "checked only here"
+        source = "test"
+    '''
+    with pytest.raises(TableError) as err:
+        make_table(extra)
+    assert any("range_reason must be text, beside a range_C" in p for p in err.value.problems)

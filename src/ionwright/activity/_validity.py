@@ -3,10 +3,12 @@
 A model states one ionic strength it holds to in general (``max_ionic_strength``) and
 may narrow it for particular kinds of solution: a :class:`ValidityLimit` names a cation
 and an anion (the salt whose measured mean activity coefficients showed the limit) and
-the ionic strength up to which the model stays within 3 % of them. The limit applies to
-a solution in which both ions carry at least :data:`SIGNIFICANT_SHARE` of the ionic
-strength; past it, the result warns, naming the model, the kind of solution and the
-range. Ions are matched by formula, so "Ca+2" and "Ca2+" are the same ion.
+the ionic strength up to which the model stays within 3 % of them (or, where the evidence
+is a pH standard, within its ±0.02 pH). The limit applies to a solution in which both
+ions carry at least :data:`SIGNIFICANT_SHARE` of the ionic strength and, for a limit
+that only some temperatures need (``applies_C``), at those temperatures; past it, the
+result warns, naming the model, the kind of solution and the range. Ions are matched by
+formula, so "Ca+2" and "Ca2+" are the same ion.
 """
 
 from __future__ import annotations
@@ -27,16 +29,30 @@ TOLERANCE_PERCENT = 3      # the agreement with measured γ± that a range promi
 @dataclass(frozen=True)
 class ValidityLimit:
     """The model holds to *max_ionic_strength* (mol/kg) where *cation* and *anion* are
-    main ions of the solution; *evidence* names the measurements that set it."""
+    main ions of the solution, at the temperatures *applies_C* (°C, inclusive; all by
+    default); *evidence* names the measurements that set it and *promise* what agreement
+    the range stands for."""
 
     cation: str
     anion: str
     max_ionic_strength: float
     evidence: str
+    applies_C: tuple[float, float] = (-50.0, 400.0)
+    promise: str = f"{TOLERANCE_PERCENT} % of measured mean activity coefficients"
 
     @property
     def label(self) -> str:
         return f"{self.cation} with {self.anion}"
+
+    @property
+    def temperatures(self) -> str:
+        """'' for a limit at every temperature, else ' at 45–100 °C'."""
+        lo, hi = self.applies_C
+        return "" if (lo, hi) == (-50.0, 400.0) else f" at {lo:g}–{hi:g} °C"
+
+    def applies(self, t_C: float | np.ndarray) -> bool | np.ndarray:
+        """Whether the limit is in force at *t_C* (one or many °C)."""
+        return (self.applies_C[0] <= t_C) & (t_C <= self.applies_C[1])
 
 
 def within(ionic_strength: float | np.ndarray, limit: float) -> bool | np.ndarray:
@@ -45,9 +61,12 @@ def within(ionic_strength: float | np.ndarray, limit: float) -> bool | np.ndarra
     return ionic_strength <= limit * (1.0 + RANGE_TOLERANCE)
 
 
-def exceeded_rows(limits, names, charges, molality: np.ndarray) -> np.ndarray:
+def exceeded_rows(limits, names, charges, molality: np.ndarray,
+                  t_C: float | np.ndarray | None = None) -> np.ndarray:
     """(n, r) booleans: sample n has both ions of limit r as main ions and an ionic
-    strength past it. *molality* is (n, s) over the species *names* with *charges*."""
+    strength past it, at a temperature the limit applies at. *molality* is (n, s) over
+    the species *names* with *charges*; *t_C* is one temperature or (n,) of them (None:
+    every limit applies)."""
     molality = np.atleast_2d(np.asarray(molality, dtype=float))
     charges = np.asarray(charges, dtype=float)
     share = 0.5 * molality * charges ** 2
@@ -60,6 +79,8 @@ def exceeded_rows(limits, names, charges, molality: np.ndarray) -> np.ndarray:
             continue
         main = np.minimum(share[:, cation], share[:, anion]) >= SIGNIFICANT_SHARE * strength
         out[:, r] = main & (strength > limit.max_ionic_strength * (1.0 + RANGE_TOLERANCE))
+        if t_C is not None:
+            out[:, r] &= limit.applies(np.asarray(t_C, dtype=float))
     return out
 
 
@@ -88,28 +109,31 @@ class StatedValidity:
     name: str
     validity: tuple[ValidityLimit, ...] = ()
 
-    def _exceeded(self, species, molality) -> tuple[list[ValidityLimit], float]:
+    def _exceeded(self, species, molality, t_C) -> tuple[list[ValidityLimit], float]:
         molality = np.asarray(molality, dtype=float)
-        flags = exceeded_rows(self.validity, species.names, species.charge, molality)[0]
+        flags = exceeded_rows(self.validity, species.names, species.charge, molality,
+                              t_C)[0]
         strength = float(0.5 * np.sum(molality * species.charge ** 2))
         return [limit for limit, hit in zip(self.validity, flags) if hit], strength
 
-    def beyond_fitted_range(self, species, molality) -> list[str]:
-        """Kinds of solution this composition is, past the range the model holds to."""
-        hits, _ = self._exceeded(species, molality)
-        return [f"{h.label} (within {TOLERANCE_PERCENT} % only to I ≈ "
+    def beyond_fitted_range(self, species, molality, t_C: float | None = None) -> list[str]:
+        """Kinds of solution this composition (at *t_C* °C; None: any temperature) is,
+        past the range the model holds to."""
+        hits, _ = self._exceeded(species, molality, t_C)
+        return [f"{h.label}{h.temperatures} (within {h.promise} only to I ≈ "
                 f"{h.max_ionic_strength:g})" for h in hits]
 
-    def validity_notes(self, species, molality) -> list[str]:
-        """A warning for each kind of solution this composition is past the range of."""
-        hits, strength = self._exceeded(species, molality)
+    def validity_notes(self, species, molality, t_C: float | None = None) -> list[str]:
+        """A warning for each kind of solution this composition (at *t_C* °C) is past
+        the range of."""
+        hits, strength = self._exceeded(species, molality, t_C)
         return [validity_message(self.name, h, strength) for h in hits]
 
 
 def validity_message(model: str, limit: ValidityLimit, strength: float) -> str:
     """The warning for a solution at ionic strength *strength* past *limit*."""
-    return (f"{model}: where {limit.label} are main ions, the model is within "
-            f"{TOLERANCE_PERCENT} % of measured mean activity coefficients only up to "
+    return (f"{model}: where {limit.label} are main ions{limit.temperatures}, the model is "
+            f"within {limit.promise} only up to "
             f"I ≈ {limit.max_ionic_strength:g} mol/kg ({limit.evidence}); this solution "
             f"is at I = {strength:.3g} mol/kg: treat activity coefficients and pH as "
             f"estimates, or use a model that holds here")

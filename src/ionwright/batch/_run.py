@@ -46,7 +46,7 @@ from ..outputs._cautions import (CORROSIVE_HIGH_PH, CORROSIVE_LOW_PH, CORROSIVE_
 from ..outputs._model_numbers import beyond_model_range, model_range_notice
 from ..errors import IonwrightError, RecipeError, UnknownNameError
 from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
-from ..activity._validity import TOLERANCE_PERCENT, exceeded_rows
+from ..activity._validity import exceeded_rows
 from ..core._system import (PROTON, WATER, ChemicalSystem, compile_system, constant_notice,
                             constant_outside, flat_constants_notice)
 from ..chemistry._density import Solute, ingredient_solute, volume_L_per_kg_water
@@ -626,11 +626,11 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
     flags.append(ok & beyond_model_range(model, ionic))
     limits = getattr(model, "validity", ())
     if limits:
-        hits = exceeded_rows(limits, system.species, system.charge, molality)
+        hits = exceeded_rows(limits, system.species, system.charge, molality, t)
         for r, rule in enumerate(limits):
-            texts.append(f"{model.name}: within {TOLERANCE_PERCENT} % only to I ≈ "
+            texts.append(f"{model.name}: within {rule.promise} only to I ≈ "
                          f"{rule.max_ionic_strength:g} mol/kg where {rule.label} are main "
-                         f"ions ({rule.evidence})")
+                         f"ions{rule.temperatures} ({rule.evidence})")
             flags.append(ok & hits[:, r])
     h_limit, oh_limit = corrosive_limits()
     texts.append(f"CAUTION: corrosive: hydrogen-ion activity at or above that of pH "

@@ -41,6 +41,8 @@ class LogK:
     and takes precedence over ``enthalpy_kJ`` (kJ/mol) and ``heat_capacity_J`` (J/(mol K));
     ``function`` names a temperature function of ionwright (``"water ionization"``: log10
     Kw of :func:`ionwright.chemistry.log10_kw`) and takes precedence over both.
+    ``range_reason`` says why ``range_C`` is narrower than the measurements behind it
+    (a published check the constant fails outside it); the range notice quotes it.
     """
 
     log10_k: float
@@ -51,6 +53,7 @@ class LogK:
     uncertainty: float | None = None
     function: str | None = None
     enthalpy_uncertainty_kJ: float | None = None
+    range_reason: str | None = None
 
     def problems(self, where: str) -> list[str]:
         """Every out-of-range or inconsistent field, as messages naming *where*."""

@@ -171,9 +171,10 @@ def constant_notice(name: str, logk: LogK, used: str = "") -> Notice:
     if logk.range_C is None:
         return flat_constants_notice([name], used)
     at = f"; used at {used} °C" if used else ""
+    why = f" ({logk.range_reason})" if logk.range_reason else ""
     lo, hi = logk.range_C
     return Notice(VALIDITY, "temperature-range",
-                  f"log K of {name!r} is known for {lo:g}–{hi:g} °C{at}",
+                  f"log K of {name!r} is known for {lo:g}–{hi:g} °C{why}{at}",
                   {"entry": name, "range_C": [lo, hi]})
 
 

@@ -28,7 +28,7 @@ from ..chemistry._records import Component, ConstantTable, LogK, Phase, Reagent,
 FORMAT_VERSION = 1
 
 _LOGK_KEYS = {"log10_k", "enthalpy_kJ", "heat_capacity_J", "analytic", "range_C", "uncertainty",
-              "enthalpy_uncertainty_kJ", "function"}
+              "enthalpy_uncertainty_kJ", "function", "range_reason"}
 _COMMON = {"source", "from_memory", "note", "formula"}
 _ALLOWED = {
     "components": _COMMON | {"ion_size", "tj_a", "tj_b", "setschenow"},
@@ -224,7 +224,11 @@ class _Builder:
             self.problems.append(f"{where}: function must be a name such as \"water ionization\"")
             function = None
         span = None if range_c is None else (range_c[0], range_c[1])
-        record = LogK(log10_k, dh, dcp, analytic, span, unc, function, dh_unc)
+        reason = entry.get("range_reason")
+        if reason is not None and (not isinstance(reason, str) or span is None):
+            self.problems.append(f"{where}: range_reason must be text, beside a range_C")
+            reason = None
+        record = LogK(log10_k, dh, dcp, analytic, span, unc, function, dh_unc, reason)
         problems = record.problems(where)
         self.problems.extend(problems)
         return None if problems else record

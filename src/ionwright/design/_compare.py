@@ -25,7 +25,7 @@ import numpy as np
 from ..errors import ConvergenceError
 from ..notices import CAUTION, of_category, texts
 from ..inputs._recipe import Recipe, read_recipe
-from ..outputs._model_numbers import osmotic_coefficient, water_activity
+from ..outputs._model_numbers import osmotic_coefficient, takes_temperature, water_activity
 
 from ..outputs._result import Result
 
@@ -63,7 +63,11 @@ def missing_parameters(model: Any, result: Result) -> list[str]:
 def beyond_fitted_range(model: Any, result: Result) -> list[str]:
     """Parameter sets the model uses past the range they were fitted to."""
     own = getattr(model, "beyond_fitted_range", None)
-    return list(own(result.system.properties, result.molality)) if own else []
+    if own is None:
+        return []
+    props = result.system.properties
+    return list(own(props, result.molality, t_C=result.temperature_C)
+                if takes_temperature(own) else own(props, result.molality))
 
 
 def _significant_ions(result: Result) -> list[int]:

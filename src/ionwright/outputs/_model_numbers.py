@@ -3,6 +3,7 @@ the model's own validity notes (the comparison of models builds on these)."""
 
 from __future__ import annotations
 
+import inspect
 from typing import Any
 
 import numpy as np
@@ -33,8 +34,20 @@ def osmotic_coefficient(result: Speciation) -> float | None:
 def model_validity_notes(result: Speciation) -> list[Notice]:
     """Notices the model itself gives about the solved composition (e.g. Pitzer fits)."""
     check = getattr(result.model, "validity_notes", None)
-    return wrap(check(result.system.properties, result.molality), VALIDITY,
-                "activity-model") if check else []
+    if check is None:
+        return []
+    notes = (check(result.system.properties, result.molality, t_C=result.temperature_C)
+             if takes_temperature(check) else check(result.system.properties, result.molality))
+    return wrap(notes, VALIDITY, "activity-model")
+
+
+def takes_temperature(check: Any) -> bool:
+    """Whether a model's validity check takes the temperature (``t_C``): the bundled
+    models' do; a plugin's written before temperature-limited ranges may not."""
+    try:
+        return "t_C" in inspect.signature(check).parameters
+    except (TypeError, ValueError):
+        return False
 
 
 def beyond_model_range(model: Any, ionic_strength: np.ndarray | float) -> np.ndarray | bool:

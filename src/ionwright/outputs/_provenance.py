@@ -52,6 +52,7 @@ def constants_used(result) -> list[dict[str, Any]]:
             **_logk_fields(record, t),
             "uncertainty": record.logk.uncertainty,
             "range_C": None if record.logk.range_C is None else list(record.logk.range_C),
+            "range_reason": record.logk.range_reason,
             "table": record.table,
             "table_origin": tables.table(record.table).origin,
             "source": tables.citation(record),
@@ -171,6 +172,7 @@ def explain(result) -> str:
              f"and gases; at 25 °C and at {t:g} °C)"]
     for e in constants_used(result):
         known = (f", known {e['range_C'][0]:g}–{e['range_C'][1]:g} °C" if e["range_C"] else "")
+        known += f" ({e['range_reason']})" if e["range_reason"] else ""
         spread = f" ± {e['uncertainty']:g}" if e["uncertainty"] is not None else ""
         lines += ["", f"{e['name']} ({e['kind']}): {e['reaction']}",
                   f"  log K {e['log10_k_25C']:g}{spread} at 25 °C, {e['log10_k_at_T']:.4f} at "
