@@ -55,6 +55,16 @@ def test_gypsum_solubility_in_water(model, t_C, request):
     assert dissolved("gypsum", model, t_C) == pytest.approx(expected, rel=_FEW_PERCENT)
 
 
+def test_the_truesdell_jones_gypsum_gap_is_said_on_the_result():
+    """The strict xfail at 60 °C must not be silent (activity/_measured_ranges.py)."""
+    def said(t_C: float) -> bool:
+        result = ionwright.solve({"activity_model": "truesdell-jones", "temperature_C": t_C,
+                                  "solids": {"gypsum": "equilibrate"}})
+        return any("gypsum's solubility" in n.text for n in result.notices)
+
+    assert said(60.0) and not said(50.0)
+
+
 def _crossing(model: str, lo: float = 25.0, hi: float = 60.0) -> float:
     """Temperature (°C) where gypsum and anhydrite are equally soluble, by bisection."""
     for _ in range(20):

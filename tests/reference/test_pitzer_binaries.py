@@ -17,6 +17,7 @@ import pytest
 from published_mean_activity import MORE_SALTS, SALTS, SaltData
 
 from ionwright.activity import PitzerModel
+import ionwright
 from ionwright.activity._base import SpeciesProperties
 from ionwright.data._pitzer_table import bundled_parameters
 
@@ -100,3 +101,13 @@ def test_magnesium_sulfate_molality_dependence_matches_the_table(m):
 
 def test_every_known_disagreement_names_a_tabulated_point():
     assert all(m in BY_NAME[name].gamma for name, m in KNOWN)
+
+
+def test_the_known_mgso4_disagreement_is_said_on_the_result():
+    """The MgSO4 strict xfails above must not be silent: the table marks the pair
+    (``disagrees``) and a solve with Mg2+ and SO4^2- as main ions warns."""
+    result = ionwright.solve({"activity_model": "pitzer", "dissolve": {"MgSO4": 0.5}})
+    assert any("Mg2+–SO4^2- parameters disagree" in n.text for n in result.notices)
+    minor = ionwright.solve({"activity_model": "pitzer",
+                             "dissolve": {"NaCl": 0.5, "MgSO4": 0.001}})
+    assert not any("disagree" in n.text for n in minor.notices)

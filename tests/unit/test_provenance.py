@@ -135,8 +135,8 @@ def test_constants_used_is_in_the_json_result_and_serialises(tmp_path):
     data = json.loads(json.dumps(result.to_dict(), ensure_ascii=False))
     assert data["constants_used"] == constants_used(result)
     assert {"name", "kind", "reaction", "log10_k_25C", "log10_k_at_T", "temperature_method",
-            "uncertainty", "range_C", "table", "table_origin", "source", "from_memory",
-            "note", "overrides"} == set(data["constants_used"][0])
+            "uncertainty", "range_C", "range_reason", "table", "table_origin", "source",
+            "from_memory", "note", "overrides"} == set(data["constants_used"][0])
 
 
 def test_text_report_has_a_short_constants_section(tmp_path):

@@ -39,8 +39,8 @@ from ..chemistry._water import WATER_MOLAR_MASS_G, osmotic_A_phi
 from ._base import LN10, SpeciesProperties
 from ._pairs import IonPairSet, LeftOut
 from ..data._parameter_tables import ParameterTable
-from ..data._pitzer_table import (DERIVATIVE_KEYS, PitzerParameters, bundled_parameters,
-                                  merged_parameters, parse_parameters)
+from ..data._pitzer_table import (DERIVATIVE_KEYS, CationAnion, PitzerParameters,
+                                  bundled_parameters, merged_parameters, parse_parameters)
 
 PITZER_B = 1.2                      # kg^½ mol^-½, Pitzer (1973)
 # J(x) ≈ x / (4 + C1 x^-C2 exp(−C3 x^C4)), Pitzer (1975); within about 1 % for x ≥ 0.1
@@ -533,6 +533,16 @@ class PitzerModel:
                 f"{salt:.3g} mol/kg)" for entry, salt, _ in self._fits(species, molality)
                 if salt > entry.max_molality]
 
+    def disagreeing_pairs(self, species: SpeciesProperties,
+                          molality: np.ndarray) -> list[CationAnion]:
+        """Binary entries that matter in *molality* and carry a published check they fail
+        (``disagrees`` in the table): the model is not trusted for them."""
+        params = self.parameters
+        ions, _ = _significant(params, species, molality)
+        pairs = [(c, a) for c, zc in ions for a, za in ions if zc > 0 > za]
+        return [params.binary[p] for p in pairs
+                if p in params.binary and params.binary[p].disagrees]
+
     def stretched_in_ionic_strength(self, species: SpeciesProperties,
                                     molality: np.ndarray) -> list[str]:
         """Pairs within their salt molality but used at an ionic strength past their fit.
@@ -572,6 +582,10 @@ class PitzerModel:
                        f"ions carry ≥ {100 * SIGNIFICANT_SHARE:g} % of the ionic strength; "
                        f"their interactions were taken as zero and the activity "
                        f"coefficients are uncertain")
+        for entry in self.disagreeing_pairs(species, molality):
+            out.append(f"pitzer: the {entry.label} parameters disagree with a published "
+                       f"check ({entry.disagrees}); treat the activity coefficients of "
+                       f"these ions as estimates")
         beyond = self.beyond_fitted_range(species, molality)
         if beyond:
             out.append(f"pitzer: past the fitted range of {'; '.join(beyond)}; the "

@@ -54,6 +54,7 @@ class CationAnion:
     d_dT: Mapping[str, float]        # per K, keys among beta0, beta1, beta2, c_phi
     source: str
     from_memory: bool = False
+    disagrees: str = ""              # a published check these parameters fail, if any
 
     @property
     def label(self) -> str:
@@ -161,7 +162,8 @@ class _ParameterReader:
     COMMON: ClassVar[set[str]] = {"source", "from_memory", "note"}
     KEYS: ClassVar[dict[str, set[str]]] = {
         "cation_anion": COMMON | {"cation", "anion", "beta0", "beta1", "beta2", "c_phi",
-                                  "alpha1", "alpha2", "max_molality", "d_dT", "d_dT_source"},
+                                  "alpha1", "alpha2", "max_molality", "d_dT", "d_dT_source",
+                                  "disagrees"},
         "like_charge": COMMON | {"ions", "theta"},
         "triplet": COMMON | {"ions", "psi"},
         "neutral_ion": COMMON | {"neutral", "ion", "lambda"},
@@ -311,7 +313,8 @@ class _ParameterReader:
             alpha1=alpha1, alpha2=alpha2, max_molality=max_m,
             d_dT=MappingProxyType({k: self._number(v, f"{where} d_dT.{k}")
                                    for k, v in d_dT.items()}),
-            source=str(e.get("source")), from_memory=bool(e.get("from_memory", False)))
+            source=str(e.get("source")), from_memory=bool(e.get("from_memory", False)),
+            disagrees=str(e.get("disagrees", "")))
 
     def _alphas(self, e: dict, zc: int, za: int, beta2: float, where: str) -> tuple[float, float]:
         """α1, α2 given in the entry, else the published defaults for its charge type."""
