@@ -102,3 +102,15 @@ def test_langelier_index_tracks_the_calcite_saturation_index():
     lsi = result.to_dict()["derived"]["langelier_index"]
     # LSI uses total calcium and alkalinity for free Ca and HCO3-: a little larger
     assert 0.0 < lsi - result.saturation_indices["calcite"] < 0.1
+
+
+def test_alkalinity_below_the_end_point_says_what_it_is():
+    """A citrate buffer at pH 4.4 has a proton-condition alkalinity (Dickson 1981) that a
+    titration to pH 4.5 cannot see: the report says so; above the end point it does not."""
+    from ionwright.outputs._derived import report_lines
+
+    acid = ionwright.solve({"dissolve": {"citric acid": 0.010, "trisodium citrate": 0.008}})
+    line = next(x for x in report_lines(acid) if "alkalinity" in x)
+    assert acid.pH < 4.5 and "below the 4.5 end point" in line
+    water = ionwright.solve({"dissolve": {"NaHCO3": 0.002}})
+    assert "end point" not in next(x for x in report_lines(water) if "alkalinity" in x)

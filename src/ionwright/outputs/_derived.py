@@ -19,6 +19,7 @@ from typing import Any
 
 import numpy as np
 
+from ..core._acid_base import ALKALINITY_END_POINT_PH
 from ._conventional_ph import conventional_pH_of
 from ._derived_ammonia import (NITROGEN, activity_corrected_fraction, as_nitrogen_mg_per_L,
                                emerson_fraction_of)
@@ -142,6 +143,15 @@ def solution_summary(result) -> dict[str, Any]:
                              "unit": c.unit, "note": c.note} for c in sol.conversions]}
 
 
+def _below_end_point(pH: float) -> str:
+    """A note for the alkalinity of a sample already below the titration end point: the
+    value is the proton-condition total, which a titration to that end point cannot see."""
+    if pH >= ALKALINITY_END_POINT_PH:
+        return ""
+    return (f" (proton-condition total, Dickson 1981; at pH {pH:.2f} the sample is below the "
+            f"{ALKALINITY_END_POINT_PH:g} end point, so a titration to it finds none)")
+
+
 def report_lines(result) -> list[str]:
     """The solution and derived-quantity sections of the text report."""
     from ..inputs._recipe import solution_of
@@ -162,7 +172,8 @@ def report_lines(result) -> list[str]:
               f"  pH, standards' scale       {d['pH_standards_scale']:8.3f} (what a meter "
               "calibrated with IUPAC/NIST buffers reads; Bates–Guggenheim convention)",
               f"  charge-balance error       {d['charge_balance_error_percent']:+8.2f} %",
-              f"  alkalinity                 {d['alkalinity_mg_per_L_as_CaCO3']:8.4g} mg/L as CaCO3",
+              f"  alkalinity                 {d['alkalinity_mg_per_L_as_CaCO3']:8.4g} mg/L as CaCO3"
+              + _below_end_point(result.pH),
               f"  hardness                   {d['hardness_mg_per_L_as_CaCO3']:8.4g} mg/L as CaCO3",
               f"  total dissolved solids     {d['tds_mg_per_L']:8.4g} mg/L ("
               + ("Standard Methods 1030E calculated sum" if d["tds_convention"] == TDS_CALCULATED
