@@ -107,3 +107,17 @@ def test_a_pitzer_result_past_its_fits_says_so():
     result = ionwright.solve({"activity_model": "pitzer", "dissolve": {"NaCl": 6.5}})
     assert any("past the fitted range of Na+–Cl-" in w for w in result.warnings)
     assert any("beyond the range of the pitzer model" in w for w in result.warnings)
+
+
+def test_the_comparison_table_marks_estimated_water_activity_and_fits_long_solid_names():
+    from ionwright.design._compare import compare_models
+
+    recipe = {"dissolve": {"KH2PO4": 0.02, "Na2HPO4": 0.03, "NaCl": 0.3}}
+    lines = compare_models(recipe).report().splitlines()
+    water = next(line for line in lines if line.startswith("a(H2O)"))
+    pitzer = ionwright.solve({**recipe, "activity_model": "pitzer"}).osmotic.water_activity
+    davies = ionwright.solve(recipe).osmotic.water_activity
+    assert f"≈{davies:.4f}" in water and water.rstrip().endswith(f" {pitzer:.4f}")
+    solid = next(line for line in lines if "dodecahydrate" in line)
+    header = next(line for line in lines if "davies*" in line)
+    assert len(solid.rstrip()) == len(header.rstrip())  # the columns stay aligned

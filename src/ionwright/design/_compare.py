@@ -25,7 +25,7 @@ import numpy as np
 from ..errors import ConvergenceError
 from ..notices import CAUTION, of_category, texts
 from ..inputs._recipe import Recipe, read_recipe
-from ..outputs._model_numbers import osmotic_coefficient, takes_temperature, water_activity
+from ..outputs._model_numbers import takes_temperature
 
 from ..outputs._result import Result
 
@@ -283,17 +283,25 @@ def _outcome_dict(o: ModelOutcome, key_species: tuple[str, ...]) -> dict[str, An
         entry.update({
             "pH": r.pH, "ionic_strength": r.ionic_strength,
             "log10_activity": {s: float(np.log10(r.species_activity(s))) for s in key_species},
-            "water_activity": water_activity(r),
-            "osmotic_coefficient": osmotic_coefficient(r),
+            "water_activity": r.osmotic.water_activity,
+            "osmotic_coefficient": r.osmotic.osmotic_coefficient,
+            "osmotic_method": r.osmotic.method,
             "saturation_indices": r.saturation_indices,
             "warnings": r.warnings,
         })
     return entry
 
 
+def _marked(result: Result, value: float) -> str:
+    """*value* to four decimals, with ≈ where it is a Gibbs–Duhem estimate rather than the
+    model's own water activity (outputs/_osmolality.py)."""
+    own = getattr(result.model, "provides_water_activity", False)
+    return f"{'' if own else '≈'}{value:.4f}"
+
+
 def _report(c: Comparison) -> str:
     widths = [max(9, len(o.name) + 3) for o in c.outcomes]
-    label = 24
+    label = max(24, *(len(s) + 4 for s in c.solids)) if c.solids else 24
 
     def row(name: str, cells: list[str]) -> str:
         return f"{name:<{label}}" + "".join(f"{cell:>{w}}" for cell, w in zip(cells, widths))
@@ -319,8 +327,11 @@ def _report(c: Comparison) -> str:
     for s in c.key_species:
         lines.append(row(f"log a({s})", numbers(lambda r, s=s: np.log10(r.species_activity(s)),
                                                 ".3f")))
-    lines.append(row("a(H2O)", numbers(water_activity, ".4f")))
-    lines.append(row("osmotic coefficient", numbers(osmotic_coefficient, ".4f")))
+    lines.append(row("a(H2O)", numbers(lambda r: _marked(r, r.osmotic.water_activity), "")))
+    lines.append(row("osmotic coefficient",
+                     numbers(lambda r: _marked(r, r.osmotic.osmotic_coefficient), "")))
+    lines.append("  (≈: estimated from the model's activity coefficients by Gibbs–Duhem; "
+                 "without ≈: the model's own water activity)")
     if c.solids:
         lines += ["", "saturation index"]
         for solid in c.solids:
