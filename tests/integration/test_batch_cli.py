@@ -195,3 +195,17 @@ def test_a_progress_line_at_intervals_when_stderr_is_a_file(capsys):
     assert len(lines) >= 3
     assert lines[0].startswith("ionwright batch: 250 rows of 1,000 (25 %)")
     assert "600 rows of 1,000 (60 %)" in lines[-1] and "rows/s" in lines[-1]
+
+
+def test_formulation_columns_from_the_command_line(tmp_path):
+    """--formulation adds osmolality, φ, a(H2O) and conductivity; a row past the
+    conductivity method's range says so in its message."""
+    source, target = tmp_path / "lotions.csv", tmp_path / "out.csv"
+    source.write_text("batch,NaCl\nA,0.15\nB,0.8\n", encoding="utf-8")
+    assert main(["batch", str(source), "-o", str(target), "--label", "batch",
+                 "--formulation", "--model", "pitzer", "--accept-partial"]) == 0
+    out = pd.read_csv(target)
+    assert 270 < out["osmolality [mOsm/kg]"][0] < 285  # 0.15 mol/kg NaCl: φ ≈ 0.93
+    assert (out["water activity"] < 1).all() and (out["conductivity [mS/cm]"] > 10).all()
+    assert "conductivity: past I = 0.5" in out["message"][1]
+    assert "conductivity" not in str(out["message"][0])

@@ -43,8 +43,8 @@ def readme_commands() -> list[str]:
     return lines
 
 
-# the files the README's commands name beside its recipe: an invented lake analysis and
-# two samples (demo data)
+# the files the README's commands name beside its recipe: an invented lake analysis,
+# samples, wells and lotion bases (demo data)
 ANALYSIS = ('title = "north basin"\n[analysis]\ntemperature_C = 12.0\npH = 7.6\n'
             'Ca = "46 mg/L"\nMg = "8.5 mg/L"\nNa = "9.2 mg/L"\nCl = "14 mg/L"\n'
             'SO4 = "22 mg/L"\nalkalinity = "128 mg/L as CaCO3"\n')
@@ -52,6 +52,7 @@ SAMPLES = "site,NaCl,CaCl2\ninlet,0.01,0.001\noutlet,0.02,0.002\n"
 WELLS = ("well,pH,Ca [mg/L],Mg [mg/L],Na [mg/L],Cl [mg/L],NO3 [mg/L as N],"
          "alkalinity [mg/L as CaCO3]\nnorth,7.6,46,8.5,9.2,14,<0.05,128\n"
          "south,7.9,38,,12,20,1.2,110\n")   # invented survey wells (issue 15)
+LOTIONS = "line,NaCl,KCl\nA,0.15,0.005\nB,0.3,0.01\n"   # invented lotion-line bases
 
 
 @pytest.mark.parametrize("command", readme_commands())
@@ -65,6 +66,7 @@ def test_every_readme_command_runs_as_written(command, tmp_path, monkeypatch, ca
     (tmp_path / "analysis.toml").write_text(ANALYSIS, encoding="utf-8")
     (tmp_path / "samples.csv").write_text(SAMPLES, encoding="utf-8")
     (tmp_path / "wells.csv").write_text(WELLS, encoding="utf-8")
+    (tmp_path / "lotions.csv").write_text(LOTIONS, encoding="utf-8")
     monkeypatch.chdir(tmp_path)
     status = main(shlex.split(command)[1:])
     out, err = capsys.readouterr()

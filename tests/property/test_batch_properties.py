@@ -95,3 +95,24 @@ def test_a_batch_rows_derived_quantities_are_the_single_solves(frame):
             else:
                 scale = 100.0 if key in PERCENT_KEYS else 1.0
                 assert value == pytest.approx(scale * expected, rel=1e-9, abs=1e-9), key
+
+
+@settings(max_examples=15)
+@given(frames(max_rows=5), st.sampled_from(["davies", "truesdell-jones", "pitzer"]))
+def test_a_batch_rows_formulation_columns_are_the_single_solves(frame, model):
+    """formulation=True: osmolality, φ, a(H2O) and conductivity of each converged row equal
+    the single solve's formulation numbers (same Gibbs–Duhem estimate or the model's own
+    water activity, same conductivity at the row's temperature)."""
+    out = ionwright.solve_batch(frame, model=model, formulation=True)
+    for k in range(len(frame)):
+        row = out.iloc[k]
+        if row["status"] != "converged":
+            continue
+        single = ionwright.solve({**_recipe(frame.iloc[k]), "activity_model": model})
+        assert row["osmolality [mOsm/kg]"] == pytest.approx(
+            single.osmotic.osmolality_mOsm_per_kg, rel=1e-9, abs=1e-9)
+        assert row["osmotic coefficient"] == pytest.approx(
+            single.osmotic.osmotic_coefficient, rel=1e-9)
+        assert row["water activity"] == pytest.approx(single.osmotic.water_activity, rel=1e-12)
+        assert row["conductivity [mS/cm]"] == pytest.approx(
+            single.conductivity_mS_per_cm, rel=1e-9, abs=1e-12)

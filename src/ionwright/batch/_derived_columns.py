@@ -19,7 +19,10 @@ from ..errors import RecipeError
 from ..outputs._derived import (NUMBER_KEYS, TDS_AUTO, check_tds_convention, derived_arrays,
                                 tds_is_calculated)
 from ..outputs._derived_ions import TDS_CALCULATED, TDS_SPECIES, ion_columns
+from ..outputs._conductivity import ROUGH_SHARE_NOTE, VALID_IONIC_STRENGTH, conductivity
+from ..outputs._osmolality import WATER_KG_PER_MOL, osmotic_coefficients
 from ..outputs._solved_samples import SolvedSamples
+from ..chemistry._formula import parse_formula
 
 #: Output column of each number of the ``"derived"`` object (fractions become percent).
 DERIVED_COLUMNS = {
@@ -57,17 +60,25 @@ def ion_equivalents_column(component: str) -> str:
     return f"{component} total [meq/L]"
 
 
+#: The formulation columns (``formulation=True``): the single result's formulation section.
+FORMULATION_COLUMNS = ("osmolality [mOsm/kg]", "osmotic coefficient", "water activity",
+                       "conductivity [mS/cm]")
+
+
 @dataclass(frozen=True)
 class DerivedOptions:
-    """What the caller chose: the TDS convention, the charge-balance threshold (%), and
-    whether ions come back in mg/L and meq/L."""
+    """What the caller chose: the TDS convention, the charge-balance threshold (%),
+    whether ions come back in mg/L and meq/L, and whether the formulation columns
+    (osmolality, water activity, conductivity) are wanted."""
 
     tds: str = TDS_AUTO
     balance_limit: float = CHARGE_BALANCE_LIMIT
     ions: bool = False
+    formulation: bool = False
 
 
-def derived_options(tds: str, balance_limit: float, ions: bool) -> DerivedOptions:
+def derived_options(tds: str, balance_limit: float, ions: bool,
+                    formulation: bool = False) -> DerivedOptions:
     """The :class:`DerivedOptions` of a call, checked (errors name the argument)."""
     check_tds_convention(tds)
     if isinstance(balance_limit, bool) or not isinstance(balance_limit, (int, float)) \
@@ -75,13 +86,15 @@ def derived_options(tds: str, balance_limit: float, ions: bool) -> DerivedOption
         raise RecipeError("balance_limit", f"{balance_limit!r} is not a percentage between "
                           "0 and 100", "give the charge-balance error (%) to flag rows at, "
                           "e.g. 5")
-    return DerivedOptions(tds, float(balance_limit), bool(ions))
+    return DerivedOptions(tds, float(balance_limit), bool(ions), bool(formulation))
 
 
 def derived_headers(components: tuple[str, ...], options: DerivedOptions) -> list[str]:
     """Every derived column, in output order, for a plan over *components*."""
     headers = [DERIVED_COLUMNS[k] for k in NUMBER_KEYS]
     headers += [TDS_CONVENTION_COLUMN, BALANCE_FLAG_COLUMN]
+    if options.formulation:
+        headers += list(FORMULATION_COLUMNS)
     if options.ions:
         for comp in components:
             if comp != "H+":
@@ -118,9 +131,33 @@ class DerivedTable:
                 self.columns[ion_mass_column(comp)][rows] = mg
                 if meq is not None:
                     self.columns[ion_equivalents_column(comp)][rows] = meq
+        formulation = self._fill_formulation(rows, samples) if self.options.formulation else []
         flags = [(f"DATA QUALITY: charge-balance error beyond ±{limit:g} % (see "
                   f"'{DERIVED_COLUMNS['charge_balance_error_percent']}'): an ion may be "
                   "missing or mismeasured; check the analysis before relying on the "
                   "results, and base decisions on measured values, local codes and "
                   "licensed practice", off)]
-        return flags + batch_caution_flags(samples)
+        return flags + formulation + batch_caution_flags(samples)
+
+    def _fill_formulation(self, rows: np.ndarray, samples: SolvedSamples
+                          ) -> list[tuple[str, np.ndarray]]:
+        """Osmolality, φ, a(H2O) and conductivity of *rows*, as the single result's
+        formulation section gives them; flags where the conductivity is rough."""
+        phi = osmotic_coefficients(samples.model, samples.system.properties, samples.molality,
+                                   samples.t_C, samples.ln_water_activity)
+        total = samples.molality.sum(axis=1)
+        osmolality, phi_col, water, kappa = (self.columns[h] for h in FORMULATION_COLUMNS)
+        osmolality[rows] = 1000.0 * phi * total
+        phi_col[rows] = phi
+        water[rows] = np.exp(-WATER_KG_PER_MOL * phi * total)
+        names = list(samples.system.species)
+        formulas = [parse_formula(samples.tables.entry(n).formula) for n in names]
+        found = conductivity(samples.molality, formulas, names, samples.t_C,
+                             samples.water_kg_per_L)
+        kappa[rows] = found.mS_per_cm
+        return [(f"conductivity: past I = {VALID_IONIC_STRENGTH:g} mol/kg the Onsager-type "
+                 "correction is unchecked; the value is rough, measure it",
+                 samples.ionic_strength > VALID_IONIC_STRENGTH),
+                (f"conductivity: more than {100 * ROUGH_SHARE_NOTE:g} % is carried by ions "
+                 "without a published limiting conductivity (counted with a rough 30 "
+                 "S cm²/eq); the value is an estimate", found.rough_share > ROUGH_SHARE_NOTE)]

@@ -30,7 +30,8 @@ def solve_batch(frame: pd.DataFrame | str | Path | Sequence[str | Path], *,
                 address: str | None = None, partition_rows: int = PARTITION_ROWS,
                 threads: int | None = None, registry: Registry | None = None,
                 tds: str = TDS_AUTO, balance_limit: float = CHARGE_BALANCE_LIMIT,
-                ions: bool = False, detection_limit: str = DEFAULT_DETECTION_POLICY,
+                ions: bool = False, formulation: bool = False,
+                detection_limit: str = DEFAULT_DETECTION_POLICY,
                 progress: ProgressCallback | None = None,
                 processes: bool = True) -> pd.DataFrame:
     """Speciate every row of *frame*; the input columns first, then the results.
@@ -71,6 +72,9 @@ def solve_batch(frame: pd.DataFrame | str | Path | Sequence[str | Path], *,
         Charge-balance error (%) beyond which a row is flagged (default 5).
     ions
         Also give each component's total in mg/L and meq/L.
+    formulation
+        Also give osmolality, osmotic coefficient, water activity and conductivity at the
+        row's temperature, as the formulation section of a single result does.
     detection_limit
         What a cell such as ``"<0.05"`` (below the detection limit) stands for:
         ``"zero"``, ``"half"`` (default) or ``"limit"``. A blank cell is "not analysed":
@@ -102,7 +106,7 @@ def solve_batch(frame: pd.DataFrame | str | Path | Sequence[str | Path], *,
         _check_frame(frame)
     options: dict[str, Any] = dict(species=None if species is None else list(species),
                                    model=model, tables=list(tables), labels=list(labels),
-                                   derived=derived_options(tds, balance_limit, ions),
+                                   derived=derived_options(tds, balance_limit, ions, formulation),
                                    detection_limit=detection_limit)
     check_policy(detection_limit)
     if files:

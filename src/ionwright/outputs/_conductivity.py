@@ -53,10 +53,12 @@ METHOD = ("limiting ionic conductivities (CRC, Lange) scaled with water's viscos
 
 @dataclass(frozen=True)
 class Conductivity:
-    """κ in mS/cm per sample, and the warnings that go with it."""
+    """κ in mS/cm per sample, the share of it carried by ions without a listed λ°, and
+    the warnings that go with them."""
 
     mS_per_cm: npt.NDArray[np.float64]       # (n,)
     notes: tuple[str, ...]
+    rough_share: npt.NDArray[np.float64]     # (n,)
 
 
 def conductivity(molality: npt.NDArray[np.float64], formulas: list[Formula],
@@ -73,8 +75,11 @@ def conductivity(molality: npt.NDArray[np.float64], formulas: list[Formula],
     lam = _corrected(lam0, z, c, t)
     carried = np.abs(z) * c * lam
     kappa = carried.sum(axis=1)
-    return Conductivity(kappa, tuple(_notes(m, carried, kappa, [names[i] for i in charged],
-                                            [formulas[i] for i in charged])))
+    charged_formulas = [formulas[i] for i in charged]
+    rough = [j for j, f in enumerate(charged_formulas) if not is_listed(f)]
+    share = carried[:, rough].sum(axis=1) / np.where(kappa > 0, kappa, 1.0)
+    return Conductivity(kappa, tuple(_notes(carried, kappa, share, [names[i] for i in charged],
+                                            rough)), share)
 
 
 def _corrected(lam0: np.ndarray, z: np.ndarray, c: np.ndarray, t: np.ndarray) -> np.ndarray:
@@ -114,13 +119,12 @@ def _counter_ions(lam0: np.ndarray, z: np.ndarray, c: np.ndarray
     return zbar, lambar
 
 
-def _notes(m: np.ndarray, carried: np.ndarray, kappa: np.ndarray, names: list[str],
-           formulas: list[Formula]) -> list[str]:
-    """Warnings for one or more samples: ions with a rough λ°, strength past the range."""
+def _notes(carried: np.ndarray, kappa: np.ndarray, share: np.ndarray, names: list[str],
+           rough: list[int]) -> list[str]:
+    """Warnings for one or more samples: ions with a rough λ° (at positions *rough* of
+    *names*, carrying *share* of the conductivity)."""
     notes = []
-    rough = [j for j, f in enumerate(formulas) if not is_listed(f)]
     if rough:
-        share = carried[:, rough].sum(axis=1) / np.where(kappa > 0, kappa, 1.0)
         if np.max(share) > ROUGH_SHARE_NOTE:
             listed = ", ".join(names[j] for j in rough
                                if np.max(carried[:, j] / np.where(kappa > 0, kappa, 1.0)) > 0.01)
@@ -148,4 +152,5 @@ def result_conductivity(result) -> Conductivity:
     formulas = [parse_formula(result.tables.entry(n).formula) for n in names]
     found = conductivity(result.molality[None, :], formulas, names,
                          np.array([result.temperature_C]), np.array([water_kg_per_L(result)]))
-    return Conductivity(found.mS_per_cm, found.notes + tuple(strength_note(result.ionic_strength)))
+    return Conductivity(found.mS_per_cm, found.notes + tuple(strength_note(result.ionic_strength)),
+                        found.rough_share)

@@ -87,6 +87,9 @@ def register(subparsers) -> None:
                         f"beyond this many percent (default {CHARGE_BALANCE_LIMIT:g})")
     parser.add_argument("--ions", action="store_true",
                         help="also give each ion's total in mg/L and meq/L")
+    parser.add_argument("--formulation", action="store_true",
+                        help="also give osmolality, osmotic coefficient, water activity and "
+                        "conductivity at each row's temperature")
     parser.add_argument("--detection-limit", choices=tuple(DETECTION_POLICIES),
                         default=DEFAULT_DETECTION_POLICY,
                         help="what a cell such as '<0.05' (below the detection limit) "
@@ -124,7 +127,8 @@ def run(args: argparse.Namespace) -> int:
     text = text_columns_of(first)   # read once: every chunk reads its columns alike
     options = dict(species=args.species, model=args.model, tables=args.tables,
                    labels=args.label, text_columns=text,
-                   derived=derived_options(args.tds, args.balance_limit, args.ions),
+                   derived=derived_options(args.tds, args.balance_limit, args.ions,
+                                           args.formulation),
                    detection_limit=args.detection_limit)
     try:
         with _stopped_by_signals(), BatchProgress(count_rows(source)) as bar, \
@@ -181,7 +185,8 @@ def _run_on_workers(args: argparse.Namespace) -> int:
                           "check the path or the glob pattern (quote it for the shell)")
     options = dict(species=args.species, model=args.model, tables=args.tables,
                    labels=args.label,
-                   derived=derived_options(args.tds, args.balance_limit, args.ions),
+                   derived=derived_options(args.tds, args.balance_limit, args.ions,
+                                           args.formulation),
                    detection_limit=args.detection_limit)
     started = time.perf_counter()
     with _stopped_by_signals(), BatchProgress(None) as bar, \
