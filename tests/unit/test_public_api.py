@@ -6,6 +6,8 @@ import inspect
 import subprocess
 import sys
 
+import pytest
+
 import ionwright
 
 
@@ -36,3 +38,11 @@ def test_importing_ionwright_loads_no_heavy_library():
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
                          check=True).stdout.strip()
     assert out == "[]"
+
+
+def test_species_are_found_by_any_spelling_and_unknown_ones_are_named():
+    result = ionwright.solve({"dissolve": {"FeCl3": 0.001, "CaCl2": 0.001}})
+    assert result.species_activity("Fe+3") == result.species_activity("Fe3+")
+    assert result.species_molality("Ca++") == result.species_molality("Ca2+")
+    with pytest.raises(ionwright.UnknownNameError, match="'Fe3\\+'"):
+        result.species_molality("Fe+4")

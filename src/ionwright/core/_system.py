@@ -21,7 +21,9 @@ from ..activity._pairs import FORMS_EVERY_SPECIES, IGNORED_COMPONENTS, IonPairSe
 from ._sparse import SparseRows
 from ..chemistry._records import LogK
 from ..chemistry._redox import ELECTRON
+from ..chemistry._names import canonical_name
 from ..chemistry._tableset import Resolved, TableSet
+from ..errors import UnknownNameError
 from ..notices import VALIDITY, Notice
 
 WATER = "H2O"
@@ -151,7 +153,19 @@ class ChemicalSystem:
         return ranged + ([flat_constants_notice(flat, _span(lo, hi))] if flat else [])
 
     def index(self, species: str) -> int:
-        return self.species.index(species)
+        """Position of *species* in :attr:`species`, written any way ionwright reads
+        (``Fe+3``, ``Fe3+``, ``Fe+++``); an unknown name is an error naming close ones."""
+        if species in self._positions:
+            return self._positions[species]
+        found = self._positions.get(canonical_name(species))
+        if found is None:
+            raise UnknownNameError("species", species, self.species,
+                                   "this result's species: see to_frame() or the JSON")
+        return found
+
+    @cached_property
+    def _positions(self) -> dict[str, int]:
+        return {name: i for i, name in enumerate(self.species)}
 
 
 def constant_outside(logk: LogK, t_C: np.ndarray) -> np.ndarray:
