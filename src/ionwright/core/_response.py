@@ -46,24 +46,30 @@ def jacobian(system, equilibrium: Equilibrium, bound, free: np.ndarray) -> np.nd
     ionic-strength condition in (ln a of the free components, √I), at the solution.
 
     Sums over species are added species by species in a fixed order (elementwise over
-    the samples), so a sample's Jacobian has the same bits alone or in any batch."""
-    conc = equilibrium.molality
+    the samples), so a sample's Jacobian has the same bits alone or in any batch. Only the
+    entries a species touches are updated, on a samples-last layout where each update is
+    one contiguous vector operation."""
+    conc = equilibrium.molality.T                      # (s, n): rows contiguous
     u = np.sqrt(np.maximum(equilibrium.ionic_strength, 0.0))
     nu_f = system.nu[:, free]
     z2 = system.charge ** 2
-    n, nf = conc.shape[0], nu_f.shape[1]
-    jac = np.zeros((n, nf + 1, nf + 1))
+    n, nf = conc.shape[1], nu_f.shape[1]
+    jac = np.zeros((nf + 1, nf + 1, n))
     exact = is_exact(bound)
-    cdg = conc * bound.d_ln_gamma_du(u) if exact else None
+    cdg = (conc * bound.d_ln_gamma_du(u).T) if exact else None
     for k in np.flatnonzero(np.any(nu_f != 0, axis=1) | (z2 != 0)):
-        c = conc[:, k, None]
-        jac[:, :nf, :nf] += c[:, :, None] * np.outer(nu_f[k], nu_f[k])[None]
+        c = conc[k]
+        touched = np.flatnonzero(nu_f[k])
+        for a in touched:
+            for b in touched:
+                jac[a, b] += c * (nu_f[k, a] * nu_f[k, b])
         if cdg is not None:
-            jac[:, :nf, nf] -= cdg[:, k, None] * nu_f[k][None]
-            jac[:, nf, :nf] += 0.5 * z2[k] * c * nu_f[k][None]
-            jac[:, nf, nf] -= 0.5 * z2[k] * cdg[:, k]
+            for a in touched:
+                jac[a, nf] -= cdg[k] * nu_f[k, a]
+                jac[nf, a] += 0.5 * z2[k] * c * nu_f[k, a]
+            jac[nf, nf] -= 0.5 * z2[k] * cdg[k]
     if cdg is not None:
-        jac[:, nf, nf] -= 2.0 * u
+        jac[nf, nf] -= 2.0 * u
     else:
-        jac[:, nf, nf] = -1.0
-    return jac
+        jac[nf, nf] = -1.0
+    return np.ascontiguousarray(jac.transpose(2, 0, 1))
