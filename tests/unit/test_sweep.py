@@ -8,6 +8,7 @@ import io
 import numpy as np
 import pytest
 
+import ionwright
 from ionwright.core import _solver as solver
 from ionwright.design import _sweep as sweep
 from ionwright.errors import RecipeError
@@ -127,3 +128,19 @@ def test_a_closed_sample_conserves_its_totals_when_warmed():
 def test_a_recipe_without_a_fixed_ph_says_its_sample_is_closed():
     warmed = sweep.temperature_series(ACETIC, "5:60", points=3)
     assert "warmed closed" in warmed.warnings[0]
+
+
+@pytest.mark.parametrize("model", ["davies", "pitzer"])
+def test_sweep_rows_carry_the_single_solves_osmolality_and_water_activity(model):
+    """The undiluted point's osmolality and a(H2O) are the single result's (Pitzer's own
+    water activity, the Gibbs–Duhem estimate for Davies); diluting lowers the osmolality
+    about in proportion (a dilution is by volume, so not exactly)."""
+    recipe = {"dissolve": {"citric acid": 0.05, "NaCl": 0.1}, "activity_model": model}
+    rows = ionwright.dilution(recipe, "1:4", points=5).rows()
+    single = ionwright.solve(recipe).osmotic
+    assert rows[0]["osmolality_mOsm_per_kg"] == pytest.approx(single.osmolality_mOsm_per_kg,
+                                                              rel=1e-8)
+    assert rows[0]["water_activity"] == pytest.approx(single.water_activity, rel=1e-10)
+    osmolality = [r["osmolality_mOsm_per_kg"] for r in rows]
+    assert all(a > b for a, b in zip(osmolality, osmolality[1:]))
+    assert osmolality[-1] / osmolality[0] == pytest.approx(0.25, rel=0.05)

@@ -48,6 +48,7 @@ from ..core._sensitivity import buffer_capacity, pH_change
 from ..inputs._units import expect, parse_quantity
 from ..chemistry._water import VALID_RANGE_C
 from ..core._saturation import saturation_indices
+from ..outputs._osmolality import WATER_KG_PER_MOL, osmotic_coefficients
 from ..outputs._uncertainty import Propagation, propagation
 
 DEFAULT_POINTS = 101
@@ -110,6 +111,24 @@ class Sweep:
         """Standard uncertainty of the saturation index of *solid* at each point."""
         return self._propagation.saturation_index(self.bench.tables, solid)
 
+    @cached_property
+    def osmotic_coefficient(self) -> np.ndarray:
+        """φ at each point: the model's own water activity, or the Gibbs–Duhem estimate
+        from its activity coefficients (outputs/_osmolality.py), as a single result."""
+        eq = self.state.equilibrium
+        return osmotic_coefficients(self.bench.model, self.bench.system.properties,
+                                    eq.molality, self.state.t_C, eq.ln_water_activity)
+
+    @property
+    def osmolality(self) -> np.ndarray:
+        """mOsm per kg of water at each point: 1000 φ Σm."""
+        return 1000.0 * self.osmotic_coefficient * self.state.equilibrium.molality.sum(axis=1)
+
+    @property
+    def water_activity(self) -> np.ndarray:
+        """a(H2O) = exp(−M_w φ Σm) at each point."""
+        return np.exp(-WATER_KG_PER_MOL * self.osmolality / 1000.0)
+
     def molality(self, species: str) -> np.ndarray:
         """Molality of *species* at each point (zero where one of its components is absent)."""
         system = self.bench.system
@@ -133,11 +152,14 @@ class Sweep:
         out = []
         u_pH = self.pH_uncertainty
         u_si = {name: self.saturation_uncertainty(name) for name in self.saturation}
+        osmolality, water = self.osmolality, self.water_activity
         for k, value in enumerate(self.values):
             row = {self.variable: float(value), "pH": float(self.pH[k]),
                    "pH_uncertainty": float(u_pH[k]),
                    "ionic_strength": float(self.ionic_strength[k]),
-                   "buffer_capacity_mol_per_kg_per_pH": float(self.beta[k])}
+                   "buffer_capacity_mol_per_kg_per_pH": float(self.beta[k]),
+                   "osmolality_mOsm_per_kg": float(osmolality[k]),
+                   "water_activity": float(water[k])}
             if self.slope is not None:
                 row[f"dpH_per_{self.variable.split('_', 1)[1]}"] = float(self.slope[k])
             for s in self.species:
