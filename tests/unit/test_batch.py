@@ -196,3 +196,21 @@ def test_a_hot_caustic_row_is_corrosive_as_a_single_solve_says():
 def test_an_empty_frame_gives_an_empty_result_with_the_output_columns():
     out = ionwright.solve_batch(pd.DataFrame({"NaCl": pd.Series([], dtype=float)}))
     assert len(out) == 0 and "status" in out.columns
+
+
+def test_rows_no_solution_could_hold_are_refused_as_a_single_solve_refuses_them():
+    """NaCl at 40 mol/kg with CaCl2 at 45 (a unit slip) is refused, not solved to pH −21;
+    a row past any model's ionic strength is refused; one far past the model's range is
+    solved and says its numbers mean nothing; the others are untouched."""
+    frame = pd.DataFrame({"NaCl": [0.1, 40.0, 3.0, 0.5], "CaCl2": [0.0, 45.0, 0.0, 30.0]})
+    out = ionwright.solve_batch(frame)
+    assert list(out["status"]) == ["converged", "invalid", "converged", "invalid"]
+    assert "halite would stand at" in out["message"][1]
+    assert "past 60" in out["message"][3]
+    assert "not meaningful" in out["message"][2]
+    for k in (1, 3):
+        with pytest.raises(ionwright.RecipeError):
+            ionwright.solve({"dissolve": {n: float(frame[n][k]) for n in frame
+                                          if frame[n][k] > 0}})
+    single = ionwright.solve({"dissolve": {"NaCl": 3.0}})
+    assert any("far beyond" in n.text for n in single.notices)

@@ -43,7 +43,8 @@ from ..core import _solver as solver
 from ..outputs._cautions import (CORROSIVE_HIGH_PH, CORROSIVE_LOW_PH, CORROSIVE_REFERENCE_C,
                                  DRINKING_WATER_ELEMENTS, corrosive_limits, corrosive_text,
                                  drinking_water_text)
-from ..outputs._model_numbers import beyond_model_range, model_range_notice
+from ..outputs._model_numbers import (beyond_model_range, far_beyond_model_range,
+                                      far_beyond_text, model_range_notice)
 from ..errors import IonwrightError, RecipeError, UnknownNameError
 from ..activity._pairs import FORMS_EVERY_SPECIES, IonPairSet, ion_pairs_of
 from ..activity._validity import exceeded_rows
@@ -65,6 +66,7 @@ from ..core._phases import _take
 from ..core._saturation import saturation_indices
 from ..outputs._uncertainty import batch_pH_uncertainty
 from ..inputs._checks import PLAUSIBLE_PH
+from ..inputs._solubility_limits import implausible_rows
 
 if TYPE_CHECKING:
     import pandas as pd
@@ -512,11 +514,30 @@ def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: st
     for rows in np.split(candidates[order], bounds):
         comps = [plan.components[j] for j in np.flatnonzero(present[rows[0]])]
         system = compile_system(tables, comps, ion_pairs_of(model))
+        kept = _refuse_implausible(system, rows, samples, plan, tables, out)
+        progress.advance(len(rows) - len(kept))
+        if not kept.size:
+            continue
+        rows = kept
         counter = progress.group(len(rows))
         _solve_group(system, rows, samples, plan, tables, model, bool(fixed[rows[0]]), out,
                      threads, counter.chunk)
         counter.close()
     return _with_gaps(out, samples.gaps)
+
+
+def _refuse_implausible(system: ChemicalSystem, rows: np.ndarray, samples: Samples,
+                        plan: Plan, tables: TableSet, out: Solved) -> np.ndarray:
+    """The *rows* left to solve once those no solution could hold (a soluble salt at ten
+    times its solubility product, or an ionic strength past any model) are marked invalid,
+    as a single solve refuses them (inputs/_solubility_limits.py)."""
+    cols = [plan.components.index(c) for c in system.components]
+    said = implausible_rows(system.components, system.strong_ion_charges, tables,
+                            samples.totals[rows][:, cols], samples.temperature[rows])
+    refused = np.array([bool(m) for m in said], dtype=bool)
+    for r, message in zip(rows[refused], np.array(said, dtype=object)[refused]):
+        out.message[r] = message
+    return rows[~refused]
 
 
 def _with_gaps(out: Solved, gaps: Gaps) -> Solved:
@@ -622,8 +643,9 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
     """
     texts: list[str] = []
     flags: list[np.ndarray] = []
-    texts.append(model_range_notice(model).text)
-    flags.append(ok & beyond_model_range(model, ionic))
+    far = far_beyond_model_range(model, ionic)
+    texts += [model_range_notice(model).text, far_beyond_text(model)]
+    flags += [ok & beyond_model_range(model, ionic) & ~far, ok & far]
     limits = getattr(model, "validity", ())
     if limits:
         hits = exceeded_rows(limits, system.species, system.charge, molality, t)

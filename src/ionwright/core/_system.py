@@ -164,6 +164,14 @@ class ChemicalSystem:
         return found
 
     @cached_property
+    def strong_ion_charges(self) -> dict[str, float]:
+        """Charges of the components no species protonates (Na+, Ca2+, Cl-, not H+ or
+        PO4^3-): whatever the pH, they stay ions, so their ionic strength is a floor."""
+        protonated = np.any((self.nu > 0) & (self.nu[:, [0]] > 0), axis=0)
+        return {c: float(self.charge[self.index(c)]) for j, c in enumerate(self.components)
+                if c != PROTON and not protonated[j]}
+
+    @cached_property
     def _positions(self) -> dict[str, int]:
         return {name: i for i, name in enumerate(self.species)}
 

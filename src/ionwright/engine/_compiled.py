@@ -144,7 +144,7 @@ class CompiledRecipe:
         where = f"{self.recipe.origin} [dissolve]"
         refuse_past_any_solubility(self.totals, self.tables, self.recipe.temperature_C,
                                    [(m.name, m.per_mole) for m in self.makeups], where)
-        refuse_past_any_ionic_strength(self.totals, self._strong_ion_charges(), where)
+        refuse_past_any_ionic_strength(self.totals, self.system.strong_ion_charges, where)
         t = self.recipe.temperature_C
         eq = solver.solve(self.system, self.base[None, :], _bound(self.model, self.system, t),
                           self.fixed()[None, :])
@@ -155,15 +155,6 @@ class CompiledRecipe:
                       makeups=self.makeups,
                       notes=[*eq.notes, *self.system.temperature_notes(np.array([t])),
                              *empty_note(self.recipe), *self._replacements()])
-
-    def _strong_ion_charges(self) -> dict[str, float]:
-        """Charges of the components no species protonates (Na+, Ca2+, Cl-, not H+ or
-        PO4^3-): whatever the pH, they stay ions, so their ionic strength is a floor."""
-        nu = self.system.nu
-        protonated = (nu > 0) & (nu[:, [0]] > 0)
-        return {c: float(self.system.charge[self.system.index(c)])
-                for j, c in enumerate(self.system.components)
-                if c != PROTON and not protonated[:, j].any()}
 
     def _replacements(self) -> list[Notice]:
         """Notices for plugins that replace a bundled model or table this recipe uses."""

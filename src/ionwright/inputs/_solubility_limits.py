@@ -93,3 +93,37 @@ def _problem(name: str, ions: Mapping[str, float], totals: Mapping[str, float], 
             f"at {10.0 ** si:.3g} × its solubility product even with every ion free and "
             f"ideal (it saturates near {saturation:.2g} mol/kg at {t_C:g} °C); no aqueous "
             f"solution holds that much")
+
+
+def implausible_rows(components: Sequence[str], strong_charges: Mapping[str, float],
+                     tables: TableSet, totals: np.ndarray, t_C: np.ndarray) -> list[str]:
+    """The two refusals above for *n* rows at once (a batch): *totals* (n, c) over
+    *components* at *t_C* (n,); "" for a row that passes, else why it is refused."""
+    n = totals.shape[0]
+    out = [""] * n
+    col = {c: j for j, c in enumerate(components)}
+    for name in sorted(tables.solids):
+        resolved = tables.resolve(name, "solids")
+        ions = {c: nu for c, nu in resolved.stoichiometry.items() if c != WATER}
+        if not ions or PROTON in ions or any(c not in col for c in ions):
+            continue
+        amounts = totals[:, [col[c] for c in ions]]
+        log10_ksp = np.zeros(n)
+        for _, m, lk in resolved.terms:
+            log10_ksp += m * log10_k_at(lk, t_C)
+        with np.errstate(divide="ignore"):
+            log_iap = np.log10(amounts) @ np.array(list(ions.values()), dtype=float)
+        for r in np.flatnonzero((log10_ksp >= SOLUBLE_LOG_K) & (log_iap - log10_ksp >= ABSURD_SI)):
+            if not out[r]:
+                row = {c: float(totals[r, col[c]]) for c in ions}
+                out[r] = _problem(name, ions, row, float(log_iap[r] - log10_ksp[r]),
+                                  float(log10_ksp[r]), float(t_C[r]), []) + (
+                    "; check each amount and its unit")
+    charge = np.array([strong_charges.get(c, 0.0) for c in components])
+    strength = 0.5 * np.clip(totals, 0.0, None) @ charge ** 2
+    for r in np.flatnonzero(strength > IONIC_STRENGTH_CEILING):
+        if not out[r]:
+            out[r] = (f"its ions give an ionic strength of at least {strength[r]:.3g} mol/kg, "
+                      f"past {IONIC_STRENGTH_CEILING:g}: no solution holds that much; check "
+                      "each amount and its unit")
+    return out

@@ -43,12 +43,26 @@ def beyond_model_range(model: Any, ionic_strength: np.ndarray | float) -> np.nda
 FAR_BEYOND = 10.0
 
 
+def far_beyond_model_range(model: Any, ionic_strength: np.ndarray | float
+                           ) -> np.ndarray | bool:
+    """Whether an ionic strength is more than :data:`FAR_BEYOND` times *model*'s range."""
+    return np.asarray(ionic_strength) > FAR_BEYOND * model.max_ionic_strength
+
+
+def far_beyond_text(model: Any) -> str:
+    """The batch row's words for a strength far beyond *model*'s range."""
+    return (f"ionic strength more than {FAR_BEYOND:g} times the range of the {model.name} "
+            f"model (up to about {model.max_ionic_strength:g} mol/kg): its activity "
+            "coefficients, and with them the pH and the saturation indices, are not "
+            "meaningful here; check the amounts, or use a model valid at this strength")
+
+
 def model_range_notice(model: Any, ionic_strength: float | None = None) -> Notice:
     """The notice for a solution beyond *model*'s stated range (*ionic_strength* None: the
     text shared by many samples); far beyond it, the numbers are called meaningless."""
     limit = model.max_ionic_strength
     data = {"model": model.name, "ionic_strength": ionic_strength, "limit": limit}
-    if ionic_strength is not None and ionic_strength > FAR_BEYOND * limit:
+    if ionic_strength is not None and far_beyond_model_range(model, ionic_strength):
         return Notice(VALIDITY, "model-range",
                       f"ionic strength {ionic_strength:.4g} mol/kg is far beyond the range "
                       f"of the {model.name} model (up to about {limit:g} mol/kg; here more "
