@@ -207,5 +207,5 @@ def test_formulation_columns_from_the_command_line(tmp_path):
     out = pd.read_csv(target)
     assert 270 < out["osmolality [mOsm/kg]"][0] < 285  # 0.15 mol/kg NaCl: φ ≈ 0.93
     assert (out["water activity"] < 1).all() and (out["conductivity [mS/cm]"] > 10).all()
-    assert "conductivity: past I = 0.5" in out["message"][1]
+    assert "conductivity: ionic strength past the 0.5" in out["message"][1]
     assert "conductivity" not in str(out["message"][0])

@@ -19,7 +19,7 @@ from ..errors import RecipeError
 from ..outputs._derived import (NUMBER_KEYS, TDS_AUTO, check_tds_convention, derived_arrays,
                                 tds_is_calculated)
 from ..outputs._derived_ions import TDS_CALCULATED, TDS_SPECIES, ion_columns
-from ..outputs._conductivity import ROUGH_SHARE_NOTE, VALID_IONIC_STRENGTH, conductivity
+from ..outputs._conductivity import conductivity
 from ..outputs._osmolality import WATER_KG_PER_MOL, osmotic_coefficients
 from ..outputs._solved_samples import SolvedSamples
 from ..chemistry._formula import parse_formula
@@ -142,7 +142,7 @@ class DerivedTable:
     def _fill_formulation(self, rows: np.ndarray, samples: SolvedSamples
                           ) -> list[tuple[str, np.ndarray]]:
         """Osmolality, φ, a(H2O) and conductivity of *rows*, as the single result's
-        formulation section gives them; flags where the conductivity is rough."""
+        formulation section gives them, with the conductivity's cautions as row flags."""
         phi = osmotic_coefficients(samples.model, samples.system.properties, samples.molality,
                                    samples.t_C, samples.ln_water_activity)
         total = samples.molality.sum(axis=1)
@@ -155,9 +155,4 @@ class DerivedTable:
         found = conductivity(samples.molality, formulas, names, samples.t_C,
                              samples.water_kg_per_L)
         kappa[rows] = found.mS_per_cm
-        return [(f"conductivity: past I = {VALID_IONIC_STRENGTH:g} mol/kg the Onsager-type "
-                 "correction is unchecked; the value is rough, measure it",
-                 samples.ionic_strength > VALID_IONIC_STRENGTH),
-                (f"conductivity: more than {100 * ROUGH_SHARE_NOTE:g} % is carried by ions "
-                 "without a published limiting conductivity (counted with a rough 30 "
-                 "S cm²/eq); the value is an estimate", found.rough_share > ROUGH_SHARE_NOTE)]
+        return list(found.flags)
