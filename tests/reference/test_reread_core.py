@@ -65,8 +65,8 @@ def test_amorphous_silica_heat_of_solution():
     # Same abstract: heat of solution 3.35 kcal/mol; van 't Hoff slope between 15 and 35 °C.
     low, high = _log10_k("amorphous silica", 15.0, "solids"), _log10_k(
         "amorphous silica", 35.0, "solids")
-    delta_h = (high - low) * math.log(10) * 8.314462618 / (1 / 288.15 - 1 / 308.15)
-    assert delta_h / 4184.0 == pytest.approx(3.35, abs=0.01)
+    heat_of_solution_J = (high - low) * math.log(10) * 8.314462618 / (1 / 288.15 - 1 / 308.15)
+    assert heat_of_solution_J / 4184.0 == pytest.approx(3.35, abs=0.01)
 
 
 def test_fluorite_log_ksp_nordstrom_2022():
