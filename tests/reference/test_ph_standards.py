@@ -148,8 +148,9 @@ def test_recalled_physiological_phosphate_agrees_with_the_nbs_values_quoted_by_r
 
 @pytest.mark.parametrize("t, pkw", [(25.0, 13.995), (0.0, 14.946), (50.0, 13.264)])
 def test_pure_water_is_neutral_at_half_pkw(t, pkw):
-    # Bandura, A.V. & Lvov, S.N. (2006) J. Phys. Chem. Ref. Data 35, 15, Table (pKw at
-    # 0.1 MPa): 14.946 (0 °C), 13.995 (25 °C), 13.264 (50 °C)   # from memory
+    # Bandura, A.V. & Lvov, S.N. (2006) J. Phys. Chem. Ref. Data 35, 15: pKw at 0.1 MPa
+    # 14.946 (0 °C), 13.995 (25 °C), 13.264 (50 °C), re-read in the CRC Handbook table
+    # "Ionization constant of water as a function of temperature and pressure" (05_20)
     from ionwright.chemistry._water import log10_kw
 
     for model in ("davies", "extended-debye-huckel"):
