@@ -34,10 +34,9 @@ _PHTHALATE_SIZES = ("HPhthalate- has no published ion size known to the table (t
                     "uses its 4 Å default) and the phthalic-acid pK2(T) is recalled: the "
                     "size-based models read 0.022–0.032 high, Davies (no sizes) is within "
                     "0.009")
-_PITZER = ("Pitzer's share of issue 12 belongs to the brines helper (issue 13): the bundled "
-           "parameters lack the K+ interactions with hydrogen tartrate, dihydrogen citrate and "
-           "hydrogen phthalate, and the phosphate and borate ones carry no temperature "
-           "derivatives; update these marks when the model changes")
+_PITZER = ("the bundled Pitzer parameters lack the K+ interactions with hydrogen tartrate "
+           "and dihydrogen citrate, and the phosphate and borate ones carry no temperature "
+           "derivatives (the result says both); update these marks when the model changes")
 _PHOSPHATE_50 = ("at 50 °C Davies leaves the 1:3.5 standard (most Na+ and HPO4^2-) 0.023 high "
                  "while the 1:1 standard stays within 0.013; the model's range for Na+ with "
                  "HPO4^2- above 45 °C says so")
@@ -53,8 +52,6 @@ KNOWN_GAPS: dict[tuple[str, str], tuple[frozenset | None, str]] = {
     ("truesdell-jones", "borax 0.01 m"): (frozenset({0.0}), _BORAX_0),
     ("pitzer", "tartrate (saturated at 25 °C)"): (frozenset({25.0, 30.0, 35.0, 37.0}), _PITZER),
     ("pitzer", "dihydrogen citrate 0.05 m"): (None, _PITZER),
-    ("pitzer", "hydrogen phthalate 0.05 m"): (frozenset({5.0, 10.0, 15.0, 20.0, 25.0, 30.0,
-                                                         35.0, 37.0, 40.0, 50.0}), _PITZER),
     ("pitzer", "phosphate 1:3.5 (0.008695 + 0.03043 m)"): (frozenset({50.0}), _PITZER),
     ("pitzer", "borax 0.01 m"): (frozenset({0.0}), _PITZER),
 }

@@ -105,3 +105,21 @@ def test_tables_check_is_callable_from_python(tmp_path):
                    encoding="utf-8")
     found = ionwright.check_table(bad)
     assert not found.ok and any("does not balance in charge" in p for p in found.problems)
+
+
+def test_an_ion_named_as_the_tables_name_it_takes_the_charge_its_name_ends_with():
+    """Organic ions are no formulas (HPhthalate-): a parameter table may name them as the
+    constant tables do; a name with no charge at all is still a problem."""
+    from ionwright.data._pitzer_table import parse_parameters
+    from ionwright.errors import TableError
+
+    head = ('[about]\nname = "lab"\nformat_version = 1\nreference_temperature_C = 25.0\n'
+            '[sources]\nlab = "our cells"\n')
+    entry = '[[cation_anion]]\ncation = "K+"\nanion = "{}"\nbeta0 = 0.1\nbeta1 = 0.0\n' \
+            'c_phi = 0.0\nsource = "lab"\n'
+    params = parse_parameters(head + entry.format("HPhthalate-"), "lab.toml")
+    assert params.binary["K+", "HPhthalate-"].z_anion == 1
+    assert parse_parameters(head + entry.format("Phthalate-2"), "lab.toml").binary[
+        "K+", "Phthalate^2-"].z_anion == 2
+    with pytest.raises(TableError, match="Phthalate"):
+        parse_parameters(head + entry.format("Phthalate"), "lab.toml")

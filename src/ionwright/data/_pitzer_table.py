@@ -24,7 +24,7 @@ else:  # pragma: no cover
 
 from ..errors import FormulaError, TableError
 from ..chemistry._formula import parse_formula
-from ..chemistry._names import canonical_name
+from ..chemistry._names import canonical_name, split_name
 
 FORMAT_VERSION = 1
 BUNDLED_FILE = "pitzer.toml"
@@ -261,12 +261,21 @@ class _ParameterReader:
         return float(value)
 
     def _charge(self, name: Any, where: str) -> int | None:
+        """The charge of species *name*: from its formula, or, for a name that is no
+        formula (``HPhthalate-``, as the constant tables name organic ions), from the
+        charge its name ends with."""
         if not isinstance(name, str):
             self.problems.append(f"{where}: {name!r} must be a species name")
             return None
         try:
             return parse_formula(name).charge
         except FormulaError as exc:
+            try:
+                body, charge, _ = split_name(name)
+            except FormulaError:
+                charge, body = 0, ""
+            if body and charge:
+                return charge
             self.problems.append(f"{where}: {exc.problem} in {name!r}")
             return None
 
