@@ -23,8 +23,9 @@ from ..chemistry._tableset import TableSet
 from ..chemistry._water import log10_kw
 from ..core._system import log10_k_at
 from ..notices import CAUTION, DATA_QUALITY, VALIDITY, Notice
-from ._derived_chlorine import (ammonia_nitrogen, as_cl2_mg_per_L, breakpoint_mass_ratio,
-                                combined_chlorine, free_chlorine, trichloramine_share)
+from ._derived_chlorine import (CHLORINE_TRACE, ammonia_nitrogen, as_cl2_mg_per_L,
+                                breakpoint_mass_ratio, combined_chlorine, free_chlorine,
+                                trichloramine_share)
 from ._solved_samples import SolvedSamples, samples_of_result, species_share
 from ._speciation import Speciation
 
@@ -126,7 +127,7 @@ def chlorine_cautions(result: Speciation) -> list[Notice]:
     ph = result.pH
     out = []
     free = float(free_chlorine(samples)[0])
-    if ph < CHLORINE_RELEASE_PH and np.isfinite(free):
+    if ph < CHLORINE_RELEASE_PH and free >= CHLORINE_TRACE:
         gas = _share_of(result, CHLORINE_GAS, free)
         out.append(Notice(
             CAUTION, "chlorine-release",
@@ -135,7 +136,7 @@ def chlorine_cautions(result: Speciation) -> list[Notice]:
             f"Cl2{_pressure(result, gas[1]) if gas[1] else ''}; never mix hypochlorite with "
             f"acid, ventilate, and {DEFER}", {"pH": ph, "Cl2_share": gas[0]}))
     combined = float(combined_chlorine(samples)[0])
-    if not np.isfinite(combined):
+    if not combined >= CHLORINE_TRACE:
         return out
     mg = float(as_cl2_mg_per_L(samples, np.array([combined]))[0])
     ncl3 = float(trichloramine_share(samples)[0])
@@ -310,12 +311,13 @@ def batch_caution_flags(samples: SolvedSamples) -> list[tuple[str, np.ndarray]]:
                         f"dissolved {formula} ({gas}), a toxic gas that escapes from the "
                         f"solution; acid releases more; ventilate, never acidify it, and "
                         f"{DEFER}", np.nan_to_num(share) >= VOLATILE_SHARE))
-    free = free_chlorine(samples)
-    if np.any(np.isfinite(free)):
+    with np.errstate(invalid="ignore"):
+        free = np.nan_to_num(free_chlorine(samples)) >= CHLORINE_TRACE
+        combined = np.nan_to_num(combined_chlorine(samples)) >= CHLORINE_TRACE
+    if np.any(free):
         out.append((f"CAUTION: hypochlorite below about pH {CHLORINE_RELEASE_PH:g} releases "
                      f"chlorine gas; never mix hypochlorite with acid, ventilate, and {DEFER}",
-                     np.isfinite(free) & (ph < CHLORINE_RELEASE_PH)))
-    combined = np.isfinite(combined_chlorine(samples))
+                     free & (ph < CHLORINE_RELEASE_PH)))
     if np.any(combined):
         out.append((f"CAUTION: hypochlorite with ammonia forms chloramines: "
                     f"{CHLORAMINE_GAS_TEXT}", combined))

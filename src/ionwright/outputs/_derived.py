@@ -202,8 +202,8 @@ def _chlorine_lines(d: dict[str, Any]) -> list[str]:
         free = d["free_chlorine_mg_per_L_as_Cl2"] or 0.0
         combined = d["combined_chlorine_mg_per_L_as_Cl2"] or 0.0
         lines.append(f"  chlorine, free / combined  {free:8.4g} / {combined:.4g} mg/L as Cl2 "
-                     f"(total {d['total_chlorine_mg_per_L_as_Cl2']:.4g}; equilibrium, see the "
-                     "notices)")
+                     f"(total {d['total_chlorine_mg_per_L_as_Cl2']:.4g}"
+                     + ("; an equilibrium estimate, see the notices)" if combined else ")"))
     if d["breakpoint_chlorine_mg_per_L_as_Cl2"] is not None:
         lines.append(f"  chlorine demand of ammonia {d['breakpoint_chlorine_mg_per_L_as_Cl2']:8.4g} "
                      f"mg/L as Cl2 (breakpoint, {breakpoint_mass_ratio():.2f} mg Cl2 per mg NH3-N, "

@@ -10,8 +10,9 @@ of 2 NH3 + 3 HOCl = N2 + 3 H+ + 3 Cl- + 3 H2O, 7.59 mg Cl2 per mg NH3-N (the "ab
 of practice); real demand runs higher (8–10 : 1) because some ammonia goes to nitrate
 and other reductants take chlorine too.  # common practice
 
-A sample whose chlorine is below :data:`CHLORINE_TRACE` reports none (NaN): with a redox
-level every chloride-bearing sample holds a trace of hypochlorite far below any test.
+A sample whose free and combined chlorine together are below :data:`CHLORINE_TRACE` reports
+none (NaN): with a redox level every chloride-bearing sample holds a trace of hypochlorite
+far below any test.
 
 References
 ----------
@@ -61,14 +62,23 @@ def weighted_molality(s: SolvedSamples, weights: dict) -> np.ndarray | None:
 
 
 def free_chlorine(s: SolvedSamples) -> np.ndarray:
-    """Free chlorine, mol "as Cl2" per kg water (n,); NaN without any above the trace."""
-    return _above_trace(weighted_molality(s, FREE_CHLORINE), s.n)
+    """Free chlorine, mol "as Cl2" per kg water (n,); NaN in samples without chlorine."""
+    return _where_chlorine(s, weighted_molality(s, FREE_CHLORINE))
 
 
 def combined_chlorine(s: SolvedSamples) -> np.ndarray:
-    """Combined chlorine (chloramines), mol "as Cl2" per kg water (n,); NaN without any
-    above the trace."""
-    return _above_trace(weighted_molality(s, COMBINED_CHLORINE), s.n)
+    """Combined chlorine (chloramines), mol "as Cl2" per kg water (n,); NaN in samples
+    without chlorine or a system without chloramines."""
+    return _where_chlorine(s, weighted_molality(s, COMBINED_CHLORINE))
+
+
+def holds_chlorine(s: SolvedSamples) -> np.ndarray:
+    """Which samples (n,) hold free and combined chlorine above :data:`CHLORINE_TRACE`."""
+    total = np.zeros(s.n)
+    for part in (weighted_molality(s, FREE_CHLORINE), weighted_molality(s, COMBINED_CHLORINE)):
+        if part is not None:
+            total = total + part
+    return total >= CHLORINE_TRACE
 
 
 def trichloramine_share(s: SolvedSamples) -> np.ndarray:
@@ -106,6 +116,12 @@ def chlorine_arrays(s: SolvedSamples) -> dict[str, np.ndarray]:
         "breakpoint_chlorine_mg_per_L_as_Cl2": as_cl2_mg_per_L(
             s, BREAKPOINT_CL2_PER_N * ammonia_nitrogen(s)),
     }
+
+
+def _where_chlorine(s: SolvedSamples, amount: np.ndarray | None) -> np.ndarray:
+    if amount is None:
+        return np.full(s.n, np.nan)
+    return np.where(holds_chlorine(s), amount, np.nan)
 
 
 def _above_trace(total: np.ndarray | None, n: int) -> np.ndarray:
