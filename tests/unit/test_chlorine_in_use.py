@@ -205,5 +205,6 @@ def test_batch_rows_carry_the_chlorine_cautions_row_by_row():
     assert "releases chlorine gas" in messages[0]
     assert "releases chlorine gas" not in messages[1] + messages[2]
     assert "forms chloramines" in messages[3] and "haemodialysis" in messages[3]
+    assert "kinetically controlled" in messages[3]
     assert "forms chloramines" not in "".join(messages[:3])
     assert out["combined chlorine [mg/L as Cl2]"].notna().tolist() == [False] * 3 + [True]

@@ -41,14 +41,13 @@ ANALYTE_NAMES = {
     "zinc": "Zn", "lead": "Pb", "cadmium": "Cd", "nickel": "Ni", "strontium": "Sr",
     "barium": "Ba", "lithium": "Li", "arsenic": "As",
 }
-#: Chlorine residuals, in mg/L "as Cl2" (one mol Cl2 per mol of Cl(+I)): the key, and
-#: what the amount stands for. Either is the total of free chlorine (OCl-) the equilibrium
+#: Chlorine residuals, in mg/L "as Cl2" (one mol Cl2 per mol of Cl(+I)), and the note a
+#: conversion carries. Either is the total of free chlorine (OCl-) that the equilibrium
 #: shares out between HOCl, OCl-, Cl2 and, with ammonia, the chloramines.
 CHLORINE_KEYS = {
-    "total_chlorine": "total chlorine (free and combined), the chlorine total the "
-                      "equilibrium shares out",
-    "free_chlorine": "free chlorine, taken as the chlorine total: with ammonia in the "
-                     "analysis the equilibrium turns part of it into chloramines (give "
+    "total_chlorine": "",
+    "free_chlorine": "free chlorine as Cl2 is taken as the chlorine total: with ammonia in "
+                     "the analysis the equilibrium turns part of it into chloramines (give "
                      "total_chlorine for such water)",
 }
 HYPOCHLORITE = parse_formula("ClO-")
@@ -115,7 +114,7 @@ def _chlorine(key: str, tables: TableSet, where: str) -> Analyte:
     if component is None:
         raise RecipeError(where, f"{key!r}: the tables have no free chlorine (hypochlorite) "
                           "component", 'add "chlorine" to the recipe\'s tables')
-    return Analyte(component, parse_formula("Cl2"), 1.0, f"as Cl2: {CHLORINE_KEYS[key]}")
+    return Analyte(component, parse_formula("Cl2"), 1.0, CHLORINE_KEYS[key])
 
 
 def check_states_used(states_given: Mapping[str, object], analytes: list[Analyte],

@@ -60,6 +60,11 @@ CHLORAMINE_GAS_TEXT = ("dichloramine and nitrogen trichloride (NCl3, which forms
                        "and high chlorine-to-ammonia ratios) are volatile, irritant and toxic "
                        "gases; never mix bleach with ammonia or ammonium-containing cleaners, "
                        f"ventilate, and {DEFER}")
+CHLORAMINE_KINETICS_TEXT = ("VALIDITY: chloramine speciation is kinetically controlled "
+                            "(formation in seconds to minutes, dichloramine and NCl3 slower, "
+                            "breakpoint oxidation over hours); these figures are the "
+                            "substitution equilibrium, an approximation best below about 5 mg "
+                            "Cl2 per mg NH3-N")
 CHLORAMINE_WATER_TEXT = ("CAUTION: chloraminated water must not be used untreated for "
                          "haemodialysis (chloramine causes haemolysis) or for fish and other "
                          "aquatic life (toxic through the gills); unlike free chlorine it does "
@@ -170,10 +175,7 @@ def _kinetics_text(samples: SolvedSamples) -> str:
             f"({breakpoint_mass_ratio():.2f}), where real water loses its ammonia to N2 and "
             f"its combined chlorine within hours, which no equilibrium here includes"
             if ratio >= breakpoint_mass_ratio() else "")
-    return (f"VALIDITY: chloramine speciation is kinetically controlled (formation in "
-            f"seconds to minutes, dichloramine and NCl3 slower, breakpoint oxidation over "
-            f"hours); these figures are the substitution equilibrium, an approximation best "
-            f"below about 5 mg Cl2 per mg NH3-N{past}; measure free and total chlorine")
+    return f"{CHLORAMINE_KINETICS_TEXT}{past}; measure free and total chlorine"
 
 
 def dissolved_levels(totals: Mapping[str, float], tables: TableSet) -> dict[str, float]:
@@ -300,8 +302,9 @@ def _pressure(result: Speciation, species: str) -> str:
 
 
 def batch_caution_flags(samples: SolvedSamples) -> list[tuple[str, np.ndarray]]:
-    """The cautions of :func:`cautions` on gases and free ammonia for every sample of a
-    batch, as (text, mask (n,)) pairs: one text per kind, so rows share their messages."""
+    """The cautions of :func:`cautions` on gases, chlorine, chloramines (with their
+    kinetic caveat) and free ammonia for every sample of a batch, as (text, mask (n,))
+    pairs: one text per kind, so rows share their messages."""
     out = []
     ph = samples.pH
     for formula, parent, gas in _VOLATILE:
@@ -322,6 +325,10 @@ def batch_caution_flags(samples: SolvedSamples) -> list[tuple[str, np.ndarray]]:
         out.append((f"CAUTION: hypochlorite with ammonia forms chloramines: "
                     f"{CHLORAMINE_GAS_TEXT}", combined))
         out.append((CHLORAMINE_WATER_TEXT, combined))
+        out.append((f"{CHLORAMINE_KINETICS_TEXT}; past about "
+                    f"{breakpoint_mass_ratio():.1f} real water goes through breakpoint "
+                    "(ammonia to N2, combined chlorine gone), which no equilibrium here "
+                    "includes", combined))
     ammonia = species_share(samples, _AMMONIA)
     if ammonia is not None:
         out.append((f"CAUTION: ammonia above pH {FREE_AMMONIA_PH:g}: much of it is free NH3, "
