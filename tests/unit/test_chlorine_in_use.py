@@ -64,6 +64,28 @@ def test_linked_bleach_keeps_its_chlorine_at_a_high_enough_pe():
     assert result.redox["couples_pe"]["OCl-/Cl-"] == pytest.approx(22.0, abs=1e-6)
 
 
+@pytest.mark.parametrize("fix", [{"pe": 12.0, "pH": 7.0}, {"pe": 12.0},
+                                 {"dissolved_oxygen": "100 %"}])
+def test_bleach_at_a_natural_redox_level_ends_as_chloride_and_says_so(fix):
+    """Hypochlorite takes electrons away (a negative electron total, allowed like a base's
+    protons); at the pe of natural water equilibrium turns it into chloride, and a validity
+    notice says that real water keeps it for hours to days."""
+    result = ionwright.solve({"dissolve": {"sodium hypochlorite": 1e-4, "NaCl": 1e-3},
+                              "fix": fix})
+    assert result.species_molality("Cl-") == pytest.approx(1.1e-3, rel=1e-6)
+    notice = next(n for n in result.notices if n.code == "chlorine-reduced")
+    assert notice.category == "validity" and "100 %" in notice.text
+    assert "state no redox level" in notice.text
+
+
+def test_no_reduction_notice_where_the_pe_keeps_the_chlorine():
+    result = ionwright.solve({"dissolve": {"sodium hypochlorite": 1e-4, "NaCl": 1e-3},
+                              "fix": {"pe": 25.0, "pH": 7.0}})
+    assert "chlorine-reduced" not in codes(result)
+    assert "chlorine-reduced" not in codes(ionwright.solve(
+        {"dissolve": {"sodium hypochlorite": 1e-4}}))
+
+
 def test_couple_is_named_oxidised_over_reduced_for_unlinked_bleach():
     result = ionwright.solve({"dissolve": {"sodium hypochlorite": 1e-4, "NaCl": 1e-3}})
     assert list(result.redox["couples_pe"]) == ["OCl-/Cl-"]
@@ -72,6 +94,8 @@ def test_couple_is_named_oxidised_over_reduced_for_unlinked_bleach():
 @pytest.mark.parametrize("ingredient, totals", [
     ("sodium hypochlorite", {"Na+": 1e-4, "OCl-": 1e-4}),
     ("NaOCl", {"Na+": 1e-4, "OCl-": 1e-4}),
+    ("lithium hypochlorite", {"Li+": 1e-4, "OCl-": 1e-4}),
+    ("sodium hypochlorite pentahydrate", {"Na+": 1e-4, "OCl-": 1e-4}),
     ("calcium hypochlorite", {"Ca2+": 1e-4, "OCl-": 2e-4}),
     ("chlorine", {"OCl-": 1e-4, "Cl-": 1e-4, "H+": 2e-4}),
     ("hypochlorous acid", {"OCl-": 1e-4, "H+": 1e-4}),

@@ -19,6 +19,8 @@ import numpy as np
 
 from ._derived import charge_balance_error_percent
 from ..chemistry._formula import Formula, molar_mass, parse_formula
+from ..chemistry._ingredients import makeup
+from ..chemistry._redox import unlinked
 from ..chemistry._tableset import TableSet
 from ..chemistry._water import log10_kw
 from ..core._system import log10_k_at
@@ -55,6 +57,7 @@ DRINKING_WATER_ADVICE = ("these metals are regulated in drinking water, and deci
                          "compliance) follow local codes, measured values and licensed practice")
 _VOLATILE = (("H2S", "sulfide", "hydrogen sulfide"), ("HCN", "cyanide", "hydrogen cyanide"))
 CHLORINE_GAS = parse_formula("Cl2")
+HYPOCHLORITE = parse_formula("ClO-")
 NITROGEN_MG_PER_MOL = 1000.0 * molar_mass("N")
 CHLORAMINE_GAS_TEXT = ("dichloramine and nitrogen trichloride (NCl3, which forms at low pH "
                        "and high chlorine-to-ammonia ratios) are volatile, irritant and toxic "
@@ -131,6 +134,9 @@ def chlorine_cautions(result: Speciation) -> list[Notice]:
     samples = samples_of_result(result)
     ph = result.pH
     out = []
+    reduced = _reduced_chlorine(result, samples)
+    if reduced is not None:
+        out.append(reduced)
     free = float(free_chlorine(samples)[0])
     if ph < CHLORINE_RELEASE_PH and free >= CHLORINE_TRACE:
         gas = _share_of(result, CHLORINE_GAS, free)
@@ -156,6 +162,41 @@ def chlorine_cautions(result: Speciation) -> list[Notice]:
     out.append(Notice(VALIDITY, "chloramine-kinetics", _kinetics_text(samples),
                       {"combined_chlorine_mg_per_L_as_Cl2": mg}))
     return out
+
+
+def dosed_chlorine(result: Speciation) -> float:
+    """Free chlorine the recipe brought (mol of OCl- per kg water), counted in the tables
+    without the redox couples: a linked set has turned it into chloride and electrons."""
+    base = unlinked(result.tables) or result.tables
+    name = next((c for c, comp in base.components.items()
+                 if parse_formula(comp.formula) == HYPOCHLORITE), None)
+    if name is None:
+        return 0.0
+    recipe = result.recipe
+    brought = sum(amount * makeup(ingredient, base).per_mole.get(name, 0.0)
+                  for ingredient, amount in recipe.dissolve)
+    return brought + sum(amount for c, amount in recipe.components if c == name)
+
+
+def _reduced_chlorine(result: Speciation, samples: SolvedSamples) -> Notice | None:
+    """The notice for hypochlorite that a stated redox level reduced to chloride."""
+    if unlinked(result.tables) is None:
+        return None
+    dosed = dosed_chlorine(result)
+    if dosed < CHLORINE_TRACE:
+        return None
+    left = np.nan_to_num(free_chlorine(samples)) + np.nan_to_num(combined_chlorine(samples))
+    share = float(left[0]) / dosed
+    if share > 0.99:
+        return None
+    mg = float(as_cl2_mg_per_L(samples, np.array([dosed]))[0])
+    return Notice(VALIDITY, "chlorine-reduced",
+                  f"VALIDITY: at the stated redox level (pe {result.pe:.2f}) equilibrium "
+                  f"reduces {100 * (1 - share):.3g} % of the {mg:.3g} mg/L of chlorine (as "
+                  f"Cl2) the recipe brings to chloride; real water keeps free and combined "
+                  f"chlorine for hours to days, so these results show where it ends, not what "
+                  f"is there after dosing; for the residuals, state no redox level",
+                  {"dosed_mg_per_L_as_Cl2": mg, "left_share": share})
 
 
 def _share_of(result: Speciation, formula: Formula, total: float) -> tuple[float, str | None]:
