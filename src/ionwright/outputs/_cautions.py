@@ -28,6 +28,7 @@ from ..notices import CAUTION, DATA_QUALITY, VALIDITY, Notice
 from ._derived_chlorine import (CHLORINE_TRACE, ammonia_nitrogen, as_cl2_mg_per_L,
                                 breakpoint_mass_ratio, combined_chlorine, free_chlorine,
                                 trichloramine_share)
+from ._redox import pe_of
 from ._solved_samples import SolvedSamples, samples_of_result, species_share
 from ._speciation import Speciation
 
@@ -190,8 +191,9 @@ def _reduced_chlorine(result: Speciation, samples: SolvedSamples) -> Notice | No
     if share > 0.99:
         return None
     mg = float(as_cl2_mg_per_L(samples, np.array([dosed]))[0])
+    pe = pe_of(result) or 0.0
     return Notice(VALIDITY, "chlorine-reduced",
-                  f"VALIDITY: at the stated redox level (pe {result.pe:.2f}) equilibrium "
+                  f"VALIDITY: at the stated redox level (pe {pe:.2f}) equilibrium "
                   f"reduces {100 * (1 - share):.3g} % of the {mg:.3g} mg/L of chlorine (as "
                   f"Cl2) the recipe brings to chloride; real water keeps free and combined "
                   f"chlorine for hours to days, so these results show where it ends, not what "

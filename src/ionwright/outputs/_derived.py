@@ -4,9 +4,9 @@ assembly for a single result and for every row of a batch.
 The pH on the scale of the standard buffers (:mod:`._conventional_ph`), charge-balance
 error, alkalinity (total and carbonate) and hardness as CaCO3, CO2 partial pressure and
 dissolved CO2, un-ionised ammonia both ways (:mod:`._derived_ammonia`), free, combined and
-total chlorine as Cl2 and the breakpoint dose of the ammonia (:mod:`._derived_chlorine`), total dissolved
-solids in both conventions (:mod:`._derived_ions`), the saturation pH with the Langelier
-and Ryznar indices (:mod:`._derived_carbonate`). :func:`derived_arrays` computes them for
+total chlorine as Cl2 and the breakpoint dose of the ammonia (:mod:`._derived_chlorine`),
+total dissolved solids in both conventions (:mod:`._derived_ions`), the saturation pH with
+the Langelier and Ryznar indices (:mod:`._derived_carbonate`). :func:`derived_arrays` computes them for
 n solved samples at once; :func:`derived_quantities` is the ``"derived"`` object of one
 result, the same numbers. Per-litre values use the solution's water per litre (given or
 estimated density). A quantity that does not apply (no ammonia, no carbonate) is NaN in
@@ -205,7 +205,8 @@ def _chlorine_lines(d: dict[str, Any]) -> list[str]:
                      f"(total {d['total_chlorine_mg_per_L_as_Cl2']:.4g}"
                      + ("; an equilibrium estimate, see the notices)" if combined else ")"))
     if d["breakpoint_chlorine_mg_per_L_as_Cl2"] is not None:
-        lines.append(f"  chlorine demand of ammonia {d['breakpoint_chlorine_mg_per_L_as_Cl2']:8.4g} "
+        dose = d["breakpoint_chlorine_mg_per_L_as_Cl2"]
+        lines.append(f"  chlorine demand of ammonia {dose:8.4g} "
                      f"mg/L as Cl2 (breakpoint, {breakpoint_mass_ratio():.2f} mg Cl2 per mg NH3-N, "
                      "stoichiometric; in practice 8–10, more with other reductants)")
     return lines
