@@ -24,6 +24,7 @@ from ..chemistry._redox import unlinked
 from ..chemistry._tableset import TableSet
 from ..chemistry._water import log10_kw
 from ..core._system import log10_k_at
+from ..inputs._analytes import HYPOCHLORITE
 from ..notices import CAUTION, DATA_QUALITY, VALIDITY, Notice
 from ._derived_chlorine import (CHLORINE_TRACE, ammonia_nitrogen, as_cl2_mg_per_L,
                                 breakpoint_mass_ratio, combined_chlorine, free_chlorine,
@@ -58,7 +59,6 @@ DRINKING_WATER_ADVICE = ("these metals are regulated in drinking water, and deci
                          "compliance) follow local codes, measured values and licensed practice")
 _VOLATILE = (("H2S", "sulfide", "hydrogen sulfide"), ("HCN", "cyanide", "hydrogen cyanide"))
 CHLORINE_GAS = parse_formula("Cl2")
-HYPOCHLORITE = parse_formula("ClO-")
 NITROGEN_MG_PER_MOL = 1000.0 * molar_mass("N")
 CHLORAMINE_GAS_TEXT = ("dichloramine and nitrogen trichloride (NCl3, which forms at low pH "
                        "and high chlorine-to-ammonia ratios) are volatile, irritant and toxic "
