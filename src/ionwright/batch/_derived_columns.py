@@ -44,6 +44,11 @@ DERIVED_COLUMNS = {
     "saturation_pH": "saturation pH (calcite)",
     "langelier_index": "Langelier index",
     "ryznar_index": "Ryznar index",
+    "free_chlorine_mg_per_L_as_Cl2": "free chlorine [mg/L as Cl2]",
+    "combined_chlorine_mg_per_L_as_Cl2": "combined chlorine [mg/L as Cl2]",
+    "total_chlorine_mg_per_L_as_Cl2": "total chlorine [mg/L as Cl2]",
+    "breakpoint_chlorine_mg_per_L_as_Cl2": "breakpoint chlorine dose of the ammonia "
+                                           "[mg/L as Cl2]",
 }
 PERCENT_KEYS = ("unionized_ammonia_fraction", "unionized_ammonia_fraction_emerson")
 BALANCE_FLAG_COLUMN = "charge balance flag"

@@ -35,6 +35,7 @@ ANIONS = {
     "bicarbonate": ("HCO3", -1, 0), "bisulfate": ("HSO4", -1, 0), "bisulphate": ("HSO4", -1, 0),
     "nitrite": ("NO2", -1, 0), "arsenate": ("AsO4", -3, 2),
     "arsenite": ("AsO2", -1, 0),   # as sold: the meta-arsenite (sodium arsenite is NaAsO2)
+    "hypochlorite": ("OCl", -1, 0),
 }
 #: acids named as such
 ACIDS = {"hydrochloric acid": "HCl", "sulfuric acid": "H2SO4", "sulphuric acid": "H2SO4",

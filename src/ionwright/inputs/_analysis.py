@@ -29,7 +29,8 @@ from ..chemistry._formula import parse_formula
 from ..chemistry._tableset import TableSet
 from ..core._acid_base import ALKALINITY_END_POINT_PH
 from ..errors import RecipeError
-from ._analytes import NAMED_KEYS, Analyte, check_states_used, map_analyte, read_states
+from ._analytes import (CHLORINE_KEYS, NAMED_KEYS, Analyte, check_states_used, map_analyte,
+                        read_states)
 from ._checks import as_number, check_temperature, given_density
 from ._mixing import Conversion, Entry, Mixture, mix
 from ._units import (CALCIUM_CARBONATE, CALCIUM_CARBONATE_EQUIVALENTS, Quantity,
@@ -100,6 +101,11 @@ def read_analysis(section: Any, origin: str, tables: TableSet) -> AnalysisFit:
         component = analyte.component
         if component in keys.values():
             other = next(k for k, c in keys.items() if c == component)
+            if {key.casefold(), other.casefold()} <= set(CHLORINE_KEYS):
+                raise RecipeError(f"{where} {key}", f"and {other!r} both give the chlorine "
+                                  "total; the equilibrium splits it into free and combined",
+                                  "give total_chlorine alone (or free_chlorine for water "
+                                  "without ammonia)")
             raise RecipeError(f"{where} {key}", f"maps to {component}, as {other!r} does",
                               "give each ion once")
         keys[key] = component

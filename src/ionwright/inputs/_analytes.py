@@ -41,6 +41,16 @@ ANALYTE_NAMES = {
     "zinc": "Zn", "lead": "Pb", "cadmium": "Cd", "nickel": "Ni", "strontium": "Sr",
     "barium": "Ba", "lithium": "Li", "arsenic": "As",
 }
+#: Chlorine residuals, in mg/L "as Cl2" (one mol Cl2 per mol of Cl(+I)), and the note a
+#: conversion carries. Either is the total of free chlorine (OCl-) that the equilibrium
+#: shares out between HOCl, OCl-, Cl2 and, with ammonia, the chloramines.
+CHLORINE_KEYS = {
+    "total_chlorine": "",
+    "free_chlorine": "free chlorine as Cl2 is taken as the chlorine total: with ammonia in "
+                     "the analysis the equilibrium turns part of it into chloramines (give "
+                     "total_chlorine for such water)",
+}
+HYPOCHLORITE = parse_formula("ClO-")
 ROMAN = {"I": 1, "II": 2, "III": 3, "IV": 4, "V": 5, "VI": 6, "VII": 7}
 _STATED = re.compile(r"^\s*(?P<element>[A-Z][a-z]?)\s*\((?P<roman>[IVX]+)\)\s*$")
 _NAMED_STATE = re.compile(r"^\s*(?P<name>[a-z]+)\s*\((?P<roman>[ivx]+)\)\s*$")
@@ -67,6 +77,8 @@ def map_analyte(key: str, tables: TableSet, where: str,
                 states: Mapping[str, int] | None = None) -> Analyte:
     """The :class:`Analyte` of analysis *key*; *states* (element → oxidation state, from
     :func:`read_states`) settles a bare element the tables hold in two states."""
+    if key.casefold() in CHLORINE_KEYS:
+        return _chlorine(key.casefold(), tables, where)
     text, stated = _spelled_out(key, where)
     try:
         formula = parse_formula(text)
@@ -93,6 +105,16 @@ def map_analyte(key: str, tables: TableSet, where: str,
         raise RecipeError(where, f"{key!r} does not map onto {component} one to one",
                           "give the ion's own formula")
     return Analyte(component, formula, ratios.pop(), note, settled_by)
+
+
+def _chlorine(key: str, tables: TableSet, where: str) -> Analyte:
+    """The :class:`Analyte` of a chlorine residual: hypochlorite, counted as Cl2."""
+    component = next((c for c, comp in tables.components.items()
+                      if parse_formula(comp.formula) == HYPOCHLORITE), None)
+    if component is None:
+        raise RecipeError(where, f"{key!r}: the tables have no free chlorine (hypochlorite) "
+                          "component", 'add "chlorine" to the recipe\'s tables')
+    return Analyte(component, parse_formula("Cl2"), 1.0, CHLORINE_KEYS[key])
 
 
 def check_states_used(states_given: Mapping[str, object], analytes: list[Analyte],
@@ -237,9 +259,10 @@ def _without_hydrogen(elements: Mapping[str, float]) -> dict[str, float]:
 def _unknown(key: str, tables: TableSet, where: str) -> RecipeError:
     """The error for a key that is neither a formula of the tables nor a known name."""
     symbols = {el for comp in tables.components.values() for el in comp.elements} - LIGHT
-    known = [*ANALYTE_NAMES, *sorted(symbols), *sorted(NAMED_KEYS)]
+    known = [*ANALYTE_NAMES, *sorted(symbols), *sorted(NAMED_KEYS), *CHLORINE_KEYS]
     close = close_matches(key, known)
     suggestion = f"did you mean {' or '.join(map(repr, close))}? " if close else ""
     return RecipeError(where, f"unknown analysis key {key!r}", f"{suggestion}analytes are "
                        "element or ion formulas (Ca, SO4, NO3, Fe, Fe(III)) or names (iron, "
-                       "silica, nitrite); other keys: " + ", ".join(sorted(NAMED_KEYS)))
+                       "silica, nitrite, free_chlorine, total_chlorine); other keys: "
+                       + ", ".join(sorted(NAMED_KEYS)))

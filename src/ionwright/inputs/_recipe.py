@@ -51,7 +51,7 @@ if TYPE_CHECKING:
 
 DEFAULT_MODEL = "davies"
 #: The bundled tables a recipe uses when it names none: metals, organics and redox sit on core.
-DEFAULT_TABLES = ("core", "metals", "organics", "redox")
+DEFAULT_TABLES = ("core", "metals", "organics", "redox", "chlorine")
 TOP_KEYS = {"title", "temperature_C", "activity_model", "tables", "dissolve", "fix",
             "water", "volume", "density", "add", "pour", "analysis", "solids", "gases"}
 FIX_KEYS = {"pH"} | REDOX_KEYS

@@ -2,7 +2,8 @@
 
 Where a number can hurt someone the report says so: corrosive pH (US EPA 40 CFR
 261.22), toxic gas that an acid solution releases (H2S from sulfide, HCN from cyanide,
-chlorine from hypochlorite), free ammonia above pH 9.5, lead, copper, cadmium and arsenic
+chlorine from hypochlorite), chloramines from hypochlorite with ammonia (and their harm in
+water for dialysis or fish), free ammonia above pH 9.5, lead, copper, cadmium and arsenic
 in water (regulated in drinking water), and a charge-balance error
 beyond ±5 % that makes an analysis doubtful. Gas checks look for the species by
 formula, so they apply to any table that has them and are skipped only when the
@@ -18,11 +19,18 @@ import numpy as np
 
 from ._derived import charge_balance_error_percent
 from ..chemistry._formula import Formula, molar_mass, parse_formula
+from ..chemistry._ingredients import makeup
+from ..chemistry._redox import unlinked
 from ..chemistry._tableset import TableSet
 from ..chemistry._water import log10_kw
 from ..core._system import log10_k_at
-from ..notices import CAUTION, DATA_QUALITY, Notice
-from ._solved_samples import SolvedSamples, species_share
+from ..inputs._analytes import HYPOCHLORITE
+from ..notices import CAUTION, DATA_QUALITY, VALIDITY, Notice
+from ._derived_chlorine import (CHLORINE_TRACE, ammonia_nitrogen, as_cl2_mg_per_L,
+                                breakpoint_mass_ratio, combined_chlorine, free_chlorine,
+                                trichloramine_share)
+from ._redox import pe_of
+from ._solved_samples import SolvedSamples, samples_of_result, species_share
 from ._speciation import Speciation
 
 #: 40 CFR 261.22(a)(1) (revised as of July 1, 2019; re-read): an aqueous waste with a pH
@@ -50,7 +58,25 @@ DRINKING_WATER_ADVICE = ("these metals are regulated in drinking water, and deci
                          "(tap sampling, action levels, corrosion control, lead service lines, "
                          "compliance) follow local codes, measured values and licensed practice")
 _VOLATILE = (("H2S", "sulfide", "hydrogen sulfide"), ("HCN", "cyanide", "hydrogen cyanide"))
-_HYPOCHLORITE = (parse_formula("ClO-"), parse_formula("HClO"))
+CHLORINE_GAS = parse_formula("Cl2")
+NITROGEN_MG_PER_MOL = 1000.0 * molar_mass("N")
+CHLORAMINE_GAS_TEXT = ("dichloramine and nitrogen trichloride (NCl3, which forms at low pH "
+                       "and high chlorine-to-ammonia ratios) are volatile, irritant and toxic "
+                       "gases; never mix bleach with ammonia or ammonium-containing cleaners, "
+                       f"ventilate, and {DEFER}")
+CHLORAMINE_KINETICS_TEXT = ("VALIDITY: chloramine speciation is kinetically controlled "
+                            "(formation in seconds to minutes, dichloramine and NCl3 slower, "
+                            "breakpoint oxidation over hours); these figures are the "
+                            "substitution equilibrium, an approximation best below about 5 mg "
+                            "Cl2 per mg NH3-N")
+CHLORAMINE_WATER_TEXT = ("CAUTION: chloraminated water must not be used untreated for "
+                         "haemodialysis (chloramine causes haemolysis) or for fish and other "
+                         "aquatic life (toxic through the gills); unlike free chlorine it does "
+                         "not leave on standing, aerating or boiling, and is removed with "
+                         "activated (catalytic) carbon or a dechlorinating agent, verified by "
+                         "a total-chlorine test (common practice); follow the dialysis "
+                         "unit's, aquarium's or discharge permit's rules, local codes and "
+                         "licensed practice")
 _AMMONIA = parse_formula("NH3")
 _HYDROXIDE = parse_formula("OH-")
 
@@ -75,12 +101,7 @@ def cautions(result: Speciation) -> list[Notice]:
                 f"solution{_pressure(result, found[1])}; acid releases more; "
                 f"ventilate, never acidify it, and {DEFER}",
                 {"species": found[1], "share": found[0], "pH": ph}))
-    if ph < CHLORINE_RELEASE_PH and any(_species(result, f) for f in _HYPOCHLORITE):
-        out.append(Notice(
-            CAUTION, "chlorine-release",
-            f"CAUTION: hypochlorite at pH {ph:.2f} (below about {CHLORINE_RELEASE_PH:g}) "
-            f"releases chlorine gas; never mix hypochlorite with acid, ventilate, and {DEFER}",
-            {"pH": ph}))
+    out.extend(chlorine_cautions(result))
     ammonia = _share(result, _AMMONIA)
     if ammonia is not None and ph > FREE_AMMONIA_PH:
         out.append(Notice(
@@ -104,6 +125,100 @@ def cautions(result: Speciation) -> list[Notice]:
             f"measured values, local codes and licensed practice",
             {"error_percent": error, "limit_percent": CHARGE_BALANCE_LIMIT}))
     return out
+
+
+def chlorine_cautions(result: Speciation) -> list[Notice]:
+    """The cautions on free chlorine and chloramines of *result*: chlorine gas from
+    hypochlorite below about pH 5, chloramines (NCl3 above all) from hypochlorite with
+    ammonia, chloramine in water for dialysis or fish, and the kinetic limits of the
+    equilibrium speciation."""
+    samples = samples_of_result(result)
+    ph = result.pH
+    out = []
+    reduced = _reduced_chlorine(result, samples)
+    if reduced is not None:
+        out.append(reduced)
+    free = float(free_chlorine(samples)[0])
+    if ph < CHLORINE_RELEASE_PH and free >= CHLORINE_TRACE:
+        gas = _share_of(result, CHLORINE_GAS, free)
+        out.append(Notice(
+            CAUTION, "chlorine-release",
+            f"CAUTION: hypochlorite at pH {ph:.2f} (below about {CHLORINE_RELEASE_PH:g}) "
+            f"releases chlorine gas: {100 * gas[0]:.3g} % of the free chlorine is dissolved "
+            f"Cl2{_pressure(result, gas[1]) if gas[1] else ''}; never mix hypochlorite with "
+            f"acid, ventilate, and {DEFER}", {"pH": ph, "Cl2_share": gas[0]}))
+    combined = float(combined_chlorine(samples)[0])
+    if not combined >= CHLORINE_TRACE:
+        return out
+    mg = float(as_cl2_mg_per_L(samples, np.array([combined]))[0])
+    ncl3 = float(trichloramine_share(samples)[0])
+    out.append(Notice(
+        CAUTION, "chloramine-gas",
+        f"CAUTION: hypochlorite with ammonia forms chloramines ({mg:.3g} mg/L as Cl2 of "
+        f"combined chlorine, {100 * ncl3:.3g} % of it as nitrogen trichloride NCl3): "
+        f"{CHLORAMINE_GAS_TEXT}", {"combined_chlorine_mg_per_L_as_Cl2": mg,
+                                    "NCl3_share": ncl3}))
+    out.append(Notice(CAUTION, "chloramine-water-use", CHLORAMINE_WATER_TEXT,
+                      {"combined_chlorine_mg_per_L_as_Cl2": mg}))
+    out.append(Notice(VALIDITY, "chloramine-kinetics", _kinetics_text(samples),
+                      {"combined_chlorine_mg_per_L_as_Cl2": mg}))
+    return out
+
+
+def dosed_chlorine(result: Speciation) -> float:
+    """Free chlorine the recipe brought (mol of OCl- per kg water), counted in the tables
+    without the redox couples: a linked set has turned it into chloride and electrons."""
+    base = unlinked(result.tables) or result.tables
+    name = next((c for c, comp in base.components.items()
+                 if parse_formula(comp.formula) == HYPOCHLORITE), None)
+    if name is None:
+        return 0.0
+    recipe = result.recipe
+    brought = sum(amount * makeup(ingredient, base).per_mole.get(name, 0.0)
+                  for ingredient, amount in recipe.dissolve)
+    return brought + sum(amount for c, amount in recipe.components if c == name)
+
+
+def _reduced_chlorine(result: Speciation, samples: SolvedSamples) -> Notice | None:
+    """The notice for hypochlorite that a stated redox level reduced to chloride."""
+    if unlinked(result.tables) is None:
+        return None
+    dosed = dosed_chlorine(result)
+    if dosed < CHLORINE_TRACE:
+        return None
+    left = np.nan_to_num(free_chlorine(samples)) + np.nan_to_num(combined_chlorine(samples))
+    share = float(left[0]) / dosed
+    if share > 0.99:
+        return None
+    mg = float(as_cl2_mg_per_L(samples, np.array([dosed]))[0])
+    pe = pe_of(result) or 0.0
+    return Notice(VALIDITY, "chlorine-reduced",
+                  f"VALIDITY: at the stated redox level (pe {pe:.2f}) equilibrium "
+                  f"reduces {100 * (1 - share):.3g} % of the {mg:.3g} mg/L of chlorine (as "
+                  f"Cl2) the recipe brings to chloride; real water keeps free and combined "
+                  f"chlorine for hours to days, so these results show where it ends, not what "
+                  f"is there after dosing; for the residuals, state no redox level",
+                  {"dosed_mg_per_L_as_Cl2": mg, "left_share": share})
+
+
+def _share_of(result: Speciation, formula: Formula, total: float) -> tuple[float, str | None]:
+    """(molality of species *formula* / *total*, its name), (0, None) without it."""
+    name = _species(result, formula)
+    return (0.0, None) if name is None else (result.species_molality(name) / total, name)
+
+
+def _kinetics_text(samples: SolvedSamples) -> str:
+    """Why chloramine speciation is an approximation here, with the sample's Cl2 : N."""
+    chlorine = as_cl2_mg_per_L(samples, np.nan_to_num(free_chlorine(samples))
+                               + np.nan_to_num(combined_chlorine(samples)))[0]
+    nitrogen = float(ammonia_nitrogen(samples)[0]) * samples.water_kg_per_L[0] \
+        * NITROGEN_MG_PER_MOL
+    ratio = chlorine / nitrogen
+    past = (f"; at {ratio:.3g} mg Cl2 per mg NH3-N this sample is past the breakpoint "
+            f"({breakpoint_mass_ratio():.2f}), where real water loses its ammonia to N2 and "
+            f"its combined chlorine within hours, which no equilibrium here includes"
+            if ratio >= breakpoint_mass_ratio() else "")
+    return f"{CHLORAMINE_KINETICS_TEXT}{past}; measure free and total chlorine"
 
 
 def dissolved_levels(totals: Mapping[str, float], tables: TableSet) -> dict[str, float]:
@@ -230,8 +345,9 @@ def _pressure(result: Speciation, species: str) -> str:
 
 
 def batch_caution_flags(samples: SolvedSamples) -> list[tuple[str, np.ndarray]]:
-    """The cautions of :func:`cautions` on gases and free ammonia for every sample of a
-    batch, as (text, mask (n,)) pairs: one text per kind, so rows share their messages."""
+    """The cautions of :func:`cautions` on gases, chlorine, chloramines (with their
+    kinetic caveat) and free ammonia for every sample of a batch, as (text, mask (n,))
+    pairs: one text per kind, so rows share their messages."""
     out = []
     ph = samples.pH
     for formula, parent, gas in _VOLATILE:
@@ -241,13 +357,21 @@ def batch_caution_flags(samples: SolvedSamples) -> list[tuple[str, np.ndarray]]:
                         f"dissolved {formula} ({gas}), a toxic gas that escapes from the "
                         f"solution; acid releases more; ventilate, never acidify it, and "
                         f"{DEFER}", np.nan_to_num(share) >= VOLATILE_SHARE))
-    hypochlorite = [samples.species_index(f) for f in _HYPOCHLORITE]
-    present = [i for i in hypochlorite if i is not None]
-    if present:
-        held = np.any(samples.molality[:, present] > 0, axis=1)
+    with np.errstate(invalid="ignore"):
+        free = np.nan_to_num(free_chlorine(samples)) >= CHLORINE_TRACE
+        combined = np.nan_to_num(combined_chlorine(samples)) >= CHLORINE_TRACE
+    if np.any(free):
         out.append((f"CAUTION: hypochlorite below about pH {CHLORINE_RELEASE_PH:g} releases "
                      f"chlorine gas; never mix hypochlorite with acid, ventilate, and {DEFER}",
-                     held & (ph < CHLORINE_RELEASE_PH)))
+                     free & (ph < CHLORINE_RELEASE_PH)))
+    if np.any(combined):
+        out.append((f"CAUTION: hypochlorite with ammonia forms chloramines: "
+                    f"{CHLORAMINE_GAS_TEXT}", combined))
+        out.append((CHLORAMINE_WATER_TEXT, combined))
+        out.append((f"{CHLORAMINE_KINETICS_TEXT}; past about "
+                    f"{breakpoint_mass_ratio():.1f} real water goes through breakpoint "
+                    "(ammonia to N2, combined chlorine gone), which no equilibrium here "
+                    "includes", combined))
     ammonia = species_share(samples, _AMMONIA)
     if ammonia is not None:
         out.append((f"CAUTION: ammonia above pH {FREE_AMMONIA_PH:g}: much of it is free NH3, "

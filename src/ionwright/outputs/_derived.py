@@ -3,9 +3,10 @@ assembly for a single result and for every row of a batch.
 
 The pH on the scale of the standard buffers (:mod:`._conventional_ph`), charge-balance
 error, alkalinity (total and carbonate) and hardness as CaCO3, CO2 partial pressure and
-dissolved CO2, un-ionised ammonia both ways (:mod:`._derived_ammonia`), total dissolved
-solids in both conventions (:mod:`._derived_ions`), the saturation pH with the Langelier
-and Ryznar indices (:mod:`._derived_carbonate`). :func:`derived_arrays` computes them for
+dissolved CO2, un-ionised ammonia both ways (:mod:`._derived_ammonia`), free, combined and
+total chlorine as Cl2 and the breakpoint dose of the ammonia (:mod:`._derived_chlorine`),
+total dissolved solids in both conventions (:mod:`._derived_ions`), the saturation pH with
+the Langelier and Ryznar indices (:mod:`._derived_carbonate`). :func:`derived_arrays` computes them for
 n solved samples at once; :func:`derived_quantities` is the ``"derived"`` object of one
 result, the same numbers. Per-litre values use the solution's water per litre (given or
 estimated density). A quantity that does not apply (no ammonia, no carbonate) is NaN in
@@ -23,6 +24,7 @@ from ..core._acid_base import ALKALINITY_END_POINT_PH
 from ._conventional_ph import conventional_pH_of
 from ._derived_ammonia import (NITROGEN, activity_corrected_fraction, as_nitrogen_mg_per_L,
                                emerson_fraction_of)
+from ._derived_chlorine import breakpoint_mass_ratio, chlorine_arrays
 from ._derived_carbonate import (CALCITE, alkalinity_eq_per_kg, carbonate_alkalinity_eq_per_kg,
                                  dissolved_co2_mg_per_L, langelier_index, log10_pco2_atm,
                                  ryznar_index, saturation_pH)
@@ -42,7 +44,9 @@ NUMBER_KEYS = ("pH_standards_scale", "charge_balance_error_percent",
                "unionized_ammonia_fraction", "unionized_ammonia_mg_per_L_as_N",
                "unionized_ammonia_fraction_emerson", "unionized_ammonia_mg_per_L_as_N_emerson",
                "tds_mg_per_L", "tds_calculated_mg_per_L", "tds_species_sum_mg_per_L",
-               "saturation_pH", "langelier_index", "ryznar_index")
+               "saturation_pH", "langelier_index", "ryznar_index",
+               "free_chlorine_mg_per_L_as_Cl2", "combined_chlorine_mg_per_L_as_Cl2",
+               "total_chlorine_mg_per_L_as_Cl2", "breakpoint_chlorine_mg_per_L_as_Cl2")
 #: Every key of the ``"derived"`` object: the numbers, then the TDS convention used.
 KEYS = (*NUMBER_KEYS, "tds_convention")
 #: TDS convention by default: the calculated sum for analyses, the species sum otherwise.
@@ -83,6 +87,7 @@ def derived_arrays(s: SolvedSamples, tds: str = TDS_AUTO) -> dict[str, np.ndarra
         "saturation_pH": phs,
         "langelier_index": langelier_index(s, phs),
         "ryznar_index": ryznar_index(s, phs),
+        **chlorine_arrays(s),
     }
 
 
@@ -191,11 +196,30 @@ def report_lines(result) -> list[str]:
                      f"{100 * d['unionized_ammonia_fraction_emerson']:8.3g} % of total; "
                      f"{d['unionized_ammonia_mg_per_L_as_N_emerson']:.3g} mg/L as N "
                      "(Emerson et al. 1975, conditional)")
+    lines += _chlorine_lines(d)
     if d["langelier_index"] is not None:
         lines.append(f"  Langelier index            {d['langelier_index']:+8.2f} "
                      f"(pHs {d['saturation_pH']:.2f}; > 0 scale-forming, < 0 dissolves CaCO3)")
         lines.append(f"  Ryznar index               {d['ryznar_index']:8.2f} "
                      "(below about 6 scale-forming, above about 7 corrosive)")
+    return lines
+
+
+def _chlorine_lines(d: dict[str, Any]) -> list[str]:
+    """The report's chlorine residuals and the breakpoint dose of the ammonia, where they
+    apply."""
+    lines = []
+    if d["total_chlorine_mg_per_L_as_Cl2"] is not None:
+        free = d["free_chlorine_mg_per_L_as_Cl2"] or 0.0
+        combined = d["combined_chlorine_mg_per_L_as_Cl2"] or 0.0
+        lines.append(f"  chlorine, free / combined  {free:8.4g} / {combined:.4g} mg/L as Cl2 "
+                     f"(total {d['total_chlorine_mg_per_L_as_Cl2']:.4g}"
+                     + ("; an equilibrium estimate, see the notices)" if combined else ")"))
+    if d["breakpoint_chlorine_mg_per_L_as_Cl2"] is not None:
+        dose = d["breakpoint_chlorine_mg_per_L_as_Cl2"]
+        lines.append(f"  chlorine demand of ammonia {dose:8.4g} "
+                     f"mg/L as Cl2 (breakpoint, {breakpoint_mass_ratio():.2f} mg Cl2 per mg NH3-N, "
+                     "stoichiometric; in practice 8–10, more with other reductants)")
     return lines
 
 

@@ -47,8 +47,11 @@ def couple_pe(speciation: Speciation) -> dict[str, float]:
     system, t = speciation.system, speciation.temperature_C
     log_a = _log10_activities(speciation)
     out = {}
-    for reduced, couple in base.active_couples().items():
-        oxidised = next(p for p in couple.reaction if p not in (ELECTRON, PROTON, WATER))
+    for named, couple in base.active_couples().items():
+        other = next(p for p in couple.reaction if p not in (ELECTRON, PROTON, WATER))
+        # a couple names its reduced form (Fe2+ from Fe3+ + e-), or, with electrons given
+        # up (e- < 0), its oxidised form (OCl- from Cl-, chlorine.toml)
+        oxidised, reduced = (named, other) if couple.reaction[ELECTRON] < 0 else (other, named)
         if not all(name in system.species for name in (reduced, oxidised)):
             continue
         if min(speciation.species_molality(reduced),
@@ -58,7 +61,7 @@ def couple_pe(speciation: Speciation) -> dict[str, float]:
         rest = sum(nu * log_a[part] for part, nu in couple.reaction.items()
                    if part != ELECTRON)
         log10_k_couple = float(log10_k_at(couple.logk, np.array([t]))[0])
-        out[f"{oxidised}/{reduced}"] = float(-(log_a[reduced] - log10_k_couple - rest) / electrons)
+        out[f"{oxidised}/{reduced}"] = float(-(log_a[named] - log10_k_couple - rest) / electrons)
     return out
 
 

@@ -7,7 +7,7 @@ from ..data._bundled import bundled_folder
 from ..data._parameter_tables import ParameterTable
 from .hookspecs import hookimpl
 
-BUNDLED_TABLES = ("core", "metals", "organics", "redox")
+BUNDLED_TABLES = ("core", "metals", "organics", "redox", "chlorine")
 #: Parameter tables of the built-in models: table name → model that reads it.
 BUNDLED_PARAMETER_TABLES = {"pitzer": "pitzer"}
 
