@@ -18,7 +18,7 @@ def states_redox_level(recipe: Recipe, choice: PhaseChoice, tables: TableSet) ->
     gases = [g.name for g in choice.gases if holds_electron(tables, g.name, "gases")]
     solids = [s.name for s in choice.solids
               if s.mode != MAY_FORM and holds_electron(tables, s.name, "solids")]
-    fixed = ["[fix] " + (recipe.redox_level or "pe")] if "pe" in recipe.fix else []
+    fixed = [recipe.redox_level or "[fix] pe"] if "pe" in recipe.fix else []
     levels = [*fixed, *(f"[gases] {g}" for g in gases)]
     if len(levels) > 1:
         raise RecipeError(recipe.origin, f"states the redox level twice ({'; '.join(levels)})",
