@@ -8,7 +8,8 @@ reduced and the oxidised form in the ratio analysed. Their sum is the element's 
 which the linked solve conserves, so each total is then as analysed; every other
 couple follows at that pe. The search starts at the pe the couple implies in the sample
 solved without linking (:func:`ionwright.outputs._redox.couple_pe`), which is the
-answer when no other couple moves.
+answer when no other couple moves (at pe 0 when a form's free ion is too scarce there
+for that pe to be read).
 
 An analysis fitted to its alkalinity or charge balance is fitted again at the pe found
 (the other couples' forms count in the alkalinity), until the pe settles.
@@ -74,8 +75,8 @@ def pe_of_couple(recipe: Recipe, couple: CoupleConstraint, registry: Registry | 
     target = math.log10(given[couple.reduced] / given[couple.oxidised])
     if start is None:
         free = CompiledRecipe.of(recipe, registry).solve_one()
-        start = next(pe for name, pe in couple_pe(free).items()
-                     if name.endswith(f"/{couple.reduced}"))
+        start = next((pe for name, pe in couple_pe(free).items()
+                      if name.endswith(f"/{couple.reduced}")), 0.0)
     compiled = CompiledRecipe.of(replace(recipe, fix={**recipe.fix, "pe": start}), registry)
     fixed = compiled.fixed()
     column = compiled.system.components.index(ELECTRON)

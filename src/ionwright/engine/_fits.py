@@ -203,7 +203,8 @@ def fit_rows(names: Sequence[str], totals: np.ndarray, t_C: np.ndarray, ph: np.n
     for u in unknowns:
         full[:, names.index(u)] = np.maximum(full[:, names.index(u)], TRACE)
     used: list[bool] = list(np.any(full > 0, axis=0))
-    comps = [c for c, u in zip(names, used) if u] + ([ELECTRON] if pe is not None else [])
+    comps = [c for c, u in zip(names, used) if u and c != ELECTRON] + (
+        [ELECTRON] if pe is not None else [])
     # one system for all: a component a sample lacks gets a trace total (as a recipe's
     # batches do), which changes no digit of its fit, and one Newton run serves them all
     traced = np.where(full > 0, full, TRACE)
@@ -228,7 +229,9 @@ def held_pe(fit: AnalysisFit, tables: TableSet) -> float | None:
         return fit.pe
     linked = electron_tables(tables)
     gas = linked.resolve("O2(g)", "gases")
-    log10_k = float(log10_k_at(gas.logk, np.array([fit.t_C]))[0])
+    t = np.array([fit.t_C])
+    # the gas's entries add up to its dissolution into components: formation is minus that
+    log10_k = -sum(nu * float(log10_k_at(logk, t)[0]) for _, nu, logk in gas.terms)
     electrons = gas.stoichiometry[ELECTRON]
     protons = gas.stoichiometry.get("H+", 0.0)
     # log10 p = log10 K + ν(H+)·log10 a(H+) + ν(e-)·log10 a(e-), log10 a(H2O) = 0
