@@ -20,6 +20,8 @@ from ..outputs._derived import (NUMBER_KEYS, TDS_AUTO, check_tds_convention, der
                                 tds_is_calculated)
 from ..outputs._derived_ions import TDS_CALCULATED, TDS_SPECIES, ion_columns
 from ..outputs._solved_samples import SolvedSamples
+from ..chemistry._redox import ELECTRON, unlinked
+from ..inputs._redox_couple import couple_forms
 
 #: Output column of each number of the ``"derived"`` object (fractions become percent).
 DERIVED_COLUMNS = {
@@ -114,7 +116,10 @@ class DerivedTable:
         off = np.abs(arrays["charge_balance_error_percent"]) > limit
         self.columns[BALANCE_FLAG_COLUMN][rows] = off
         if self.options.ions:
+            mixed = _mixed_states(samples)
             for comp, (mg, meq) in ion_columns(samples).items():
+                if comp in mixed:
+                    continue
                 self.columns[ion_mass_column(comp)][rows] = mg
                 if meq is not None:
                     self.columns[ion_equivalents_column(comp)][rows] = meq
@@ -124,3 +129,13 @@ class DerivedTable:
                   "results, and base decisions on measured values, local codes and "
                   "licensed practice", off)]
         return flags + batch_caution_flags(samples)
+
+
+def _mixed_states(samples: SolvedSamples) -> set[str]:
+    """Components whose total holds several oxidation states in rows solved with them
+    linked (Fe3+ then counts all iron, e- the electrons): their ion columns stay empty
+    rather than name one state for the sum."""
+    base = unlinked(samples.tables)
+    if base is None:
+        return set()
+    return {ELECTRON, *couple_forms(base).values()}

@@ -32,7 +32,7 @@ from ..chemistry._tableset import TableSet
 from ..core import _solver as solver
 from ..core._acid_base import alkalinity_weights_at, series
 from ..core._sparse import weighted_sum
-from ..core._system import WATER, ChemicalSystem, compile_system, log10_k_at
+from ..core._system import WATER, ChemicalSystem, compile_system
 from ._compiled import TRACE
 from ..errors import ConvergenceError, IonwrightError, RecipeError
 from ..status import MAX_ITERATIONS
@@ -40,6 +40,7 @@ from ..inputs._analysis import CARBONATE, AnalysisFit, analysis_mixture, finish_
 from ..inputs._recipe import Recipe
 from ..plugins._registry import Registry, default_registry
 from ..plugins._table_sets import load_tables
+from ._redox_level import pe_held_by_o2
 
 FIT_TOLERANCE = 1e-12
 FIT_ROUNDS = 60
@@ -192,7 +193,7 @@ def fit_rows(names: Sequence[str], totals: np.ndarray, t_C: np.ndarray, ph: np.n
                                                                     else ())
     if pe is not None:
         tables = electron_tables(tables)
-        names, totals = _in_linked_basis(names, totals, tables)
+        names, totals = in_linked_columns(names, totals, tables)
         if balance and balance not in tables.components:
             raise RecipeError(f"{where} balance_on", f"{balance} is linked to another "
                               "oxidation state by the redox level stated",
@@ -223,24 +224,13 @@ def fit_rows(names: Sequence[str], totals: np.ndarray, t_C: np.ndarray, ph: np.n
 
 def held_pe(fit: AnalysisFit, tables: TableSet) -> float | None:
     """The pe an analysis's fit holds: its stated or found pe, or the pe that a dissolved
-    oxygen's O2 pressure gives at the measured pH (water's activity taken as 1, which in
-    fresh water moves pe by less than 1e-4); None without a redox level."""
+    oxygen's O2 pressure gives at the measured pH; None without a redox level."""
     if fit.pe is not None or fit.redox is None or fit.redox.o2_pressure_atm is None:
         return fit.pe
-    linked = electron_tables(tables)
-    gas = linked.resolve("O2(g)", "gases")
-    t = np.array([fit.t_C])
-    # the gas's entries add up to its dissolution into components: formation is minus that
-    log10_k = -sum(nu * float(log10_k_at(logk, t)[0]) for _, nu, logk in gas.terms)
-    electrons = gas.stoichiometry[ELECTRON]
-    protons = gas.stoichiometry.get("H+", 0.0)
-    # log10 p = log10 K + ν(H+)·log10 a(H+) + ν(e-)·log10 a(e-), log10 a(H2O) = 0
-    log10_electron = (np.log10(fit.redox.o2_pressure_atm) - log10_k
-                      + protons * float(fit.ph or 0.0)) / electrons
-    return float(-log10_electron)
+    return pe_held_by_o2(tables, fit.redox.o2_pressure_atm, float(fit.ph or 0.0), fit.t_C)
 
 
-def _in_linked_basis(names: Sequence[str], totals: np.ndarray, linked: TableSet
+def in_linked_columns(names: Sequence[str], totals: np.ndarray, linked: TableSet
                      ) -> tuple[list[str], np.ndarray]:
     """Components *names* and *totals* (n, len(names)) rewritten in the components of the
     *linked* set (1 Fe2+ is 1 Fe3+ and 1 e-)."""

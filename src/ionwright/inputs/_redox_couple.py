@@ -83,7 +83,7 @@ def read_couple(section: Mapping[str, Any], components: Mapping[str, str],
         raise RecipeError(here, f"{value!r}: the tables hold no couple reducing {oxidised} "
                           f"to {reduced}", f'write the oxidised form first: "{red_key}/'
                           f'{ox_key}"' if swapped else "couples the tables link: "
-                          + ", ".join(f"{o}/{r}" for r, o in _couples(tables).items())
+                          + ", ".join(f"{o}/{r}" for r, o in couple_forms(tables).items())
                           + " (the redox table must be among the tables)")
     return CoupleConstraint(oxidised, reduced, (ox_key, red_key),
                             (str(section[ox_key]), str(section[red_key])), electrons)
@@ -92,12 +92,12 @@ def read_couple(section: Mapping[str, Any], components: Mapping[str, str],
 def _electrons(oxidised: str, reduced: str, tables: TableSet) -> float | None:
     """Electrons of the tables' couple reducing component *oxidised* to *reduced*, or
     None when they link no such couple."""
-    if _couples(tables).get(reduced) != oxidised:
+    if couple_forms(tables).get(reduced) != oxidised:
         return None
     return float(tables.active_couples()[reduced].reaction[ELECTRON])
 
 
-def _couples(tables: TableSet) -> dict[str, str]:
+def couple_forms(tables: TableSet) -> dict[str, str]:
     """Reduced component → the component of its oxidised form, for every active couple
     (the oxidised form may be a species, as H3AsO4 of arsenate)."""
     out = {}

@@ -116,11 +116,13 @@ def propagation(system: ChemicalSystem, tables: TableSet, state: PhaseEquilibriu
 
 
 def batch_pH_uncertainty(system: ChemicalSystem, tables: TableSet, equilibrium: Equilibrium,
-                         bound, pH_fixed: bool) -> np.ndarray:
+                         bound, pH_fixed: bool, pe_fixed: bool = False) -> np.ndarray:
     """u(pH) (n,) of a batch solved without solids or gases (the batch runner's rows), by
     the adjoint (:func:`pH_log_k_derivative`), in chunks of :data:`CHUNK_ROWS` samples."""
     free = np.ones(system.n_components, dtype=bool)
     free[0] = not pH_fixed
+    if pe_fixed:
+        free[system.components.index(ELECTRON)] = False
     terms = constant_terms(system, tables)
     n = equilibrium.molality.shape[0]
     out = np.empty(n)
