@@ -230,3 +230,13 @@ def test_an_orp_against_hydrogen_needs_no_table():
     result = ionwright.solve({"temperature_C": 60.0, "dissolve": {"NaCl": 1e-3},
                               "fix": {"ORP": "200 mV", "electrode": "SHE", "pH": 7.0}})
     assert not any(n.code == "orp-electrode-extrapolated" for n in result.notices)
+
+
+def test_a_ratio_out_of_reach_with_the_ph_free_asks_for_the_ph():
+    """Unbuffered, without a pH, nitrogen moving with the pe drags the pH along and no
+    pe gives this iron ratio: the refusal says why and asks for the measured pH."""
+    with pytest.raises(RecipeError, match="give the measured pH"):
+        ionwright.solve({"analysis": {
+            "temperature_C": 5.0, "Fe(II)": "1.0 mg/L", "Fe(III)": "0.125 mg/L",
+            "Ca": "5.0 mg/L", "Cl": "5.0 mg/L", "NO3": "4.0 mg/L as N",
+            "ammonia": "1.0 mg/L as N", "redox_couple": "Fe(III)/Fe(II)"}})

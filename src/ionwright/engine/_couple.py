@@ -12,7 +12,10 @@ answer when no other couple moves (at pe 0 when a form's free ion is too scarce 
 for that pe to be read).
 
 An analysis fitted to its alkalinity or charge balance is fitted again at the pe found
-(the other couples' forms count in the alkalinity), until the pe settles.
+(the other couples' forms count in the alkalinity), until the pe settles. Without a
+measured pH the pH moves with the pe (a held pe leaves the electrons of the other
+couples' change unbalanced) and the ratio analysed may be out of reach; the search then
+says so and asks for the pH.
 """
 
 from __future__ import annotations
@@ -25,7 +28,7 @@ import numpy as np
 from ..chemistry._redox import ELECTRON, unlinked
 from ..chemistry._tableset import TableSet
 from ..core._system import ChemicalSystem
-from ..errors import ConvergenceError
+from ..errors import ConvergenceError, RecipeError
 from ..inputs._analysis import AnalysisFit
 from ..inputs._recipe import Recipe
 from ..inputs._redox_couple import CoupleConstraint
@@ -96,6 +99,13 @@ def pe_of_couple(recipe: Recipe, couple: CoupleConstraint, registry: Registry | 
             slope = (residual - last[1]) / (pe - last[0])
         last = (pe, residual)
         pe += float(np.clip(-residual / slope, -MAX_STEP, MAX_STEP))
+    if "pH" not in recipe.fix:
+        raise RecipeError(f"{recipe.origin} [analysis] redox_couple",
+                          f"no pe found holds {couple.keys[1]} and {couple.keys[0]} in the "
+                          "ratio analysed with the pH free: linking the other couples at a "
+                          "held pe moves their electrons and protons, and the pH with them "
+                          f"(closest: {residual:+.3g} in log10 of the ratio)",
+                          "give the measured pH, at which the pe is found without moving it")
     raise ConvergenceError(MAX_ITERATIONS, PE_ROUNDS, abs(residual),
                            f"finding the pe of the {couple.text} couple of {recipe.origin}",
                            tolerance=RATIO_TOLERANCE,
