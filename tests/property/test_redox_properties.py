@@ -12,6 +12,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 import ionwright
+from ionwright.outputs._redox import state_weights
 from ionwright.core._system import log10_k_at
 from ionwright.errors import RecipeError
 from test_conservation import _element_totals as _elements
@@ -75,13 +76,9 @@ def test_without_a_redox_level_the_redox_table_changes_nothing(recipe):
 # -- analyses whose redox level is measured or set by a couple ---------------------------
 
 def _state_total(result, component: str) -> float:
-    """mol/kg of *component* of the tables before linking (Fe2+: every Fe(II) species)."""
-    base = ionwright.load_tables(list(result.recipe.tables))
-    total = 0.0
-    for name, m in zip(result.system.species, result.molality):
-        make = {name: 1.0} if name in base.components else base.resolve(name).stoichiometry
-        total += make.get(component, 0.0) * m
-    return total
+    """mol/kg of *component* of the tables before linking (Fe2+: every Fe(II) species)
+    that the solved sample holds."""
+    return float(state_weights(result.system, result.tables, component) @ result.molality)
 
 
 @st.composite

@@ -11,6 +11,7 @@ import numpy as np
 import pytest
 
 import ionwright
+from ionwright.outputs._redox import state_weights
 from ionwright.chemistry._redox import nernst_slope_V
 from ionwright.core._system import log10_k_at
 from ionwright.errors import RecipeError, UnknownNameError
@@ -24,14 +25,9 @@ FE_MG_PER_MMOL = 55.845
 
 
 def state_totals(result, component: str) -> float:
-    """mol/kg of the component *component* of the tables before linking (Fe2+: every
-    Fe(II) species) that the solved sample holds."""
-    base = ionwright.load_tables(list(result.recipe.tables))
-    total = 0.0
-    for name, m in zip(result.system.species, result.molality):
-        make = {name: 1.0} if name in base.components else base.resolve(name).stoichiometry
-        total += make.get(component, 0.0) * m
-    return total
+    """mol/kg of *component* of the tables before linking (Fe2+: every Fe(II) species)
+    that the solved sample holds."""
+    return float(state_weights(result.system, result.tables, component) @ result.molality)
 
 
 def analysed_molality(result, key: str) -> float:

@@ -25,16 +25,14 @@ from dataclasses import replace
 
 import numpy as np
 
-from ..chemistry._redox import ELECTRON, unlinked
-from ..chemistry._tableset import TableSet
-from ..core._system import ChemicalSystem
+from ..chemistry._redox import ELECTRON
 from ..errors import ConvergenceError, RecipeError
 from ..inputs._analysis import AnalysisFit
 from ..inputs._recipe import Recipe
 from ..inputs._redox_couple import CoupleConstraint
 from ..inputs._redox_level import PLAUSIBLE_PE
 from ..notices import VALIDITY, Notice
-from ..outputs._redox import couple_pe
+from ..outputs._redox import couple_pe, state_weights
 from ..plugins._registry import Registry
 from ..status import MAX_ITERATIONS, succeeded
 from ._compiled import CompiledRecipe
@@ -83,7 +81,8 @@ def pe_of_couple(recipe: Recipe, couple: CoupleConstraint, registry: Registry | 
     compiled = CompiledRecipe.of(replace(recipe, fix={**recipe.fix, "pe": start}), registry)
     fixed = compiled.fixed()
     column = compiled.system.components.index(ELECTRON)
-    reduced, oxidised = _counts(compiled.system, compiled.tables, couple)
+    reduced = state_weights(compiled.system, compiled.tables, couple.reduced)
+    oxidised = state_weights(compiled.system, compiled.tables, couple.oxidised)
     pe, slope = start, -couple.electrons
     last: tuple[float, float] | None = None
     for _ in range(PE_ROUNDS):
@@ -110,20 +109,6 @@ def pe_of_couple(recipe: Recipe, couple: CoupleConstraint, registry: Registry | 
                            f"finding the pe of the {couple.text} couple of {recipe.origin}",
                            tolerance=RATIO_TOLERANCE,
                            what="log10 ratio of the couple's forms, found − analysed")
-
-
-def _counts(system: ChemicalSystem, linked: TableSet, couple: CoupleConstraint
-            ) -> tuple[np.ndarray, np.ndarray]:
-    """Per species of the linked *system*, the mol of the couple's reduced and oxidised
-    component it holds (counted in the tables before linking: FeCl+ holds one Fe2+)."""
-    base = unlinked(linked) or linked
-    out = np.zeros((2, len(system.species)))
-    for j, name in enumerate(system.species):
-        make = ({name: 1.0} if name in base.components
-                else base.resolve(name, "species").stoichiometry)
-        out[0, j] = make.get(couple.reduced, 0.0)
-        out[1, j] = make.get(couple.oxidised, 0.0)
-    return out[0], out[1]
 
 
 def _held(recipe: Recipe, couple: CoupleConstraint, pe: float) -> Recipe:
