@@ -236,3 +236,51 @@ def test_a_ratio_out_of_reach_with_the_ph_free_asks_for_the_ph():
             "temperature_C": 5.0, "Fe(II)": "1.0 mg/L", "Fe(III)": "0.125 mg/L",
             "Ca": "5.0 mg/L", "Cl": "5.0 mg/L", "NO3": "4.0 mg/L as N",
             "ammonia": "1.0 mg/L as N", "redox_couple": "Fe(III)/Fe(II)"}})
+
+
+# -- batch columns ---------------------------------------------------------------------------
+
+def test_batch_rows_state_their_level_as_fix_does():
+    """pe, Eh, ORP with its electrode and dissolved oxygen per row; the pe and Eh of each
+    row are those of its single solve with [fix]; a row without a level has none."""
+    import pandas as pd
+
+    from ionwright.batch import _run as batch
+
+    frame = pd.DataFrame({
+        "FeCl2": [1e-4] * 5, "NaHCO3": [2e-3] * 5, "pH": [7.0] * 5,
+        "temperature_C": [12.0, 12.0, 45.0, 12.0, 12.0],
+        "pe": [3.0, None, None, None, None], "Eh [mV]": [None, 250.0, None, None, None],
+        "ORP [mV]": [None, None, 120.0, None, None],
+        "electrode": [None, None, "saturated calomel", None, None],
+        "dissolved_oxygen [%]": [None, None, None, 80.0, None]})
+    out = ionwright.solve_batch(frame)
+    fixes = [{"pe": 3.0}, {"Eh": "250 mV"}, {"ORP": "120 mV", "electrode": "saturated calomel"},
+             {"dissolved_oxygen": "80 %"}]
+    for k, fix in enumerate(fixes):
+        single = ionwright.solve({"temperature_C": float(frame["temperature_C"][k]),
+                                  "dissolve": {"FeCl2": 1e-4, "NaHCO3": 2e-3},
+                                  "fix": {"pH": 7.0, **fix}})
+        assert out[batch.PE_COLUMN][k] == pytest.approx(single.pe, abs=1e-10)
+        assert out[batch.EH_COLUMN][k] == pytest.approx(single.Eh_V, abs=1e-12)
+    assert "extrapolated" in out["message"][2]
+    assert np.isnan(out[batch.PE_COLUMN][4]) and np.isnan(out[batch.EH_COLUMN][4])
+
+
+@pytest.mark.parametrize("cells, words", [
+    ({"ORP [mV]": [200.0]}, ["'ORP [mV]'", "electrode"]),
+    ({"electrode": ["SCE"]}, ["'electrode'", "no ORP"]),
+    ({"pe": [40.0]}, ["'pe'", "outside"]),
+    ({"pe": [4.0], "Eh [mV]": [200.0]}, ["twice"]),
+    ({"dissolved_oxygen [mg/L]": [8.0], "pH": [None]}, ["'dissolved_oxygen [mg/L]'",
+                                                        "give the pH"]),
+    ({"pe": ["<2"]}, ["'pe'", "detection limit"]),
+])
+def test_bad_redox_cells_make_their_row_invalid(cells, words):
+    import pandas as pd
+
+    frame = pd.DataFrame({"NaCl": [1e-3], "pH": [7.0], **cells})
+    out = ionwright.solve_batch(frame)
+    assert out["status"][0] == "invalid"
+    for word in words:
+        assert word in out["message"][0]

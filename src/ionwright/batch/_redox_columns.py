@@ -55,9 +55,10 @@ def row_levels(columns: Sequence[Any], values: Mapping[str, np.ndarray],
         elif math.isfinite(ph[r]):
             pe[r] = pe_held_by_o2(tables, level.o2_pressure_atm, float(ph[r]), float(t_C[r]))
         else:
-            problem[r] = ("a batch row holds its dissolved oxygen as the pe that its O2 "
-                          "pressure gives at the row's pH: give the pH (or state pe, Eh or "
-                          "ORP)")
+            header = next(c.header for c in columns if c.key == "dissolved_oxygen")
+            problem[r] = (f"column {header!r}: a batch row holds its dissolved oxygen as "
+                          "the pe that its O2 pressure gives at the row's pH: give the pH "
+                          "(or state pe, Eh or ORP)")
             continue
         notes[r] = "; ".join(notice.text for notice in level.notices)
     return pe, notes
