@@ -39,6 +39,25 @@ def _recipe(row: pd.Series) -> dict:
     return recipe
 
 
+def _solved_alike(row: pd.Series, recipe: dict):
+    """The single solve of *recipe*, checked against its batch *row* (status, pH and the
+    molality of every species the row has a column for, within 1e-12); None when the
+    single solve fails, as the row must then have."""
+    try:
+        single = ionwright.solve(recipe)
+    except ionwright.IonwrightError:
+        assert row["status"] != "converged"
+        return None
+    assert row["status"] == "converged", row["message"]
+    assert row[batch.PH_COLUMN] == pytest.approx(single.pH, abs=1e-12)
+    for name in single.system.species:
+        column = batch.species_column(name)
+        if column in row.index:
+            assert row[column] == pytest.approx(single.species_molality(name), rel=1e-12,
+                                                abs=1e-300)
+    return single
+
+
 @settings(max_examples=30)
 @given(frames())
 def test_a_batch_equals_one_single_solve_per_row(frame):
@@ -50,16 +69,9 @@ def test_a_batch_equals_one_single_solve_per_row(frame):
         recipe = _recipe(frame.iloc[k])
         if not any(v > 0 for v in recipe["dissolve"].values()) and "fix" not in recipe:
             recipe["dissolve"] = {}
-        try:
-            single = ionwright.solve(recipe)
-        except ionwright.IonwrightError:
-            assert row["status"] != "converged"
-            continue
-        assert row["status"] == "converged", row["message"]
-        assert row[batch.PH_COLUMN] == pytest.approx(single.pH, abs=1e-12)
-        for name in single.system.species:
-            assert row[batch.species_column(name)] == pytest.approx(
-                single.species_molality(name), rel=1e-12, abs=1e-300)
+        single = _solved_alike(row, recipe)
+        if single is not None:
+            assert all(batch.species_column(n) in row.index for n in single.system.species)
 
 
 @settings(max_examples=20)
@@ -116,3 +128,46 @@ def test_a_batch_rows_formulation_columns_are_the_single_solves(frame, model):
         assert row["water activity"] == pytest.approx(single.osmotic.water_activity, rel=1e-12)
         assert row["conductivity [mS/cm]"] == pytest.approx(
             single.conductivity_mS_per_cm, rel=1e-9, abs=1e-12)
+
+
+REDOX_POOL = ["FeCl2", "FeCl3", "NaNO3", "NH4Cl", "Na2SO4", "NaHCO3", "NaCl"]
+
+
+@st.composite
+def redox_frames(draw):
+    """Rows of redox-active ingredients, a pe column with some cells empty (those rows
+    state no level) and a pH column with some cells empty."""
+    names = draw(st.lists(st.sampled_from(REDOX_POOL), min_size=1, max_size=4, unique=True))
+    rows = draw(st.integers(min_value=1, max_value=6))
+    amount = st.floats(min_value=1e-5, max_value=5e-3)
+    data = {n: [draw(amount) for _ in range(rows)] for n in names}
+    data["temperature_C"] = [draw(st.floats(min_value=5.0, max_value=40.0))
+                             for _ in range(rows)]
+    data["pH"] = [draw(st.one_of(st.just(np.nan), st.floats(min_value=4.0, max_value=9.0)))
+                  for _ in range(rows)]
+    data["pe"] = [draw(st.one_of(st.just(np.nan), st.floats(min_value=-4.0, max_value=14.0)))
+                  for _ in range(rows)]
+    return pd.DataFrame(data)
+
+
+@settings(max_examples=20, deadline=None)
+@given(redox_frames())
+def test_a_batch_row_with_a_redox_level_is_its_single_solve(frame):
+    """A row with a pe is the single solve of its recipe with [fix] pe (pH, pe, Eh and
+    every species within 1e-12); a row without one has NaN in the pe and Eh columns."""
+    out = ionwright.solve_batch(frame)
+    for k in range(len(frame)):
+        row, given_ = out.iloc[k], frame.iloc[k]
+        recipe = {"temperature_C": float(given_["temperature_C"]),
+                  "dissolve": {n: float(given_[n]) for n in REDOX_POOL if n in given_.index}}
+        fix = {key: float(given_[key]) for key in ("pH", "pe") if np.isfinite(given_[key])}
+        if fix:
+            recipe["fix"] = fix
+        single = _solved_alike(row, recipe)
+        if single is None:
+            continue
+        if single.pe is None:
+            assert np.isnan(row[batch.PE_COLUMN]) and np.isnan(row[batch.EH_COLUMN])
+        else:
+            assert row[batch.PE_COLUMN] == pytest.approx(single.pe, abs=1e-12)
+            assert row[batch.EH_COLUMN] == pytest.approx(single.Eh_V, abs=1e-12)

@@ -53,10 +53,12 @@ class _Column:
 
 def convert_analyses(columns: Sequence[Any], values: Mapping[str, np.ndarray],
                      t_C: np.ndarray, ph: np.ndarray, balance: Sequence[str],
-                     tables: TableSet, model) -> Converted:
+                     tables: TableSet, model, pe: np.ndarray | None = None) -> Converted:
     """Convert m analysis rows: *columns* are the plan's analysis columns, *values* their
     cells for these rows, *ph* NaN where not measured, *balance* the ion to balance on
-    ("" for none). A row that cannot be converted gets its problem, never an exception."""
+    ("" for none), *pe* the pe a row holds (NaN for none: its fit then links no
+    oxidation states). A row that cannot be converted gets its problem, never an
+    exception."""
     m = t_C.shape[0]
     problem = [""] * m
     analytes: list[_Column] = []
@@ -106,12 +108,18 @@ def convert_analyses(columns: Sequence[Any], values: Mapping[str, np.ndarray],
     totals: list[dict[str, float]] = [{} for _ in range(m)]
     water = np.full(m, np.nan)
     has_alkalinity = (alkalinity != 0) & np.isfinite(ph)
-    keys = [(targets[r], bool(has_alkalinity[r])) for r in range(m)]
+    held = np.full(m, np.nan) if pe is None else pe
+    keys = [(targets[r], bool(has_alkalinity[r]), bool(np.isfinite(held[r])))
+            for r in range(m)]
     for key in sorted(set(keys)):
         rows = np.array([r for r in range(m) if keys[r] == key and not problem[r]], dtype=int)
-        if rows.size:
-            _convert_group(rows, key, entries, t_C, ph, density, alkalinity, tables, model,
-                           totals, water, problem)
+        if not rows.size:
+            continue
+        try:
+            _convert_group(rows, key, entries, t_C, ph, held, density, alkalinity, tables,
+                           model, totals, water, problem)
+        except RecipeError as exc:   # a balance ion that the held pe links
+            _flag(problem, np.isin(np.arange(m), rows), f"{exc.problem}; {exc.hint}")
     return Converted(totals, water, problem)
 
 
@@ -178,14 +186,14 @@ def _balance_components(balance: Sequence[str], analytes: Sequence[_Column],
     return out
 
 
-def _convert_group(rows: np.ndarray, key: tuple[str, bool], entries: Sequence[Entry],
-                   t_C: np.ndarray, ph: np.ndarray, density: np.ndarray,
+def _convert_group(rows: np.ndarray, key: tuple[str, bool, bool], entries: Sequence[Entry],
+                   t_C: np.ndarray, ph: np.ndarray, pe: np.ndarray, density: np.ndarray,
                    alkalinity: np.ndarray, tables: TableSet, model,
                    totals: list[dict[str, float]], water: np.ndarray,
                    problem: list[str]) -> None:
     """Rows that fit the same unknowns: make up and fit, in rounds, until the fitted totals
     settle (as :func:`ionwright.engine._fits.fit_analyses` does for one analysis)."""
-    balance, with_alkalinity = key
+    balance, with_alkalinity, linked = key
     unknowns = ((CARBONATE,) if with_alkalinity else ()) + ((balance,) if balance else ())
     picked = [_take(e, rows) for e in entries]
     fitted = np.zeros((rows.size, len(unknowns)))
@@ -203,7 +211,7 @@ def _convert_group(rows: np.ndarray, key: tuple[str, bool], entries: Sequence[En
             made.names, made.totals[live], t_C[here], ph[here],
             alkalinity[here] * (1.0 / made.water[live]) if with_alkalinity else None,
             balance or None, fitted[live] if round_ > 0 else np.zeros_like(fitted[live]),
-            tables, model, "analysis", jacobian[live])
+            tables, model, "analysis", jacobian[live], pe[here] if linked else None)
         jacobian[live] = ended
         for j, k in enumerate(live.tolist()):
             if errors[j] is not None:

@@ -23,6 +23,8 @@ from ..outputs._conductivity import conductivity
 from ..outputs._osmolality import WATER_KG_PER_MOL, osmotic_coefficients
 from ..outputs._solved_samples import SolvedSamples
 from ..chemistry._formula import parse_formula
+from ..chemistry._redox import ELECTRON, unlinked
+from ..inputs._redox_couple import couple_forms
 
 #: Output column of each number of the ``"derived"`` object (fractions become percent).
 DERIVED_COLUMNS = {
@@ -132,7 +134,10 @@ class DerivedTable:
         off = np.abs(arrays["charge_balance_error_percent"]) > limit
         self.columns[BALANCE_FLAG_COLUMN][rows] = off
         if self.options.ions:
+            mixed = _mixed_states(samples)
             for comp, (mg, meq) in ion_columns(samples).items():
+                if comp in mixed:
+                    continue
                 self.columns[ion_mass_column(comp)][rows] = mg
                 if meq is not None:
                     self.columns[ion_equivalents_column(comp)][rows] = meq
@@ -161,3 +166,13 @@ class DerivedTable:
                              samples.water_kg_per_L)
         kappa[rows] = found.mS_per_cm
         return list(found.flags)
+
+
+def _mixed_states(samples: SolvedSamples) -> set[str]:
+    """Components whose total holds several oxidation states in rows solved with them
+    linked (Fe3+ then counts all iron, e- the electrons): their ion columns stay empty
+    rather than name one state for the sum."""
+    base = unlinked(samples.tables)
+    if base is None:
+        return set()
+    return {ELECTRON, *couple_forms(base).values()}

@@ -12,6 +12,10 @@ One row is one sample. Columns are read by their header:
   ingredient in that unit (``NaCl [g/L]``); both are converted exactly as a recipe's
   ``[analysis]`` or ``[dissolve]`` would be (:mod:`ionwright.recipe`,
   :mod:`ionwright.analysis`);
+* ``pe``, ``Eh [mV]``, ``ORP [mV]`` with a text column ``electrode``, or
+  ``dissolved_oxygen [mg/L]`` (or ``[%]``) state a row's redox level as a recipe's
+  ``[fix]`` does (:mod:`._redox_columns`); such rows are solved with the oxidation states
+  linked and that pe held, and get ``solved pe`` and ``Eh [V]`` (NaN for other rows);
 * a column of text that names no ingredient (a sample id, a site) is carried through.
 
 The output holds every input column first, then the solved pH, the ionic strength, the
@@ -55,6 +59,7 @@ from ..inputs._recipe import DEFAULT_TABLES, MOLALITY_CEILING, Recipe, solution_
 from ..engine._totals import component_totals, negative_totals
 from ..outputs._solved_samples import SolvedSamples
 from ._analyses import convert_analyses
+from ._redox_columns import ELECTRODE_HEADER, PE_HEADER, WITH_UNIT, row_levels
 from ._cells import (BELOW_LIMIT_COLUMN, DEFAULT_DETECTION_POLICY, NOT_ANALYSED_COLUMN, Gaps,
                      numeric_column, read_cells)
 from ._progress import ProgressCallback, RowProgress
@@ -64,6 +69,8 @@ from ..status import CONVERGED, INVALID
 from ..chemistry._constants import LN10
 from ..core._phases import _take
 from ..core._saturation import saturation_indices
+from ..chemistry._redox import ELECTRON, eh_from_pe, electron_tables
+from ..engine._fits import in_linked_columns
 from ..outputs._uncertainty import batch_pH_uncertainty
 from ..inputs._checks import PLAUSIBLE_PH
 from ..inputs._solubility_limits import implausible_rows
@@ -76,6 +83,8 @@ if TYPE_CHECKING:
 
 STATUS_COLUMN, MESSAGE_COLUMN = "status", "message"
 PH_COLUMN = "solved pH"
+PE_COLUMN = "solved pe"
+EH_COLUMN = "Eh [V]"
 PH_UNCERTAINTY_COLUMN = "pH uncertainty, constants [1 s.d.]"
 IONIC_STRENGTH_COLUMN = "ionic strength [mol/kg]"
 TEMPERATURE_NAMES = ("temperature_C", "temperature [C]", "temperature [°C]")
@@ -123,7 +132,7 @@ class Plan:
     derived: DerivedOptions = DerivedOptions()
 
     def output_columns(self) -> list[str]:
-        return [PH_COLUMN, PH_UNCERTAINTY_COLUMN, IONIC_STRENGTH_COLUMN,
+        return [PH_COLUMN, PH_UNCERTAINTY_COLUMN, PE_COLUMN, EH_COLUMN, IONIC_STRENGTH_COLUMN,
                 *derived_headers(self.components, self.derived),
                 *map(species_column, self.species),
                 *map(saturation_column, self.solids), NOT_ANALYSED_COLUMN, BELOW_LIMIT_COLUMN,
@@ -177,6 +186,10 @@ def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Colu
         return Column(header, "pH")
     if header == BALANCE_COLUMN:
         return Column(header, "balance_on", header)
+    if header == PE_HEADER:
+        return Column(header, "redox", header)
+    if header == ELECTRODE_HEADER:
+        return Column(header, "electrode", header)
     if header in TEMPERATURE_NAMES:
         return Column(header, "temperature")
     match = _HEADER_UNIT.match(header)
@@ -192,6 +205,8 @@ def _read_header(header: str, tables: TableSet, label: bool, text: bool) -> Colu
         return Column(header, "ingredient", header, components=tuple(made.per_mole))
     name, unit = match["name"].strip(), match["unit"].strip()
     where = f"column {header!r}"
+    if name in WITH_UNIT:  # read with its unit, cell by cell, as [fix] reads it
+        return Column(header, "redox", name, unit)
     try:
         parse_quantity(f"1 {unit}", where)
     except RecipeError as exc:
@@ -231,6 +246,8 @@ class Samples:
     water_kg_per_L: np.ndarray    # (n,) of the row's solution (given or estimated density)
     analysis: np.ndarray          # (n,) bool: rows read as water analyses
     gaps: Gaps                    # blank cells and values below a detection limit
+    fixed_pe: np.ndarray          # (n,) NaN where no redox level is stated
+    redox_notes: list[str]        # (n,) what reading a row's level found ("" for nothing)
 
 
 def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
@@ -250,12 +267,18 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
     values: dict[str, np.ndarray] = {}
     gaps = Gaps(n, detection_limit)
     balance = [""] * n
+    electrode = [""] * n
     for k, col in enumerate(plan.columns):
         if col.kind == "label":
             continue
         raw = frame.iloc[:, k]
         if col.kind == "balance_on":
-            balance = _balance_cells(raw, problem)
+            balance = _text_cells(raw, problem, BALANCE_COLUMN, "an ion, e.g. Cl")
+            continue
+        if col.kind == "electrode":
+            electrode = _text_cells(raw, problem, ELECTRODE_HEADER,
+                                    "the ORP meter's reference electrode, e.g. "
+                                    "'Ag/AgCl, 3 M KCl'")
             continue
         if pd.api.types.is_bool_dtype(raw):  # yes/no values are no amount
             _flag(problem, raw.notna().to_numpy(), lambda r: f"column {col.header!r}: "
@@ -263,9 +286,9 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
                   "through unread as a label)")
         cells = read_cells(raw, detection_limit)
         numbers, empty = cells.numbers, cells.blank
-        if col.kind in ("pH", "temperature"):
+        if col.kind in ("pH", "temperature", "redox"):
             _flag(problem, cells.below, lambda r: f"column {col.header!r}: {raw.iloc[r]!r} "
-                  f"is a detection limit, not a {col.kind}")
+                  f"is a detection limit, not a {col.key or col.kind}")
         else:
             gaps.add(col.header, cells)
         _flag(problem, cells.unreadable, lambda r: f"column {col.header!r}: {raw.iloc[r]!r} "
@@ -289,7 +312,7 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
                   f"{lo:g}–{hi:g} °C")
             temperature = np.where(np.isfinite(numbers), numbers, DEFAULT_TEMPERATURE_C)
             gaps.note(empty, f"temperature not given: {DEFAULT_TEMPERATURE_C:g} °C assumed")
-        elif col.key != "alkalinity":  # a Gran alkalinity may be negative
+        elif col.key != "alkalinity" and col.kind != "redox":  # Gran alkalinity, Eh < 0
             _flag(problem, numbers < 0, lambda r: f"column {col.header!r}: {numbers[r]:g} is "
                   "negative; amounts must be ≥ 0")
             if col.kind == "ingredient":  # plain mol/kg, as a recipe's plausibility check
@@ -320,10 +343,14 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
     measured &= np.array([not p for p in problem], dtype=bool)
     for col in plain:  # a row with plain ingredients is a recipe, not an analysis
         measured &= ~(np.nan_to_num(values[col.header]) != 0)
-    _analysis_rows(np.flatnonzero(measured), plan, values, temperature, fixed_ph, balance,
-                   tables, model, registry, problem, totals, water, analysis)
+    fixed_pe, redox_notes = row_levels([c for c in plan.columns if c.kind == "redox"],
+                                       values, electrode, temperature, fixed_ph, tables,
+                                       problem)
+    measured &= np.array([not p for p in problem], dtype=bool)
+    _analysis_rows(np.flatnonzero(measured), plan, values, temperature, fixed_ph, fixed_pe,
+                   balance, tables, model, registry, problem, totals, water, analysis)
     for r, recipe in _recipe_rows(plan, values, by_recipe & ~measured, problem, tables, model,
-                                  registry, balance):
+                                  registry, balance, fixed_pe):
         row_totals, _ = component_totals(recipe, tables)
         totals[r] = [row_totals.get(c, 0.0) for c in comps]
         temperature[r] = recipe.temperature_C
@@ -332,11 +359,13 @@ def read_samples(frame: pd.DataFrame, plan: Plan, tables: TableSet, model: str,
         analysis[r] = recipe.from_analysis
     _flag(problem, negative_totals(comps, totals),
           lambda r: "the ingredients give a negative total of a component")
-    return Samples(totals, temperature, fixed_ph, problem, water, analysis, gaps)
+    return Samples(totals, temperature, fixed_ph, problem, water, analysis, gaps, fixed_pe,
+                   redox_notes)
 
 
-def _balance_cells(raw, problem: list[str]) -> list[str]:
-    """The ion each row balances on ("" for none) from a ``balance_on`` column."""
+def _text_cells(raw, problem: list[str], header: str, what: str) -> list[str]:
+    """The text of each cell of a column of names (``balance_on``, ``electrode``), ""
+    where blank; a cell that is no text gives its row a problem."""
     import pandas as pd
 
     out = []
@@ -349,13 +378,14 @@ def _balance_cells(raw, problem: list[str]) -> list[str]:
         else:
             out.append("")
             if not problem[r]:
-                problem[r] = (f"column {BALANCE_COLUMN!r}: {value!r} must name an ion, e.g. "
-                              "Cl (or leave it blank)")
+                problem[r] = (f"column {header!r}: {value!r} must name {what} (or leave "
+                              "it blank)")
     return out
 
 
 def _analysis_rows(rows: np.ndarray, plan: Plan, values: Mapping[str, np.ndarray],
-                   temperature: np.ndarray, fixed_ph: np.ndarray, balance: Sequence[str],
+                   temperature: np.ndarray, fixed_ph: np.ndarray, fixed_pe: np.ndarray,
+                   balance: Sequence[str],
                    tables: TableSet, model: str, registry: Registry, problem: list[str],
                    totals: np.ndarray, water: np.ndarray, analysis: np.ndarray) -> None:
     """Convert the water-analysis *rows* together (:mod:`._analyses`) into *totals*,
@@ -365,7 +395,8 @@ def _analysis_rows(rows: np.ndarray, plan: Plan, values: Mapping[str, np.ndarray
     columns = [c for c in plan.columns if c.kind == "analysis" and not c.problem]
     converted = convert_analyses(columns, {c.header: values[c.header][rows] for c in columns},
                                  temperature[rows], fixed_ph[rows],
-                                 [balance[r] for r in rows], tables, registry.model(model))
+                                 [balance[r] for r in rows], tables, registry.model(model),
+                                 fixed_pe[rows])
     index = {c: j for j, c in enumerate(plan.components)}
     for k, r in enumerate(rows):
         if converted.problem[k]:
@@ -379,7 +410,7 @@ def _analysis_rows(rows: np.ndarray, plan: Plan, values: Mapping[str, np.ndarray
 
 def _recipe_rows(plan: Plan, values: Mapping[str, np.ndarray], by_recipe: np.ndarray,
                  problem: list[str], tables: TableSet, model: str, registry: Registry,
-                 balance: Sequence[str]) -> Iterator[tuple[int, Recipe]]:
+                 balance: Sequence[str], fixed_pe: np.ndarray) -> Iterator[tuple[int, Recipe]]:
     """(row, complete recipe) of every valid row read as a recipe or an analysis; the
     analyses' fits are resolved together (:func:`ionwright.engine._fits.fit_analyses`),
     a row whose reading or fit fails gets its problem instead."""
@@ -392,7 +423,8 @@ def _recipe_rows(plan: Plan, values: Mapping[str, np.ndarray], by_recipe: np.nda
         if problem[r]:
             continue
         try:
-            recipe = _recipe_row(plan, values, r, tables, model, registry, balance[r])
+            recipe = _recipe_row(plan, values, r, tables, model, registry, balance[r],
+                                 float(fixed_pe[r]))
             if isinstance(recipe.pending, AnalysisFit):
                 pending.append((r, recipe, recipe.pending))
                 continue
@@ -423,9 +455,11 @@ def _flag(problem: list[str], mask: np.ndarray, message) -> None:
 
 
 def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: TableSet,
-                model: str, registry: Registry, balance_on: str = "") -> Recipe:
+                model: str, registry: Registry, balance_on: str = "",
+                pe: float = math.nan) -> Recipe:
     """The recipe of row *r* read as a recipe or an analysis (balanced on the ion
-    *balance_on* when given), as read: what needs an equilibrium is still pending."""
+    *balance_on* when given, holding *pe* when finite), as read: what needs an
+    equilibrium is still pending."""
     from ..inputs._recipe import read_recipe
 
     cells = {c.header: float(values[c.header][r]) for c in plan.columns if c.header in values}
@@ -452,11 +486,14 @@ def _recipe_row(plan: Plan, values: Mapping[str, np.ndarray], r: int, tables: Ta
         analysis["temperature_C"] = t
         if math.isfinite(ph):
             analysis["pH"] = float(ph)
+        if math.isfinite(pe):
+            analysis["pe"] = pe
         data["analysis"] = analysis
     else:
         data.update(temperature_C=t, dissolve=dissolve)
-        if math.isfinite(ph):
-            data["fix"] = {"pH": float(ph)}
+        fix = {k: v for k, v in (("pH", float(ph)), ("pe", pe)) if math.isfinite(v)}
+        if fix:
+            data["fix"] = fix
     return read_recipe(data, registry)
 
 
@@ -484,6 +521,8 @@ class Solved:
     message: np.ndarray           # (n,) of str
     derived: DerivedTable
     ph_uncertainty: np.ndarray    # (n,) from the constants' uncertainties
+    pe: np.ndarray                # (n,) NaN for rows without a redox level
+    eh: np.ndarray                # (n,) V against the standard hydrogen electrode
 
 
 def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: str,
@@ -495,16 +534,18 @@ def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: st
     out = Solved(np.full(n, np.nan), np.full(n, np.nan),
                  np.full((n, len(plan.species)), np.nan), np.full((n, len(plan.solids)), np.nan),
                  np.full(n, INVALID, dtype=object), np.array(samples.problem, dtype=object),
-                 DerivedTable(n, plan.components, plan.derived), np.full(n, np.nan))
+                 DerivedTable(n, plan.components, plan.derived), np.full(n, np.nan),
+                 np.full(n, np.nan), np.full(n, np.nan))
     model = registry.model(model_name)
     proton = plan.components.index(PROTON)
     present = samples.totals > 0
     present[:, proton] = False
     fixed = np.isfinite(samples.fixed_ph)
+    held_pe = np.isfinite(samples.fixed_pe)
     valid = np.array([not p for p in samples.problem], dtype=bool)
     progress = progress or RowProgress(n, None)
     progress.advance(int(np.count_nonzero(~valid)))  # invalid rows need no solve
-    keys = np.concatenate([present, fixed[:, None]], axis=1)
+    keys = np.concatenate([present, fixed[:, None], held_pe[:, None]], axis=1)
     candidates = np.flatnonzero(valid)
     if not candidates.size:
         return _with_gaps(out, samples.gaps)
@@ -513,31 +554,41 @@ def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: st
     bounds = np.flatnonzero(np.diff(group[order])) + 1
     for rows in np.split(candidates[order], bounds):
         comps = [plan.components[j] for j in np.flatnonzero(present[rows[0]])]
-        system = compile_system(tables, comps, ion_pairs_of(model))
-        kept = _refuse_implausible(system, rows, samples, plan, tables, out)
-        progress.advance(len(rows) - len(kept))
-        if not kept.size:
+        group_tables, names, totals = tables, list(plan.components), samples.totals[rows]
+        if held_pe[rows[0]]:   # the oxidation states linked, the electron held
+            group_tables = electron_tables(tables)
+            names, totals = in_linked_columns(plan.components, totals, group_tables)
+            comps = [c for j, c in enumerate(names)
+                     if c not in (PROTON, ELECTRON) and totals[0, j] > 0] + [ELECTRON]
+        system = compile_system(group_tables, comps, ion_pairs_of(model))
+        aligned = np.zeros((len(rows), system.n_components))
+        for j, c in enumerate(system.components):
+            if c in names:
+                aligned[:, j] = totals[:, names.index(c)]
+        keep = _plausible(system, rows, aligned, samples, group_tables, out)
+        progress.advance(int(np.count_nonzero(~keep)))
+        if not keep.any():
             continue
-        rows = kept
+        rows, aligned = rows[keep], aligned[keep]
         counter = progress.group(len(rows))
-        _solve_group(system, rows, samples, plan, tables, model, bool(fixed[rows[0]]), out,
-                     threads, counter.chunk)
+        _solve_group(system, rows, aligned, samples, plan, group_tables, model,
+                     bool(fixed[rows[0]]), out, threads, counter.chunk)
         counter.close()
     return _with_gaps(out, samples.gaps)
 
 
-def _refuse_implausible(system: ChemicalSystem, rows: np.ndarray, samples: Samples,
-                        plan: Plan, tables: TableSet, out: Solved) -> np.ndarray:
-    """The *rows* left to solve once those no solution could hold (a soluble salt at ten
-    times its solubility product, or an ionic strength past any model) are marked invalid,
-    as a single solve refuses them (inputs/_solubility_limits.py)."""
-    cols = [plan.components.index(c) for c in system.components]
-    said = implausible_rows(system.components, system.strong_ion_charges, tables,
-                            samples.totals[rows][:, cols], samples.temperature[rows])
+def _plausible(system: ChemicalSystem, rows: np.ndarray, totals: np.ndarray, samples: Samples,
+               tables: TableSet, out: Solved) -> np.ndarray:
+    """Which of *rows* (with *totals* over the system's components) to solve: those no
+    solution could hold (a soluble salt at ten times its solubility product, or an ionic
+    strength past any model) are marked invalid, as a single solve refuses them
+    (inputs/_solubility_limits.py)."""
+    said = implausible_rows(system.components, system.strong_ion_charges, tables, totals,
+                            samples.temperature[rows])
     refused = np.array([bool(m) for m in said], dtype=bool)
     for r, message in zip(rows[refused], np.array(said, dtype=object)[refused]):
         out.message[r] = message
-    return rows[~refused]
+    return ~refused
 
 
 def _with_gaps(out: Solved, gaps: Gaps) -> Solved:
@@ -549,16 +600,20 @@ def _with_gaps(out: Solved, gaps: Gaps) -> Solved:
     return out
 
 
-def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, plan: Plan,
-                 tables: TableSet, model, fixed: bool, out: Solved,
-                 threads: int | None = None,
+def _solve_group(system: ChemicalSystem, rows: np.ndarray, totals: np.ndarray,
+                 samples: Samples, plan: Plan, tables: TableSet, model, fixed: bool,
+                 out: Solved, threads: int | None = None,
                  on_chunk: Callable[[int], None] | None = None) -> None:
-    cols = [plan.components.index(c) for c in system.components]
-    totals = samples.totals[rows][:, cols]
+    """Solve the *rows* of one chemical system, their *totals* (rows, components of
+    *system*) at once, and fill their outputs in *out*."""
     t = samples.temperature[rows]
     pinned = np.full(totals.shape, np.nan)
     if fixed:
         pinned[:, 0] = -samples.fixed_ph[rows]
+    electron = (system.components.index(ELECTRON) if ELECTRON in system.components
+                else None)
+    if electron is not None:
+        pinned[:, electron] = -samples.fixed_pe[rows]
     bound = model.bind(system.properties, t)
     eq = solver.solve(system, totals, bound, pinned, threads=threads, on_chunk=on_chunk)
     status = eq.status.copy()
@@ -575,7 +630,11 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, pla
     out.ph[good] = -eq.log_activity[ok, 0] / LN10
     converged = np.flatnonzero(ok)
     out.ph_uncertainty[good] = batch_pH_uncertainty(
-        system, tables, _take(eq, converged), solver.bound_slice(bound, converged), fixed)
+        system, tables, _take(eq, converged), solver.bound_slice(bound, converged), fixed,
+        electron is not None)
+    if electron is not None:
+        out.pe[good] = -eq.log_activity[ok, electron] / LN10
+        out.eh[good] = eh_from_pe(out.pe[good], t[ok])
     out.ionic_strength[good] = eq.ionic_strength[ok]
     index = {name: i for i, name in enumerate(system.species)}
     for j, name in enumerate(plan.species):
@@ -592,6 +651,8 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, samples: Samples, pla
     metals = _drinking_water_flag(system, tables, totals)
     if metals is not None:
         flagged.append(metals)
+    for note in set(samples.redox_notes[r] for r in rows) - {""}:   # an ORP extrapolated
+        flagged.append((note, np.array([samples.redox_notes[r] == note for r in rows])))
     for col in plan.columns:  # an oxidation state assumed, as the single analysis says
         if col.note and col.components[0] in system.components:
             j = system.components.index(col.components[0])
@@ -745,6 +806,7 @@ def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: s
     solved = solve_samples(samples, plan, table_set, model, registry, threads,
                            RowProgress(len(frame), progress))
     results = {PH_COLUMN: solved.ph, PH_UNCERTAINTY_COLUMN: solved.ph_uncertainty,
+               PE_COLUMN: solved.pe, EH_COLUMN: solved.eh,
                IONIC_STRENGTH_COLUMN: solved.ionic_strength}
     results.update(solved.derived.columns)
     for j, name in enumerate(plan.species):

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..chemistry._redox import unlinked
+from ..chemistry._redox import ELECTRON, unlinked
 from ._system import PROTON, WATER, ChemicalSystem
 from ..chemistry._constants import LN10
 
@@ -62,7 +62,20 @@ def alkalinity_weights_at(system: ChemicalSystem, t_C: np.ndarray) -> np.ndarray
             continue
         score = formation[:, members] - nu[members, 0] * ALKALINITY_END_POINT_PH
         level[:, j] = nu[members[np.argmax(score, axis=1)], 0]
-    return level[:, 1:] @ nu[:, 1:].T - nu[:, 0]
+    weights = level[:, 1:] @ nu[:, 1:].T - nu[:, 0]
+    weights[:, _water_redox_forms(system)] = 0.0
+    return weights
+
+
+def _water_redox_forms(system: ChemicalSystem) -> np.ndarray:
+    """Indexes of the species made of electrons, protons and water alone (O2(aq) is
+    2H2O − 4H+ − 4e-, H2(aq) 2H+ + 2e-): the redox forms of water itself, which take up
+    no acid in an alkalinity titration, whatever their proton count in that basis."""
+    base = unlinked(system.tables) or system.tables
+    return np.array([j for j, name in enumerate(system.species)
+                     if name not in base.components
+                     and ELECTRON in (make := base.resolve(name).stoichiometry)
+                     and set(make) <= {ELECTRON, PROTON, WATER}], dtype=int)
 
 
 def _own_states(system: ChemicalSystem) -> np.ndarray:

@@ -11,6 +11,11 @@ and the single solve of that row fit the same totals.
 Each Newton step costs one batched solve of every row still fitting: the Jacobian is read
 from that solve's speciation (what one more mole of carbonate or of the balancing ion
 adds to the alkalinity and to the charge, at the fixed pH), not from extra solves.
+
+An analysis that states a redox level is fitted at it: with the oxidation states linked
+(:func:`ionwright.chemistry._redox.electron_tables`) and the pe held, so that the sample
+the engine solves afterwards, at the same pe, gives back the measured alkalinity. A
+dissolved oxygen holds the pe that its O2 pressure gives at the measured pH.
 """
 
 from __future__ import annotations
@@ -22,11 +27,12 @@ import numpy as np
 
 from ..activity._pairs import ion_pairs_of
 from ..chemistry._constants import LN10
+from ..chemistry._redox import ELECTRON, electron_tables, in_linked_basis
 from ..chemistry._tableset import TableSet
 from ..core import _solver as solver
 from ..core._acid_base import alkalinity_weights_at, series
 from ..core._sparse import weighted_sum
-from ..core._system import ChemicalSystem, compile_system
+from ..core._system import WATER, ChemicalSystem, compile_system
 from ._compiled import TRACE
 from ..errors import ConvergenceError, IonwrightError, RecipeError
 from ..status import MAX_ITERATIONS
@@ -34,6 +40,7 @@ from ..inputs._analysis import CARBONATE, AnalysisFit, analysis_mixture, finish_
 from ..inputs._recipe import Recipe
 from ..plugins._registry import Registry, default_registry
 from ..plugins._table_sets import load_tables
+from ._redox_level import pe_held_by_o2
 
 FIT_TOLERANCE = 1e-12
 FIT_ROUNDS = 60
@@ -100,7 +107,7 @@ def fit_analyses(items: Sequence[tuple[Recipe, AnalysisFit]], registry: Registry
                                       None if fit.alkalinity is None
                                       else fit.alkalinity[0] * litres_per_kg,
                                       None if fit.balance is None else fit.balance[1],
-                                      fitted[i], jacobians[i])))
+                                      fitted[i], jacobians[i], held_pe(fit, tables))))
         found = fit_totals([t for _, t in targets], tables, model)
         for (i, _), got in zip(targets, found):
             if isinstance(got, IonwrightError):
@@ -132,6 +139,7 @@ class Target:
     balance: str | None
     guess: Mapping[str, float]
     jacobian: np.ndarray | None = None   # (k, k) from a previous fit of the same sample
+    pe: float | None = None              # the pe held (the oxidation states linked)
 
     @property
     def unknowns(self) -> tuple[str, ...]:
@@ -148,8 +156,9 @@ def fit_totals(targets: Sequence[Target], tables: TableSet, model
         RecipeError("fit", "not fitted")] * len(targets)
     by_unknowns: dict[tuple, list[int]] = {}
     for k, target in enumerate(targets):
-        by_unknowns.setdefault((target.unknowns, target.balance), []).append(k)
-    for (unknowns, balance), members in by_unknowns.items():
+        by_unknowns.setdefault((target.unknowns, target.balance, target.pe is not None),
+                               []).append(k)
+    for (unknowns, balance, linked), members in by_unknowns.items():
         names = list(dict.fromkeys(c for k in members for c in targets[k].totals))
         chosen = [targets[k] for k in members]
         totals = np.array([[t.totals.get(c, 0.0) for c in names] for t in chosen])
@@ -159,9 +168,10 @@ def fit_totals(targets: Sequence[Target], tables: TableSet, model
         size = len(unknowns)
         jacobian = np.array([t.jacobian if t.jacobian is not None
                              else np.full((size, size), np.nan) for t in chosen])
+        pe = np.array([t.pe for t in chosen], dtype=float) if linked else None
         x, jac, errors = fit_rows(names, totals, np.array([t.t_C for t in chosen]),
                                   np.array([t.ph for t in chosen]), alkalinity, balance,
-                                  guess, tables, model, chosen[0].where, jacobian)
+                                  guess, tables, model, chosen[0].where, jacobian, pe)
         for j, k in enumerate(members):
             out[k] = errors[j] or (dict(zip(unknowns, x[j].tolist())), jac[j])
     return out
@@ -170,23 +180,32 @@ def fit_totals(targets: Sequence[Target], tables: TableSet, model
 def fit_rows(names: Sequence[str], totals: np.ndarray, t_C: np.ndarray, ph: np.ndarray,
              alkalinity: np.ndarray | None, balance: str | None, guess: np.ndarray,
              tables: TableSet, model, where: str = "analysis",
-             jacobian: np.ndarray | None = None
+             jacobian: np.ndarray | None = None, pe: np.ndarray | None = None
              ) -> tuple[np.ndarray, np.ndarray, list[IonwrightError | None]]:
     """Fit n samples given as arrays: *totals* (n, len(names)) of the components *names*
     (mol/kg water), the fixed pH, the alkalinity (eq/kg water) when carbonate is fitted,
     the ion to balance on, and a starting point *guess* (n, k), 0 where there is none.
     *jacobian* (n, k, k), NaN where unknown, starts the secant updates (a previous round's).
+    With *pe* (n,) the oxidation states are linked and that pe held.
     Returns the fitted totals (n, k), the Jacobians they ended with, and each sample's
     error (None when it fitted)."""
     unknowns = ((CARBONATE,) if alkalinity is not None else ()) + ((balance,) if balance
                                                                     else ())
+    if pe is not None:
+        tables = electron_tables(tables)
+        names, totals = in_linked_columns(names, totals, tables)
+        if balance and balance not in tables.components:
+            raise RecipeError(f"{where} balance_on", f"{balance} is linked to another "
+                              "oxidation state by the redox level stated",
+                              "balance on an ion no couple links, such as Cl or Na")
     names = list(names) + [u for u in unknowns if u not in names]
     full = np.zeros((totals.shape[0], len(names)))
     full[:, :totals.shape[1]] = totals
     for u in unknowns:
         full[:, names.index(u)] = np.maximum(full[:, names.index(u)], TRACE)
     used: list[bool] = list(np.any(full > 0, axis=0))
-    comps = [c for c, u in zip(names, used) if u]
+    comps = [c for c, u in zip(names, used) if u and c != ELECTRON] + (
+        [ELECTRON] if pe is not None else [])
     # one system for all: a component a sample lacks gets a trace total (as a recipe's
     # batches do), which changes no digit of its fit, and one Newton run serves them all
     traced = np.where(full > 0, full, TRACE)
@@ -195,11 +214,37 @@ def fit_rows(names: Sequence[str], totals: np.ndarray, t_C: np.ndarray, ph: np.n
     system = compile_system(tables, comps, ion_pairs_of(model))
     index = [names.index(c) if c in names else -1 for c in system.components]
     base = np.array([traced[:, i] if i >= 0 else np.zeros(full.shape[0]) for i in index]).T
-    return _fit_group(system, base, t_C, ph, alkalinity, balance, guess, jac, unknowns,
+    held = np.full(base.shape, np.nan)
+    held[:, 0] = -ph
+    if pe is not None:
+        held[:, system.components.index(ELECTRON)] = -pe
+    return _fit_group(system, base, t_C, held, alkalinity, balance, guess, jac, unknowns,
                       tables, model, where)
 
 
-def _fit_group(system: ChemicalSystem, base: np.ndarray, t_C: np.ndarray, ph: np.ndarray,
+def held_pe(fit: AnalysisFit, tables: TableSet) -> float | None:
+    """The pe an analysis's fit holds: its stated or found pe, or the pe that a dissolved
+    oxygen's O2 pressure gives at the measured pH; None without a redox level."""
+    if fit.pe is not None or fit.redox is None or fit.redox.o2_pressure_atm is None:
+        return fit.pe
+    return pe_held_by_o2(tables, fit.redox.o2_pressure_atm, float(fit.ph or 0.0), fit.t_C)
+
+
+def in_linked_columns(names: Sequence[str], totals: np.ndarray, linked: TableSet
+                     ) -> tuple[list[str], np.ndarray]:
+    """Components *names* and *totals* (n, len(names)) rewritten in the components of the
+    *linked* set (1 Fe2+ is 1 Fe3+ and 1 e-)."""
+    parts = [in_linked_basis({name: 1.0}, linked) for name in names]
+    out = list(dict.fromkeys(c for p in parts for c in p if c != WATER))
+    matrix = np.zeros((len(names), len(out)))
+    for i, p in enumerate(parts):
+        for c, nu in p.items():
+            if c != WATER:
+                matrix[i, out.index(c)] += nu
+    return out, totals @ matrix
+
+
+def _fit_group(system: ChemicalSystem, base: np.ndarray, t_C: np.ndarray, held: np.ndarray,
                alkalinity_given: np.ndarray | None, balance: str | None, guess: np.ndarray,
                start_jacobian: np.ndarray, unknowns: tuple[str, ...], tables: TableSet,
                model, where: str
@@ -214,7 +259,8 @@ def _fit_group(system: ChemicalSystem, base: np.ndarray, t_C: np.ndarray, ph: np
     weights = alkalinity_weights_at(system, t_C)
     with_alkalinity = alkalinity_given is not None
     alkalinity = np.zeros(n) if alkalinity_given is None else alkalinity_given
-    charges = np.abs(np.array([tables.entry(c).charge for c in comps], dtype=float))
+    charges = np.abs(np.array([0.0 if c == ELECTRON else tables.entry(c).charge
+                               for c in comps], dtype=float))
     charge_scale = weighted_sum(np.ascontiguousarray((charges * base).T))
     scales = []
     if with_alkalinity:
@@ -224,6 +270,7 @@ def _fit_group(system: ChemicalSystem, base: np.ndarray, t_C: np.ndarray, ph: np
         scales.append(charge_scale + np.abs(alkalinity))
     scale = np.stack(scales, axis=1)
     floor = FLOOR * scale
+    ph = -held[:, 0]
     first = _first_guess(system, weights, t_C, ph, alkalinity) if with_alkalinity else None
     x = np.empty((n, k))
     for u, name in enumerate(unknowns):
@@ -239,7 +286,7 @@ def _fit_group(system: ChemicalSystem, base: np.ndarray, t_C: np.ndarray, ph: np
     last_x = last_res = np.zeros((0, k))
     for round_ in range(FIT_ROUNDS):
         res, read, failed = _evaluate(system, model, base[active], cols, x[active],
-                                      t_C[active], ph[active], weights[active],
+                                      t_C[active], held[active], weights[active],
                                       alkalinity[active], with_alkalinity, scale[active])
         if round_ == 0:
             jacobian[active] = np.where(known[active, None, None], jacobian[active], read)
@@ -265,7 +312,7 @@ def _fit_group(system: ChemicalSystem, base: np.ndarray, t_C: np.ndarray, ph: np
     for r in active:  # out of rounds: no positive total fits, or a slow fit
         result[r] = _not_fitted(system, model, base[r], cols, x[r], floor[r], weights[r],
                                 scale[r], unknowns, float(residual[r]), tables, where,
-                                float(t_C[r]), float(ph[r]), float(alkalinity[r]),
+                                float(t_C[r]), held[r], float(alkalinity[r]),
                                 with_alkalinity, balance)
     return x, jacobian, result
 
@@ -281,15 +328,14 @@ def _broyden(jac: np.ndarray, dx: np.ndarray, dres: np.ndarray) -> np.ndarray:
 
 
 def _evaluate(system: ChemicalSystem, model, base: np.ndarray, cols: list[int],
-              x: np.ndarray, t_C: np.ndarray, ph: np.ndarray, weights: np.ndarray,
+              x: np.ndarray, t_C: np.ndarray, held: np.ndarray, weights: np.ndarray,
               alkalinity: np.ndarray, with_alkalinity: bool, scale: np.ndarray):
     """Scaled residuals (m, k), their Jacobian (m, k, k) with respect to the unknowns, and
-    per row a failure (status, iterations, residual) of the solve or 0, from one solve."""
+    per row a failure (status, iterations, residual) of the solve or 0, from one solve
+    with the log10 activities *held* (m, c: the pH, and the pe when one is held)."""
     batch = base.copy()
     batch[:, cols] = x
-    fixed = np.full(batch.shape, np.nan)
-    fixed[:, 0] = -ph
-    eq = solver.solve(system, batch, model.bind(system.properties, t_C), fixed)
+    eq = solver.solve(system, batch, model.bind(system.properties, t_C), held)
     m = eq.molality
     rows: list[np.ndarray] = []        # quantities whose residual is fitted, per species
     targets: list[np.ndarray] = []
@@ -344,7 +390,7 @@ def _first_guess(system: ChemicalSystem, weights: np.ndarray, t_C: np.ndarray,
 def _not_fitted(system: ChemicalSystem, model, base: np.ndarray, cols: list[int],
                 x: np.ndarray, floor: np.ndarray, weights: np.ndarray, scale: np.ndarray,
                 unknowns: tuple[str, ...], residual: float, tables: TableSet, where: str,
-                t_C: float, ph: float, alkalinity: float, with_alkalinity: bool,
+                t_C: float, held: np.ndarray, alkalinity: float, with_alkalinity: bool,
                 balance: str | None) -> IonwrightError:
     """The error of a sample that did not fit: an unknown that would have to be at or
     below zero (each tried at its floor), else the fit's own non-convergence."""
@@ -353,7 +399,7 @@ def _not_fitted(system: ChemicalSystem, model, base: np.ndarray, cols: list[int]
     k = len(unknowns)
     trial = np.where(np.eye(k, dtype=bool), floor[None, :], x[None, :])
     lowest, _, failed = _evaluate(system, model, np.repeat(base[None, :], k, axis=0), cols,
-                                  trial, np.full(k, t_C), np.full(k, ph),
+                                  trial, np.full(k, t_C), np.repeat(held[None, :], k, axis=0),
                                   np.repeat(weights[None, :], k, axis=0),
                                   np.full(k, alkalinity), with_alkalinity,
                                   np.repeat(scale[None, :], k, axis=0))

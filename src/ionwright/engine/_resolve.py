@@ -1,5 +1,6 @@
 """Resolve what reading a recipe left to the engine: analyses fitted to their alkalinity or
-charge balance, and poured solutions whose make-up needs an equilibrium.
+charge balance, the pe an analysed couple sets, and poured solutions whose make-up needs
+an equilibrium.
 
 A poured solution with a fixed pH stands for an acid or base its recipe does not list;
 it carries the proton content that its equilibrium at that pH implies.
@@ -13,15 +14,19 @@ from ..inputs._recipe import Composition, PouredSolution, Recipe, finish_composi
 from ..plugins._registry import Registry
 from ..plugins._table_sets import load_tables
 from ._compiled import CompiledRecipe
+from ._couple import settle_couple
 from ._fits import fit_analysis
 
 
 def resolve(recipe: Recipe, registry: Registry | None = None) -> Recipe:
     """*recipe* with every pending constraint resolved (returned as is when complete)."""
     pending = recipe.pending
+    couple = recipe.redox_couple is not None and "pe" not in recipe.fix
     if pending is None:
-        return recipe
+        return settle_couple(recipe, None, registry) if couple else recipe
     if isinstance(pending, AnalysisFit):
+        if couple:
+            return settle_couple(recipe, pending, registry)
         return fit_analysis(recipe, pending, registry)
     return _compose(recipe, pending, registry)
 

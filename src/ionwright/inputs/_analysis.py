@@ -33,6 +33,8 @@ from ._analytes import (CHLORINE_KEYS, NAMED_KEYS, Analyte, check_states_used, m
                         read_states)
 from ._checks import as_number, check_temperature, given_density
 from ._mixing import Conversion, Entry, Mixture, mix
+from ._redox_couple import COUPLE_KEY, CoupleConstraint, read_couple
+from ._redox_level import REDOX_KEYS, RedoxLevel, read_redox_level
 from ._units import (CALCIUM_CARBONATE, CALCIUM_CARBONATE_EQUIVALENTS, Quantity,
                      basis_moles_per_mole, expect, parse_quantity)
 
@@ -68,6 +70,9 @@ class AnalysisFit:
     alkalinity: tuple[float, str] | None
     balance: tuple[str, str] | None
     balance_given: str = "not given"
+    redox: RedoxLevel | None = None          # a pe, Eh, ORP or dissolved O2 measured
+    couple: CoupleConstraint | None = None   # or the couple whose two forms set the pe
+    pe: float | None = None   # the pe the fit holds (a stated level's, or the couple's)
 
     @property
     def needs_engine(self) -> bool:
@@ -93,8 +98,10 @@ def read_analysis(section: Any, origin: str, tables: TableSet) -> AnalysisFit:
     given: list[Entry] = []
     analytes: list[Analyte] = []
     keys: dict[str, str] = {}
+    amounts: dict[str, float] = {}
     for key, value in section.items():
-        if key in NAMED_KEYS or key in CARBONATE_KEYS:
+        if key in NAMED_KEYS or key in CARBONATE_KEYS or key in REDOX_KEYS \
+                or key == COUPLE_KEY:
             continue
         analyte = map_analyte(key, tables, f"{where} {key}", states)
         analytes.append(analyte)
@@ -111,6 +118,7 @@ def read_analysis(section: Any, origin: str, tables: TableSet) -> AnalysisFit:
         keys[key] = component
         quantity = expect(parse_quantity(value, f"{where} {key}"), ANALYTE_DIMENSIONS,
                           f"{where} {key}")
+        amounts[component] = quantity.value
         given.append(_analyte_entry(component_solute(component, tables), analyte,
                                     quantity, f"{where} {key}", f"[analysis] {key}"))
     check_states_used(section, analytes, where)
@@ -119,8 +127,15 @@ def read_analysis(section: Any, origin: str, tables: TableSet) -> AnalysisFit:
     if dic is not None:
         given.append(dic)
     balance = _balance_target(section, ph, keys, tables, where)
+    redox = read_redox_level(section, t, origin, "[analysis]")
+    couple = read_couple(section, keys, amounts, tables, where, states)
+    if redox is not None and couple is not None:
+        raise RecipeError(where, f"states the redox level twice ({redox.stated}; "
+                          f"{COUPLE_KEY} {couple.text})", f"keep one: the measured level or "
+                          f"the couple")
     return AnalysisFit(where, t, ph, density, tuple(given), alkalinity, balance,
-                       str(section.get(balance[0], "not given")) if balance else "not given")
+                       str(section.get(balance[0], "not given")) if balance else "not given",
+                       redox, couple, None if redox is None else redox.pe)
 
 
 def analysis_mixture(fit: AnalysisFit, fitted: Mapping[str, float],
@@ -162,6 +177,8 @@ def finish_analysis(fit: AnalysisFit, mixture: Mixture, fitted: Mapping[str, flo
                                       "the pH follows"))
     else:
         fix = {"pH": fit.ph}
+    if fit.redox is not None and fit.redox.pe is not None:
+        fix["pe"] = fit.redox.pe
     solution = replace(mixture.solution, conversions=tuple(conversions))
     return {"temperature_C": fit.t_C, "fix": fix, "components": tuple(totals.items()),
             "solution": solution, "pending": None, "from_analysis": True}

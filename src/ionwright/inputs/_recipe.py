@@ -37,13 +37,15 @@ from ..chemistry._ingredients import makeup
 from ..chemistry._tableset import TableSet
 from ..data._text import read_utf8
 from ..errors import IonwrightError, RecipeError
+from ..notices import Notice
 from ..plugins._table_sets import load_tables
 from ._analysis import AnalysisFit, analysis_mixture, finish_analysis, read_analysis
 from ._checks import (as_number, check_ph, check_temperature, given_density, is_number,
                       optional_quantity, positive, reject_unknown)
 from ._mixing import (Conversion, Entry, Portion, Solution, _dry, entry_for, mix, portion_of,
                       poured_into, stock_portion)
-from ._redox_level import REDOX_KEYS, read_redox_level
+from ._redox_couple import CoupleConstraint
+from ._redox_level import REDOX_KEYS, RedoxLevel, read_redox_level
 from ._units import expect, parse_quantity
 
 if TYPE_CHECKING:
@@ -97,6 +99,9 @@ class Recipe:
     pending: AnalysisFit | Composition | None = None
     from_analysis: bool = False      # an [analysis]: a water sample as measured
     redox_level: str = ""    # how the recipe stated its redox level, for reports
+    redox_notices: tuple[Notice, ...] = ()   # what reading the level found (extrapolated)
+    #: the couple of an analysis whose two forms set the pe (found by the engine)
+    redox_couple: CoupleConstraint | None = None
 
 
 @dataclass(frozen=True)
@@ -175,14 +180,16 @@ def _from_mapping(data: dict[str, Any], origin: str, base_dir: Path,
             raise RecipeError(f"{origin} [dissolve]", f"ingredient {name!r} must be a name "
                               "(text)", "write the ingredient's name or formula as text, e.g. "
                               "{'NaCl': 0.1}")
-    fixed, phases, redox_level = _fix(data.get("fix", {}), t, origin,
-                                      {k: _numbers_as_floats(data[k])
-                                       for k in ("solids", "gases") if k in data})
+    fixed, phases, level = _fix(data.get("fix", {}), t, origin,
+                                {k: _numbers_as_floats(data[k])
+                                 for k in ("solids", "gases") if k in data})
     plain = (all(is_number(v) for v in dissolve.values()) and "analysis" not in data
              and not set(data) & CONVERTED_KEYS)
     recipe = Recipe(temperature_C=t, activity_model=model, tables=tables,
                     fix=fixed, title=str(data.get("title", "")), origin=origin,
-                    base_dir=base_dir, phases=phases, redox_level=redox_level,
+                    base_dir=base_dir, phases=phases,
+                    redox_level=level.stated if level else "",
+                    redox_notices=level.notices if level else (),
                     dissolve=tuple((name, _plain_amount(value, origin, name))
                                    for name, value in dissolve.items()) if plain else ())
     if plain:  # amounts in mol/kg of water as given: nothing to convert
@@ -199,6 +206,7 @@ def _from_mapping(data: dict[str, Any], origin: str, base_dir: Path,
                               "temperature in [analysis]", "move temperature_C there")
         table_set = _tables(recipe, registry)
         fit = read_analysis(data["analysis"], origin, table_set)
+        recipe = _analysed_level(recipe, fit)
         if fit.needs_engine:
             return replace(recipe, temperature_C=fit.t_C, pending=fit)
         mixture = analysis_mixture(fit, {}, table_set)
@@ -396,10 +404,25 @@ def _table_names(tables: Any, origin: str, base_dir: Path) -> tuple[str, ...]:
                  else t for t in tables)
 
 
+def _analysed_level(recipe: Recipe, fit: AnalysisFit) -> Recipe:
+    """*recipe* with the redox level its analysis measured (the O2 pressure of a dissolved
+    oxygen among its phases; a pe goes with the analysis's fixed values) or the couple
+    that sets it."""
+    if fit.couple is not None:
+        return replace(recipe, redox_couple=fit.couple,
+                       redox_level=f"the {fit.couple.text} couple as analysed")
+    if fit.redox is None:
+        return recipe
+    phases = _with_oxygen(recipe.phases, fit.redox,
+                          f"{recipe.origin} [analysis] dissolved_oxygen")
+    return replace(recipe, phases=phases, redox_level=fit.redox.stated,
+                   redox_notices=fit.redox.notices)
+
+
 def _fix(fix: Any, t_C: float, origin: str, phases: dict[str, Any]
-         ) -> tuple[dict[str, float], dict[str, Any], str]:
+         ) -> tuple[dict[str, float], dict[str, Any], RedoxLevel | None]:
     """The fixed pH and pe of ``[fix]``, the phases (with the O2 pressure that a stated
-    dissolved oxygen stands for) and how the redox level was stated."""
+    dissolved oxygen stands for) and the redox level as read."""
     if not isinstance(fix, dict):
         raise RecipeError(f"{origin} [fix]", "must be a table such as pH = 7.0")
     reject_unknown(fix, FIX_KEYS, origin, "key of [fix]")
@@ -409,17 +432,23 @@ def _fix(fix: Any, t_C: float, origin: str, phases: dict[str, Any]
                                f"{origin} [fix] pH")
     level = read_redox_level(fix, t_C, origin)
     if level is None:
-        return fixed, phases, ""
+        return fixed, phases, None
     if level.pe is not None:
         fixed["pe"] = level.pe
-    if level.o2_pressure_atm is not None:
-        gases = phases.get("gases", {})
-        if isinstance(gases, dict) and {"O2", "O2(g)"} & set(gases):
-            raise RecipeError(f"{origin} [fix] dissolved_oxygen", "and an O2 pressure under "
-                              "[gases] both state the redox level", "keep one of them")
-        phases = {**phases, "gases": {**(gases if isinstance(gases, dict) else {}),
-                                      "O2": level.o2_pressure_atm}}
-    return fixed, phases, level.stated
+    return fixed, _with_oxygen(phases, level, f"{origin} [fix] dissolved_oxygen"), level
+
+
+def _with_oxygen(phases: Mapping[str, Any], level: RedoxLevel, where: str) -> dict[str, Any]:
+    """*phases* with the O2 pressure a stated dissolved oxygen stands for (as given when
+    the level is a pe); refused beside an O2 pressure under ``[gases]``."""
+    if level.o2_pressure_atm is None:
+        return dict(phases)
+    gases = phases.get("gases", {})
+    if isinstance(gases, dict) and {"O2", "O2(g)"} & set(gases):
+        raise RecipeError(where, "and an O2 pressure under [gases] both state the redox "
+                          "level", "keep one of them")
+    return {**phases, "gases": {**(gases if isinstance(gases, dict) else {}),
+                                "O2": level.o2_pressure_atm}}
 
 
 def _numbers_as_floats(table: Any) -> Any:

@@ -1,4 +1,5 @@
-"""How a recipe states its redox level, read from ``[fix]`` into one pe or one O2 pressure.
+"""How a recipe states its redox level, read from ``[fix]`` (or a water analysis's
+``[analysis]``, with the same keys and messages) into one pe or one O2 pressure.
 
 Accepted, one at a time: ``pe = 4.0``; ``Eh = "0.35 V"`` (against the standard hydrogen
 electrode); ``ORP = "215 mV"`` with ``electrode = "Ag/AgCl, 3 M KCl"`` (the meter's
@@ -19,6 +20,7 @@ from ..chemistry._oxygen import air_o2_pressure_atm, saturation_mg_per_L
 from ..chemistry._redox import pe_from_eh
 from ..chemistry._reference_electrodes import TABLE_RANGE_C, reference_electrode
 from ..errors import RecipeError
+from ..notices import VALIDITY, Notice
 from ._checks import as_number
 from ._units import expect, parse_quantity
 
@@ -38,12 +40,15 @@ class RedoxLevel:
     pe: float | None = None
     o2_pressure_atm: float | None = None
     stated: str = ""
+    notices: tuple[Notice, ...] = ()
 
 
-def read_redox_level(fix: Mapping[str, Any], t_C: float, origin: str) -> RedoxLevel | None:
-    """The redox level the ``[fix]`` table *fix* states at *t_C* (°C), or None."""
+def read_redox_level(fix: Mapping[str, Any], t_C: float, origin: str,
+                     section: str = "[fix]") -> RedoxLevel | None:
+    """The redox level the table *fix* (``[fix]`` or ``[analysis]``, named by *section*)
+    states at *t_C* (°C), or None."""
     given = [k for k in ("pe", "Eh", "ORP", "dissolved_oxygen") if k in fix]
-    where = f"{origin} [fix]"
+    where = f"{origin} {section}"
     if "electrode" in fix and "ORP" not in fix:
         raise RecipeError(f"{where} electrode", "names a reference electrode but no ORP "
                           "reading", 'add the reading: ORP = "215 mV"')
@@ -77,11 +82,24 @@ def _orp(fix: Mapping[str, Any], t_C: float, where: str) -> RedoxLevel:
     eh = reading + electrode.potential_V(t_C)
     pe = _plausible(float(pe_from_eh(eh, t_C)), f"{where} ORP")
     lo, hi = TABLE_RANGE_C
+    extrapolated = electrode.name != "SHE" and not lo <= t_C <= hi
     beyond = (f"; its potential is known for {lo:g}–{hi:g} °C and was extended linearly"
-              if electrode.name != "SHE" and not lo <= t_C <= hi else "")
+              if extrapolated else "")
+    notices = (Notice(VALIDITY, "orp-electrode-extrapolated",
+                      f"the ORP was converted to Eh at {t_C:g} °C, outside {lo:g}–{hi:g} °C "
+                      f"where the potential of the {electrode.name} reference electrode is "
+                      f"tabulated: its potential ({electrode.potential_V(t_C):+.4f} V) is "
+                      "extrapolated along the table's line, so Eh and pe carry an error "
+                      "that grows away from the table and is not estimated; to avoid it, "
+                      "convert the reading with the maker's electrode potential at this "
+                      "temperature and give Eh",
+                      {"temperature_C": t_C, "table_range_C": [lo, hi],
+                       "electrode": electrode.name,
+                       "electrode_potential_V": electrode.potential_V(t_C)}),
+               ) if extrapolated else ()
     return RedoxLevel(pe=pe, stated=f"ORP {1000 * reading:.4g} mV against {electrode.name} "
                       f"({electrode.potential_V(t_C):+.4f} V at {t_C:g} °C): Eh "
-                      f"{eh:.4f} V{beyond}")
+                      f"{eh:.4f} V{beyond}", notices=notices)
 
 
 def _oxygen(value: Any, t_C: float, where: str) -> RedoxLevel:

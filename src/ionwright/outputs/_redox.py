@@ -22,7 +22,8 @@ from ..chemistry._constants import LN10
 from ..chemistry._oxygen import O2_MOLAR_MASS_G, saturation_mg_per_L
 from ..chemistry._redox import ELECTRON, eh_from_pe, unlinked
 from ..chemistry._water import density
-from ..core._system import PROTON, WATER, log10_k_at
+from ..chemistry._tableset import TableSet
+from ..core._system import PROTON, WATER, ChemicalSystem, log10_k_at
 from ._speciation import Speciation
 
 OXYGEN = "O2"
@@ -62,6 +63,19 @@ def couple_pe(speciation: Speciation) -> dict[str, float]:
                    if part != ELECTRON)
         log10_k_couple = float(log10_k_at(couple.logk, np.array([t]))[0])
         out[f"{oxidised}/{reduced}"] = float(-(log_a[named] - log10_k_couple - rest) / electrons)
+    return out
+
+
+def state_weights(system: ChemicalSystem, tables: TableSet, component: str) -> np.ndarray:
+    """Mol of *component*, a component of the tables before linking (Fe2+ for Fe(II)),
+    in each species of *system* (s,): FeCl+ holds one Fe2+, whether or not the
+    oxidation states are linked, so that Σ weight·m is that state's total."""
+    base = unlinked(tables) or tables
+    out = np.zeros(len(system.species))
+    for j, name in enumerate(system.species):
+        make = ({name: 1.0} if name in base.components
+                else base.resolve(name, "species").stoichiometry)
+        out[j] = make.get(component, 0.0)
     return out
 
 

@@ -107,20 +107,35 @@ class Result(Speciation):
             out.append(model_range_notice(self.model, self.ionic_strength))
         out.extend(model_validity_notes(self))
         out.extend(wrap(supersaturation_warnings(self), VALIDITY, "supersaturated"))
-        if "pH" in self.recipe.fix:
-            imbalance, scale = self.charge_balance
-            if scale > 0 and abs(imbalance) / scale > IMBALANCE_WARNING:
-                out.append(Notice(
-                    DATA_QUALITY, "fixed-ph-imbalance",
-                    f"with pH fixed at {self.recipe.fix['pH']:g} the solution is not "
-                    f"electroneutral: Σz·m = {imbalance:+.3g} mol/kg "
-                    f"({100 * imbalance / scale:+.2g} % of Σ|z|·m); an unlisted "
-                    f"ion or acid/base would make up the difference",
-                    {"imbalance_mol_per_kg": imbalance, "scale_mol_per_kg": scale}))
+        out.extend(self.recipe.redox_notices)
+        out.extend(self._held_imbalance())
         out.extend(override_warnings(self))
         out.extend(cautions(self))
         out.extend(near_corrosive_notice(self, self.uncertainty))
         return out
+
+    def _held_imbalance(self) -> list[Notice]:
+        """A notice when a held pH or pe leaves the solution charged: holding an activity
+        drops that component's balance, so nothing keeps Σz·m at zero."""
+        imbalance, scale = self.charge_balance
+        if not (scale > 0 and abs(imbalance) / scale > IMBALANCE_WARNING):
+            return []
+        data = {"imbalance_mol_per_kg": imbalance, "scale_mol_per_kg": scale}
+        share = f"Σz·m = {imbalance:+.3g} mol/kg ({100 * imbalance / scale:+.2g} % of Σ|z|·m)"
+        if "pH" in self.recipe.fix:
+            return [Notice(DATA_QUALITY, "fixed-ph-imbalance",
+                           f"with pH fixed at {self.recipe.fix['pH']:g} the solution is not "
+                           f"electroneutral: {share}; an unlisted ion or acid/base would "
+                           "make up the difference", data)]
+        if "pe" in self.recipe.fix:
+            return [Notice(DATA_QUALITY, "fixed-pe-imbalance",
+                           f"with pe held at {self.recipe.fix['pe']:.4g} and the pH free, the "
+                           f"charge balance is not held: {share}. The held pe gives or takes "
+                           "electrons that no ion balances (the oxidation states moved to "
+                           "reach it); an O2 pressure (dissolved_oxygen, or O2 under "
+                           "[gases]) holds the redox level and keeps the solution "
+                           "electroneutral", data)]
+        return []
 
     @property
     def warnings(self) -> list[str]:

@@ -29,6 +29,7 @@ from ..core._response import is_exact
 from ..core._saturation import formable_solids
 from ..core._sensitivity import LogKResponse, log_k_response, pH_log_k_derivative
 from ..core._solver import Equilibrium, bound_slice
+from ..chemistry._redox import ELECTRON
 from ..core._system import ChemicalSystem
 from ..notices import CAUTION, Notice
 from ._cautions import DEFER, corrosive_limits
@@ -115,11 +116,13 @@ def propagation(system: ChemicalSystem, tables: TableSet, state: PhaseEquilibriu
 
 
 def batch_pH_uncertainty(system: ChemicalSystem, tables: TableSet, equilibrium: Equilibrium,
-                         bound, pH_fixed: bool) -> np.ndarray:
+                         bound, pH_fixed: bool, pe_fixed: bool = False) -> np.ndarray:
     """u(pH) (n,) of a batch solved without solids or gases (the batch runner's rows), by
     the adjoint (:func:`pH_log_k_derivative`), in chunks of :data:`CHUNK_ROWS` samples."""
     free = np.ones(system.n_components, dtype=bool)
     free[0] = not pH_fixed
+    if pe_fixed:
+        free[system.components.index(ELECTRON)] = False
     terms = constant_terms(system, tables)
     n = equilibrium.molality.shape[0]
     out = np.empty(n)
@@ -158,6 +161,8 @@ def result_propagation(result) -> Propagation:
     else:
         fixed = np.zeros(system.n_components, dtype=bool)
         fixed[0] = "pH" in result.recipe.fix
+        if "pe" in result.recipe.fix:   # a held pe, like a held pH, does not move
+            fixed[system.components.index(ELECTRON)] = True
         terms = constant_terms(system, tables, phase_entries(system, tables, None))
         bound = result.model.bind(system.properties, t)
         response = log_k_response(gas_basis(system, [], fixed), result.equilibrium, bound,
