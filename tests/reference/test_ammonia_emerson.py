@@ -60,3 +60,19 @@ def test_unionised_ammonia_of_a_water_analysis():
                                                                   rel=0.05)
     assert derived["unionized_ammonia_mg_per_L_as_N"] == pytest.approx(
         1.0 * emerson_fraction(20, 8.0), rel=0.05)
+
+
+def test_chloramine_nitrogen_is_not_counted_as_ammonia():
+    # Ammonia left over after part of it is chlorinated: the fraction is free NH3 over the
+    # ammonia that is still ammonia (NH3 + NH4+), so Emerson's f applies to it unchanged,
+    # however much nitrogen the monochloramine holds.
+    result = ionwright.solve({"temperature_C": 25.0,
+                              "dissolve": {"NH4Cl": 1e-4, "sodium hypochlorite": 5e-5},
+                              "fix": {"pH": 9.0}})
+    out = result.to_dict()
+    molality = {row["name"]: row["molality"] for row in out["species"]}
+    assert molality["NH2Cl"] > 1e-5          # the chloramine is really there
+    fraction = out["derived"]["unionized_ammonia_fraction"]
+    free, ion = molality["NH3"], molality["NH4+"]
+    assert fraction == pytest.approx(free / (free + ion), rel=1e-6)
+    assert fraction == pytest.approx(emerson_fraction(25.0, 9.0), rel=0.05)

@@ -18,7 +18,8 @@ from __future__ import annotations
 import numpy as np
 
 from ..chemistry._formula import parse_formula
-from ._solved_samples import SolvedSamples, parent_total, species_share
+from ._derived_chlorine import COMBINED_CHLORINE, weighted_molality
+from ._solved_samples import SolvedSamples, parent_total
 
 AMMONIA = parse_formula("NH3")
 NITROGEN = parse_formula("N")
@@ -27,15 +28,26 @@ KELVIN = 273.15
 
 
 def total_ammonia(s: SolvedSamples) -> tuple[int, np.ndarray] | None:
-    """(index of free NH3, total ammonia mol/kg water (n,)), or None without ammonia."""
+    """(index of free NH3, total ammonia mol/kg water (n,)), or None without ammonia.
+
+    The nitrogen the chloramines hold is combined chlorine, not ammonia, and is left out,
+    as a water analysis reports them apart."""
     i = s.species_index(AMMONIA)
-    return None if i is None else (i, parent_total(s, i))
+    if i is None:
+        return None
+    chloramine = weighted_molality(s, {f: 1 for f in COMBINED_CHLORINE})
+    total = parent_total(s, i)
+    return i, total if chloramine is None else total - chloramine
 
 
 def activity_corrected_fraction(s: SolvedSamples) -> np.ndarray:
     """Free NH3 / total ammonia from the speciation (NaN without ammonia)."""
-    share = species_share(s, AMMONIA)
-    return np.full(s.n, np.nan) if share is None else share
+    found = total_ammonia(s)
+    if found is None:
+        return np.full(s.n, np.nan)
+    i, total = found
+    with np.errstate(invalid="ignore", divide="ignore"):
+        return np.where(total > 0, s.molality[:, i] / total, np.nan)
 
 
 def emerson_fraction(pH: np.ndarray, t_C: np.ndarray) -> np.ndarray:
