@@ -49,7 +49,8 @@ SATURATION_PASSES = 2
 @dataclass
 class Predominance:
     """The winners of a pe–pH grid: ``winner[i, j]`` indexes ``names`` at ``pe[i]``,
-    ``pH[j]`` (:data:`NOT_SOLVED` where the solve failed)."""
+    ``pH[j]`` (:data:`NOT_SOLVED` where the solve failed); ``amounts[i, j, k]`` is the
+    mol/kg of the element in ``names[k]`` there (NaN where not solved)."""
 
     element: str
     pH: np.ndarray
@@ -57,6 +58,7 @@ class Predominance:
     names: tuple[str, ...]
     solid: tuple[bool, ...]
     winner: np.ndarray
+    amounts: np.ndarray
     total_mol_per_kg: float
     t_C: float
     title: str
@@ -97,6 +99,7 @@ def predominance(recipe: str | Path | Mapping[str, Any] | Recipe, element: str,
     return Predominance(
         element=element, pH=ph_axis, pe=pe_axis, names=tuple(names[i] for i in used),
         solid=tuple(solid[i] for i in used), winner=winner.reshape(grid_ph.shape),
+        amounts=amounts[:, used].reshape(*grid_ph.shape, used.size),
         total_mol_per_kg=float(total), t_C=t,
         title=bench.recipe.title or Path(bench.recipe.origin).stem,
         upper_water_pe=_water_limit(bench, "O2(g)", t) - ph_axis,
