@@ -22,6 +22,9 @@ SIZE = (7.0, 6.0)
 TINT = 0.32           # how much of each palette colour goes into an area's fill
 WATER = "#38404f"
 EDGE = 0.01          # axes fraction kept clear between a name and the frame
+LABEL_CANDIDATES = 400  # deepest cells of an area tried for its name
+LINE_CLEARANCE = 0.02  # axes fraction kept between an upright name and a water line
+AXES_SHARE = 0.8     # share of the figure's width and height the axes take
 SMOOTHING = 1.2      # grid cells: the width of the smoothing of the boundaries
 
 
@@ -91,33 +94,66 @@ def _margins(diagram: Predominance) -> np.ndarray:
 
 
 def _label(ax, diagram: Predominance, i: int) -> tuple[float, float]:
-    """Name the area across the row of its cell farthest inside it (not its centroid,
-    which a curved area may not contain), kept inside the frame; upright, along the
-    column of that cell, where the area is too narrow for it and taller than wide. The middle of the name (axes
-    fraction) is returned."""
+    """Name the area, level across the run of one of its deepest cells (not its centroid,
+    which a curved area may not contain) where the name fits, clear of water's limits
+    and inside the frame; else upright in a strip narrower than the name and taller than
+    it; large type first, then small; small and level at the deepest cell otherwise.
+    The middle of the name (axes fraction) is returned."""
     from scipy.ndimage import distance_transform_edt
 
     inside = diagram.winner == i
     depth = distance_transform_edt(np.pad(inside, 1))[1:-1, 1:-1]
-    row, col = (int(v) for v in np.unravel_index(np.argmax(depth), depth.shape))
     name = pretty_name(diagram.names[i]) + (" (s)" if diagram.solid[i] else "")
+    bold = diagram.solid[i]
     rows, cols = inside.shape
-    first, last = _run(inside[row, :], col)
-    bottom, top = _run(inside[:, col], row)
-    wide, tall = (last - first + 1) / cols, (top - bottom + 1) / rows
-    size = 11 if depth[row, col] > 6 else 8
-    long = _text_share(name, size)
-    upright = long > wide and tall > wide
-    x = (first + last) / 2 / max(cols - 1, 1)
-    y = row / max(rows - 1, 1)
-    if upright:
-        y = (bottom + top) / 2 / max(rows - 1, 1)
-    else:
-        x = min(max(x, long / 2 + EDGE), 1.0 - long / 2 - EDGE)
+    spanned = np.flatnonzero(inside.any(axis=1))
+    height = (spanned[-1] - spanned[0] + 1) / rows
+    mean_width = inside.sum() / (spanned[-1] - spanned[0] + 1) / cols
+    deepest = np.argsort(-depth, axis=None, kind="stable")[:LABEL_CANDIDATES]
+    cells = [(int(r), int(c)) for r, c in zip(*np.unravel_index(deepest, depth.shape))
+             if inside[r, c]]
+    place: tuple[float, float, int, bool] | None = None
+    for size in ((11, 8) if depth[cells[0]] > 6 else (8,)):
+        long = _text_share(name, size, False, bold)
+        for row, col in cells:
+            first, last = _run(inside[row, :], col)
+            if long > (last - first + 1) / cols:
+                continue
+            x = min(max((first + last) / 2 / max(cols - 1, 1), long / 2 + EDGE),
+                    1.0 - long / 2 - EDGE)
+            y = row / max(rows - 1, 1)
+            if not _crosses_water(diagram, x, y, long, size):
+                place = (x, y, size, False)
+                break
+        upright_long = _text_share(name, size, True, bold)
+        if place is None and upright_long <= height and mean_width < long:
+            place = (*_upright_place(diagram, inside, upright_long), size, True)
+        if place is not None:
+            break
+    if place is None:
+        row, col = cells[0]
+        first, last = _run(inside[row, :], col)
+        place = ((first + last) / 2 / max(cols - 1, 1), row / max(rows - 1, 1), 8, False)
+    x, y, size, upright = place
     ax.text(x, y, name, ha="center", va="center", transform=ax.transAxes,
             rotation=90 if upright else 0, fontsize=size, color=INK,
-            fontweight="bold" if diagram.solid[i] else "normal")
+            fontweight="bold" if bold else "normal")
     return x, y
+
+
+def _crosses_water(diagram: Predominance, x: float, y: float, long: float,
+                   points: float) -> bool:
+    """Whether a water limit passes through a level name *long* wide centred at (x, y)
+    (axes fractions)."""
+    tall = points / 72.0 / (AXES_SHARE * SIZE[1])
+    span = diagram.pe[-1] - diagram.pe[0]
+    ends = np.clip([x - long / 2, x + long / 2], 0.0, 1.0)
+    columns = np.rint(ends * (diagram.pH.size - 1)).astype(int)
+    for line in (diagram.upper_water_pe, diagram.lower_water_pe):
+        left, right = sorted((line[columns] - diagram.pe[0]) / span)
+        if left <= y + tall / 2 + LINE_CLEARANCE and right >= y - tall / 2 - LINE_CLEARANCE:
+            return True
+    return False
 
 
 def _run(line: np.ndarray, at: int) -> tuple[int, int]:
@@ -128,10 +164,42 @@ def _run(line: np.ndarray, at: int) -> tuple[int, int]:
             int(after[0]) - 1 if after.size else line.size - 1)
 
 
-def _text_share(text: str, points: float) -> float:
-    """Rough length of *text* at *points* as a share of the axes' width."""
-    axes_inches = 0.78 * SIZE[0]
-    return 0.6 * points * len(text) / 72.0 / axes_inches
+def _text_share(text: str, points: float, upright: bool = False, bold: bool = False
+                ) -> float:
+    """Length of *text* set at *points* as a share of the axes' width (of its height when
+    set *upright*), from the outline of its glyphs."""
+    from matplotlib.font_manager import FontProperties
+    from matplotlib.textpath import TextPath
+
+    font = FontProperties(size=points, weight="bold" if bold else "normal")
+    width_points = TextPath((0, 0), text, prop=font).get_extents().width
+    axes_inches = AXES_SHARE * SIZE[1 if upright else 0]
+    return float(width_points) / 72.0 / axes_inches
+
+
+def _upright_place(diagram: Predominance, inside: np.ndarray, long: float
+                   ) -> tuple[float, float]:
+    """(x, y) in axes fractions for an upright name *long* (share of the height) in the
+    narrow area *inside*: the place nearest half way up where the name stays within the
+    area's rows (failing that, in the frame) and clear of water's limits."""
+    rows, cols = inside.shape
+    spanned = np.flatnonzero(inside.any(axis=1))
+    middle = spanned[len(spanned) // 2]
+    span = diagram.pe[-1] - diagram.pe[0]
+    for within in (True, False):     # within the area's rows first, then anywhere
+        for r in sorted(spanned, key=lambda r: abs(r - middle)):
+            j = int(round(float(np.mean(np.flatnonzero(inside[r])))))
+            y = r / max(rows - 1, 1)
+            low, high = y - long / 2 - EDGE, y + long / 2 + EDGE
+            bottom, top = (spanned[0], spanned[-1]) if within else (0, rows - 1)
+            limits = [(line[j] - diagram.pe[0]) / span
+                      for line in (diagram.upper_water_pe, diagram.lower_water_pe)]
+            if (low >= bottom / (rows - 1) and high <= top / (rows - 1)
+                    and not any(low - LINE_CLEARANCE <= v <= high + LINE_CLEARANCE
+                                for v in limits)):
+                return j / max(cols - 1, 1), y
+    j = int(round(float(np.mean(np.flatnonzero(inside[middle])))))
+    return j / max(cols - 1, 1), middle / max(rows - 1, 1)
 
 
 def _line_label(ax, diagram: Predominance, line: np.ndarray, text: str,
