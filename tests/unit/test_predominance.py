@@ -146,3 +146,19 @@ def test_an_element_the_recipe_does_not_hold_is_refused():
     with pytest.raises(ionwright.IonwrightError) as info:
         predominance(WELL, "Mn", points=5)
     assert "Mn" in str(info.value)
+
+
+def test_a_grid_too_large_to_solve_is_refused_with_a_way_out():
+    with pytest.raises(ionwright.IonwrightError) as info:
+        predominance(WELL, "Fe", points=5000)
+    assert "25,000,000" in str(info.value) and "--pH" in info.value.hint
+
+
+def test_without_solids_the_command_names_those_the_tables_hold(tmp_path, capsys):
+    recipe = tmp_path / "lake.toml"
+    recipe.write_text('[dissolve]\nMnCl2 = "1e-5 mol/kg"\n', encoding="utf-8")
+    assert main(["diagram", str(recipe), "--element", "Mn", "--plot",
+                 str(tmp_path / "mn.png"), "--points", "9"]) == 0
+    out = capsys.readouterr().out
+    assert "No solid of Mn was allowed to form" in out
+    assert "hausmannite, pyrochroite, pyrolusite" in out

@@ -27,7 +27,7 @@ from ..chemistry._constants import LN10
 from ..chemistry._formula import parse_formula
 from ..chemistry._redox import ELECTRON, eh_from_pe
 from ..core._phases import MAY_FORM, phase_reaction
-from ..core._saturation import saturation_indices
+from ..core._saturation import formable_solids, saturation_indices
 from ..core._system import WATER
 from ..engine._compiled import CompiledRecipe
 from ..engine._solve import compile_recipe
@@ -40,6 +40,8 @@ from ._sweep import _points, _range
 #: Gases that set a redox level themselves: a diagram holds pe, so they cannot be kept.
 REDOX_GASES = ("O2(g)", "H2(g)")
 NOT_SOLVED = -1
+#: Grid points along each axis at most: a 1001 × 1001 grid is a million solves (~1 GB).
+MAX_POINTS = 1001
 #: A solid left out of a one-solid solve is undersaturated there up to this SI.
 SETTLED_SI = 1e-6
 #: Corrections of a held activity for the change of water's activity as a solid forms.
@@ -64,6 +66,7 @@ class Predominance:
     title: str
     upper_water_pe: np.ndarray     # pe of O2(g) at 1 atm over ``pH``
     lower_water_pe: np.ndarray     # pe of H2(g) at 1 atm over ``pH``
+    solids_of_element: tuple[str, ...] = ()   # the tables' solids of it the recipe can form
 
     def eh_V(self, pe) -> np.ndarray:
         return np.asarray(eh_from_pe(pe, self.t_C))
@@ -76,8 +79,13 @@ def predominance(recipe: str | Path | Mapping[str, Any] | Recipe, element: str,
     """The pe–pH predominance of *element* (``"Fe"``) at the totals and temperature of
     *recipe*, on a *points* × *points* grid over *pH* and *pe* (``"A:B"``), with the
     recipe's solids and the *solids* named here allowed to form."""
-    bench = _bench(recipe, solids, registry)
     n = _points(points)
+    if n > MAX_POINTS:
+        raise RecipeError("points", f"{n} points along each axis is a grid of {n * n:,} "
+                          f"solves; at most {MAX_POINTS} are drawn",
+                          "151 (the default) draws smooth boundaries; zoom in with --pH "
+                          "and --pe for detail")
+    bench = _bench(recipe, solids, registry)
     ph_axis = np.linspace(*_range(pH, "pH"), n)
     pe_axis = np.linspace(*_range(pe, "pe"), n)
     grid_pe, grid_ph = np.meshgrid(pe_axis, ph_axis, indexing="ij")
@@ -103,7 +111,10 @@ def predominance(recipe: str | Path | Mapping[str, Any] | Recipe, element: str,
         total_mol_per_kg=float(total), t_C=t,
         title=bench.recipe.title or Path(bench.recipe.origin).stem,
         upper_water_pe=_water_limit(bench, "O2(g)", t) - ph_axis,
-        lower_water_pe=_water_limit(bench, "H2(g)", t) - ph_axis)
+        lower_water_pe=_water_limit(bench, "H2(g)", t) - ph_axis,
+        solids_of_element=tuple(
+            name for name in formable_solids(bench.system, bench.tables)
+            if parse_formula(bench.tables.solids[name].formula).elements.get(element)))
 
 
 def _bench(recipe, solids: Sequence[str], registry: Registry | None) -> CompiledRecipe:
