@@ -86,6 +86,19 @@ def test_hausmannite_reduction_enthalpy(redox):
     assert redox.solids["hausmannite"].logk.enthalpy_kJ == pytest.approx(expected, abs=0.01)
 
 
+def test_manganese_oxide_enthalpies_against_calorimetry(redox):
+    """Mn3O4 + O2 = 3 MnO2 from the table's two dissolution enthalpies and 2 H2O (ΔfH°
+    −285.830 kJ/mol  # from memory): ΔH° = ΔH(hausmannite) − 3 ΔH(pyrolusite) +
+    2(−285.830). Fritsch & Navrotsky (1996), J. Am. Ceram. Soc. 79, 1761–1768 (abstract,
+    re-read), by drop-solution calorimetry: 4 Mn3O4 + O2 = 6 Mn2O3 −201.8 ± 8.7 and
+    2 Mn2O3 + O2 = 4 MnO2 −162.1 ± 7.2 kJ/mol O2, so (−201.8 + 3(−162.1))/4 =
+    −172.0 ± 5.8 kJ/mol."""
+    table = (redox.solids["hausmannite"].logk.enthalpy_kJ
+             - 3 * redox.solids["pyrolusite"].logk.enthalpy_kJ + 2 * -285.830)
+    measured = (-201.8 + 3 * -162.1) / 4
+    assert table == pytest.approx(measured, abs=math.hypot(8.7, 3 * 7.2) / 4)
+
+
 def test_hausmannite_holds_the_manganese_its_constant_says():
     """Hausmannite in excess at pH 8 and pe 6.125 holds log10 a(Mn2+) = (61.25 − 8·8 −
     2·6.125)/3 = −5.00 in a solve; the solid is reported saturated (SI 0)."""
