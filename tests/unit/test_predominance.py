@@ -148,6 +148,12 @@ def test_an_element_the_recipe_does_not_hold_is_refused():
     assert "Mn" in str(info.value)
 
 
+@pytest.mark.parametrize("element", ["O", "H"])
+def test_water_s_own_elements_are_refused(element):
+    with pytest.raises(ionwright.IonwrightError, match="element of water"):
+        predominance(WELL, element, points=5)
+
+
 def test_a_grid_too_large_to_solve_is_refused_with_a_way_out():
     with pytest.raises(ionwright.IonwrightError) as info:
         predominance(WELL, "Fe", points=5000)

@@ -40,6 +40,7 @@ from ._sweep import _points, _range
 #: Gases that set a redox level themselves: a diagram holds pe, so they cannot be kept.
 REDOX_GASES = ("O2(g)", "H2(g)")
 NOT_SOLVED = -1
+WATER_ELEMENTS = ("H", "O")
 #: Grid points along each axis at most: a 1001 × 1001 grid is a million solves (~1 GB).
 MAX_POINTS = 1001
 #: A solid left out of a one-solid solve is undersaturated there up to this SI.
@@ -79,6 +80,10 @@ def predominance(recipe: str | Path | Mapping[str, Any] | Recipe, element: str,
     """The pe–pH predominance of *element* (``"Fe"``) at the totals and temperature of
     *recipe*, on a *points* × *points* grid over *pH* and *pe* (``"A:B"``), with the
     recipe's solids and the *solids* named here allowed to form."""
+    if element in WATER_ELEMENTS:
+        raise RecipeError("element", f"{element!r} is an element of water itself, whose "
+                          "amount the diagram does not follow",
+                          "draw an element dissolved in it, e.g. Fe, Mn, N, S")
     n = _points(points)
     if n > MAX_POINTS:
         raise RecipeError("points", f"{n} points along each axis is a grid of {n * n:,} "
