@@ -157,7 +157,7 @@ def test_water_s_own_elements_are_refused(element):
 def test_a_grid_too_large_to_solve_is_refused_with_a_way_out():
     with pytest.raises(ionwright.IonwrightError) as info:
         predominance(WELL, "Fe", points=5000)
-    assert "25,000,000" in str(info.value) and "--pH" in info.value.hint
+    assert "25,000,000" in str(info.value) and "narrow the pH and pe" in info.value.hint
 
 
 def test_without_solids_the_command_names_those_the_tables_hold(tmp_path, capsys):

@@ -88,8 +88,8 @@ def predominance(recipe: str | Path | Mapping[str, Any] | Recipe, element: str,
     if n > MAX_POINTS:
         raise RecipeError("points", f"{n} points along each axis is a grid of {n * n:,} "
                           f"solves; at most {MAX_POINTS} are drawn",
-                          "151 (the default) draws smooth boundaries; zoom in with --pH "
-                          "and --pe for detail")
+                          "151 (the default) draws smooth boundaries; for detail, narrow "
+                          "the pH and pe ranges instead")
     bench = _bench(recipe, solids, registry)
     ph_axis = np.linspace(*_range(pH, "pH"), n)
     pe_axis = np.linspace(*_range(pe, "pe"), n)
