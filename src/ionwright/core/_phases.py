@@ -74,6 +74,8 @@ ARMIJO = 1e-4               # share of the predicted decrease a step must achiev
 FRACTION_TO_BOUNDARY = 0.9  # never step more than this share of the way to a zero total
 START_AMOUNT = 1e-8         # mol/kg a dissolving solid starts from when none is in solution
 FIXED_COLUMN_ALLOWANCE = 1.0  # mol/kg: ionic-strength room for fixed activities (see inner)
+#: Share of a component a precipitate may leave dissolved that a solve still resolves.
+RESOLVED_SHARE = 1e-9
 LOG_STEP_CAP = 6.0          # largest change of ln(distance to the precipitation limit)
 
 
@@ -634,7 +636,7 @@ class _Work:
             if not rows.size:
                 break
             before = present[rows].copy()
-            present[rows] = self.activate(xi[rows], present[rows], si[rows])
+            xi[rows], present[rows] = self.activate(xi[rows], present[rows], si[rows])
             correction[rows[np.any(before != present[rows], axis=1)]] = 0.0
             done = self.satisfied(si[rows], present[rows])
             pending[rows[done]] = False
@@ -719,13 +721,43 @@ class _Work:
         return eq, new_si, new_xi, new_present
 
     def activate(self, xi, present, si):
-        """Let absent solids that are supersaturated join, one independent solid at a time."""
+        """(ξ, present) after letting absent solids that are supersaturated join, one
+        independent solid at a time.
+
+        A supersaturated solid whose composition in the free components is a multiple c
+        of a present "may-form" solid's (two oxides of one metal at a fixed pH and pe:
+        pyrolusite and hausmannite) cannot join it: the phase rule leaves room for one.
+        It takes that solid's place when it is the more stable of the two (SI_j >
+        c·SI_i), holding the same precipitate (ξ_j = ξ_i / c, the solution unchanged);
+        otherwise the active set could never trade them and the solids would not settle.
+        """
         can = ~present & (si > ACTIVATION_SI) & np.isfinite(si)
         for k in np.flatnonzero(can.any(axis=1)):
             for j in np.argsort(-np.nan_to_num(si[k], nan=-np.inf)):
-                if can[k, j] and self.independent(present[k] | (np.arange(len(si[k])) == j)):
+                if not can[k, j]:
+                    continue
+                if self.independent(present[k] | (np.arange(len(si[k])) == j)):
                     present[k, j] = True
-        return present
+                    continue
+                swap = self.parallel_partner(j, present[k])
+                if swap is not None and si[k, j] > swap[1] * si[k, swap[0]]:
+                    i, c = swap
+                    xi[k, j], xi[k, i] = xi[k, i] / c, 0.0
+                    present[k, j], present[k, i] = True, False
+        return xi, present
+
+    def parallel_partner(self, j: int, present: np.ndarray) -> tuple[int, float] | None:
+        """(i, c) of a present "may-form" solid i whose free composition times c > 0 is
+        solid *j*'s (both "may-form"), or None."""
+        if not self.may_form[j]:
+            return None
+        row = self.p_new[j, self.free]
+        for i in np.flatnonzero(present & self.may_form):
+            other = self.p_new[i, self.free]
+            c = float(row @ other) / float(other @ other) if other.any() else 0.0
+            if c > 0 and np.allclose(row, c * other, rtol=0.0, atol=1e-9 * np.abs(row).max()):
+                return int(i), c
+        return None
 
     def independent(self, mask: np.ndarray) -> bool:
         rows = self.p_new[mask][:, self.free]
@@ -915,7 +947,12 @@ def failure(state: PhaseEquilibrium, k: int) -> tuple[str, str]:
     send the user to check their totals.
     """
     eq = state.equilibrium
-    if not (eq.residual[k] <= RESIDUAL_TOLERANCE) or not state.solids:
+    if not state.solids:
+        return "", ""
+    taken = _taken_up(state, k)
+    if taken[0]:
+        return taken
+    if not (eq.residual[k] <= RESIDUAL_TOLERANCE):
         return "", ""
     si = state.saturation_index[k]
     off = np.where(state.present[k], np.abs(si), np.maximum(si, 0.0))
@@ -924,6 +961,30 @@ def failure(state: PhaseEquilibrium, k: int) -> tuple[str, str]:
             f"{state.solids[j].name} is at SI {si[j]:.3g} (tolerance ±{SI_TOLERANCE:g})",
             "the recipe is not at fault: this is a limit of the solver; please report it with "
             "the recipe; meanwhile hold one solid at \"equilibrate\" or leave one out")
+
+
+def _taken_up(state: PhaseEquilibrium, k: int) -> tuple[str, str]:
+    """(what failed, hint) when a precipitating solid of sample *k* has taken all but a
+    share below :data:`RESOLVED_SHARE` of a component: the amount left dissolved is the
+    difference of two nearly equal numbers, which double precision cannot resolve, so
+    the solve fails there although the recipe is sound; empty when none has."""
+    p = np.array([s.stoichiometry for s in state.solids])            # (m, c)
+    xi = state.dissolved[k]
+    given = state.totals[k] - xi @ p
+    for j in np.flatnonzero(xi < 0):
+        for c in np.flatnonzero((p[j] > 0) & state.free[: p.shape[1]]):
+            if c == 0 or given[c] <= 0:
+                continue
+            if state.totals[k, c] <= RESOLVED_SHARE * given[c]:
+                return (f"{state.solids[j].name} takes up all but less than "
+                        f"{RESOLVED_SHARE:g} of the recipe's {state.basis.components[c]}: "
+                        "its solubility here lies below what the solver can tell apart "
+                        "from the total",
+                        "the recipe is not at fault: where a solid holds practically "
+                        "all of a metal (an oxide at high pe and pH), leave the solid out "
+                        "and read its SI, or draw the pe–pH picture with `ionwright "
+                        "diagram`, which settles such points exactly")
+    return "", ""
 
 
 def _solid_state(state: PhaseEquilibrium, k: int, j: int) -> str:

@@ -19,6 +19,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..chemistry._constants import LN10
+from ..chemistry._redox import ELECTRON
 from ..chemistry._records import LogK
 from ..chemistry._tableset import TableSet
 from ..chemistry._temperature import R, T_REF
@@ -32,6 +33,7 @@ ION_PAIR = "ion pair"
 HYDROLYSIS = "metal hydrolysis"
 COMPLEX = "complex"
 SOLID = "solubility product"
+REDOX = "redox half-reaction"
 
 #: Default standard uncertainty of log10 K (1 s.d.) for a constant whose table states
 #: none, by class; with the reason for each value.  # common practice
@@ -51,6 +53,11 @@ CLASS_DEFAULTS: dict[str, tuple[float, str]] = {
     COMPLEX: (0.2, "stronger complexes differ by tenths between evaluations"),
     SOLID: (0.2, "solubility products differ by tenths between evaluations "
                  "(crystallinity, grain size, the complexes assumed)"),
+    # the compilations' standard potentials of one couple differ by a few mV, and 5 mV is
+    # 0.085 in log10 K per electron at 25 °C: Cu2+/Cu+ 8 mV, MnO2/Mn2+ 5 mV, NO3-/NO2-
+    # 16 mV apart (tests/reference/test_redox_*reference.py)
+    REDOX: (0.2, "standard potentials differ by a few mV between compilations "
+                 "(5 mV is 0.17 in log10 K of a two-electron couple)"),
 }
 #: |log10 K| up to which a complex of two ions is counted an ion pair.
 ION_PAIR_LOG10_K = 4.0
@@ -63,6 +70,8 @@ def constant_class(section: str, record) -> str:
     if section == "solids":
         return SOLID
     reaction = dict(record.reaction)
+    if ELECTRON in reaction:
+        return REDOX
     if record.logk.function == WATER_IONIZATION or set(reaction) == {WATER, PROTON}:
         return WATER_IONIZATION
     protons = reaction.get(PROTON, 0.0)

@@ -29,6 +29,22 @@ def phase_lines(result: Speciation) -> list[str]:
         if "saturation_index" in p and p["state"] != "saturated":
             detail += f", SI {p['saturation_index']:.2f}"
         if "needs" in p:
-            detail += f" (needs {', '.join(p['needs'])})"
+            detail += f" (needs {', '.join(p['needs'])}{_unlinked(result, p['needs'])})"
         lines.append(f"  {name:<18}{p['mode']:<17}{amount} {grams:<16} {detail}")
     return lines
+
+
+def _unlinked(result: Speciation, needs: list[str]) -> str:
+    """Why a solid that needs the other form of a redox couple cannot form: with no
+    redox level stated the oxidation states stay as given (Fe(II) is not oxidised to the
+    Fe(III) of ferrihydrite), and how to state one; empty otherwise."""
+    if (getattr(result, "redox", None) or {}).get("stated"):
+        return ""
+    couples = getattr(result.tables, "couples", {})
+    present = set(result.system.components)
+    partners = [name for name, couple in couples.items()
+                if name in present and set(needs) & set(couple.reaction)]
+    if not partners:
+        return ""
+    return (f": {', '.join(partners)} turns into it only under a stated redox level, such "
+            "as [gases] O2 or [fix] pe, Eh, ORP or dissolved_oxygen")

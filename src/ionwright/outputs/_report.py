@@ -47,15 +47,17 @@ def text_report(result) -> str:
                      f"first {SPECIES_SHOWN}; the JSON result lists all)")
     dist = r.distribution()
     if dist:
-        lines += ["", "where each component is (share of its total)"]
+        lines += ["", "where each component is (mol/kg in solution, and the share of it "
+                  "in each species)"]
         for comp, shares in dist.items():
+            dissolved = float(r.system.nu[:, r.system.components.index(comp)] @ r.molality)
             parts = [f"{pretty_name(name)} {100 * f:.1f} %" for name, f in shares.items()
                      if f >= 0.001]
-            lines.append(f"  {pretty_name(comp):<12} " + ", ".join(parts))
+            lines.append(f"  {pretty_name(comp):<12} {dissolved:10.3e}  " + ", ".join(parts))
     if r.saturation_indices:
         lines += ["", "saturation index (log IAP/Ksp; > 0 supersaturated)"]
         for name, si in r.saturation_indices.items():
-            lines.append(f"  {name:<20}{si:8.2f}")
+            lines.append(f"  {name:<20}{round(si, 2) + 0.0:8.2f}")   # no "-0.00"
     lines += redox_lines(r)
     lines += phase_lines(r)
     lines += uncertainty_lines(r)

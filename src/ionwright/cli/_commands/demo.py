@@ -13,7 +13,8 @@ if sys.version_info >= (3, 11):
 else:  # pragma: no cover
     import tomli as tomllib
 
-DEMOS = {"brewery": "brewery-rinse.toml", "lake": "lake-*.toml"}
+DEMOS = {"brewery": "brewery-rinse.toml", "lake": "lake-*.toml",
+         "aeration": "well-aeration.toml"}
 """Demo name → file name or pattern; a pattern of several files makes a survey report."""
 
 

@@ -41,4 +41,8 @@ def run(args: argparse.Namespace) -> int:
                                                                       diagram.solid))
     print(f"{args.plot}: {diagram.element} at {diagram.total_mol_per_kg:.3g} mol/kg, "
           f"{diagram.t_C:g} °C; areas: {areas}")
+    if not any(diagram.solid) and not args.solid and diagram.solids_of_element:
+        print(f"No solid of {diagram.element} was allowed to form; name those to consider "
+              f"with --solid (repeatable). Solids of {diagram.element} the tables hold: "
+              f"{', '.join(diagram.solids_of_element)}.")
     return 0
