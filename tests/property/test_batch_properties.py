@@ -39,21 +39,21 @@ def _recipe(row: pd.Series) -> dict:
     return recipe
 
 
-def _solved_alike(row: pd.Series, recipe: dict):
+def _solved_alike(row: pd.Series, recipe: dict, tolerance: float = 1e-12):
     """The single solve of *recipe*, checked against its batch *row* (status, pH and the
-    molality of every species the row has a column for, within 1e-12); None when the
-    single solve fails, as the row must then have."""
+    molality of every species the row has a column for, within *tolerance*); None when
+    the single solve fails, as the row must then have."""
     try:
         single = ionwright.solve(recipe)
     except ionwright.IonwrightError:
         assert row["status"] != "converged"
         return None
     assert row["status"] == "converged", row["message"]
-    assert row[batch.PH_COLUMN] == pytest.approx(single.pH, abs=1e-12)
+    assert row[batch.PH_COLUMN] == pytest.approx(single.pH, abs=tolerance)
     for name in single.system.species:
         column = batch.species_column(name)
         if column in row.index:
-            assert row[column] == pytest.approx(single.species_molality(name), rel=1e-12,
+            assert row[column] == pytest.approx(single.species_molality(name), rel=tolerance,
                                                 abs=1e-300)
     return single
 
@@ -163,7 +163,10 @@ def test_a_batch_row_with_a_redox_level_is_its_single_solve(frame):
         fix = {key: float(given_[key]) for key in ("pH", "pe") if np.isfinite(given_[key])}
         if fix:
             recipe["fix"] = fix
-        single = _solved_alike(row, recipe)
+        # Linked totals carry 9 or 10 H+ per N (NH4+ = NO3- + 10 H+ + 8 e- − 3 H2O), so the
+        # proton balance cancels to ~1e-5 of its terms: the batch's and the single solve's
+        # ways of summing the same totals (one ulp apart) show at ~1e-11 in pH.
+        single = _solved_alike(row, recipe, 1e-12 if "pe" not in fix else 1e-9)
         if single is None:
             continue
         if single.pe is None:

@@ -37,13 +37,16 @@ def analysed_molality(result, key: str) -> float:
 
 
 def test_the_couple_sets_the_pe_and_holds_both_forms_as_analysed():
-    """The pe found holds Fe(II) and Fe(III) at their analysed totals; the other couples
-    follow (nitrate is ammonium at that pe) and the alkalinity is still as measured."""
+    """The pe found holds Fe(II) and Fe(III) at their analysed totals; nitrate and
+    ammonia, also analysed in both forms, stay as analysed with a pe of their own; the
+    alkalinity is still as measured."""
     result = ionwright.solve({"analysis": {**WELL, "redox_couple": "Fe(III)/Fe(II)"}})
-    for key, component in (("Fe(II)", "Fe2+"), ("Fe(III)", "Fe3+")):
+    for key, component in (("Fe(II)", "Fe2+"), ("Fe(III)", "Fe3+"), ("NO3", "NO3-"),
+                           ("ammonia", "NH3")):
         assert state_totals(result, component) == pytest.approx(
             analysed_molality(result, key), rel=1e-8)
-    assert result.species_molality("NO3-") < 1e-20 < result.species_molality("NH4+")
+    assert set(result.redox["couples_kept_apart"]) == {"NO3-/NO2-", "NO3-/NH3"}
+    assert abs(result.redox["couples_pe"]["NO3-/NH3"] - result.pe) > 1.0
     derived = result.to_dict()["derived"]
     assert derived["alkalinity_mg_per_L_as_CaCO3"] == pytest.approx(150.0, rel=1e-9)
     assert "Fe(III)/Fe(II) couple as analysed" in result.redox["stated"]
@@ -229,13 +232,27 @@ def test_an_orp_against_hydrogen_needs_no_table():
 
 
 def test_a_ratio_out_of_reach_with_the_ph_free_asks_for_the_ph():
-    """Unbuffered, without a pH, nitrogen moving with the pe drags the pH along and no
-    pe gives this iron ratio: the refusal says why and asks for the measured pH."""
+    """Unbuffered, without a pH, nitrate (analysed alone, so it follows the pe) turning
+    to ammonium drags the pH along and no pe gives this iron ratio: the refusal says why
+    and asks for the measured pH."""
     with pytest.raises(RecipeError, match="give the measured pH"):
         ionwright.solve({"analysis": {
             "temperature_C": 5.0, "Fe(II)": "1.0 mg/L", "Fe(III)": "0.125 mg/L",
             "Ca": "5.0 mg/L", "Cl": "5.0 mg/L", "NO3": "4.0 mg/L as N",
-            "ammonia": "1.0 mg/L as N", "redox_couple": "Fe(III)/Fe(II)"}})
+            "redox_couple": "Fe(III)/Fe(II)"}})
+
+
+def test_nitrogen_analysed_in_both_forms_stays_and_the_couple_is_found():
+    """With ammonia analysed beside the nitrate, nitrogen keeps its analysed forms, the pH
+    no longer moves with the pe, and the iron ratio is reached."""
+    result = ionwright.solve({"analysis": {
+        "temperature_C": 5.0, "Fe(II)": "1.0 mg/L", "Fe(III)": "0.125 mg/L",
+        "Ca": "5.0 mg/L", "Cl": "5.0 mg/L", "NO3": "4.0 mg/L as N",
+        "ammonia": "1.0 mg/L as N", "redox_couple": "Fe(III)/Fe(II)"}})
+    assert state_totals(result, "Fe3+") / state_totals(result, "Fe2+") == pytest.approx(
+        analysed_molality(result, "Fe(III)") / analysed_molality(result, "Fe(II)"), rel=1e-8)
+    assert state_totals(result, "NH3") == pytest.approx(
+        analysed_molality(result, "ammonia"), rel=1e-8)
 
 
 # -- batch columns ---------------------------------------------------------------------------

@@ -17,6 +17,7 @@ from typing import Any, Mapping, Sequence
 import numpy as np
 
 from ..chemistry._density import component_solute
+from ..chemistry._redox import analysed_apart
 from ..chemistry._tableset import TableSet
 from ..core._acid_base import ALKALINITY_END_POINT_PH
 from ..engine._fits import DENSITY_ROUNDS, SETTLE_TOLERANCE, fit_rows
@@ -206,12 +207,18 @@ def _convert_group(rows: np.ndarray, key: tuple[str, bool, bool], entries: Seque
             break
         made = _made_up(picked, unknowns, fitted, rows, t_C, density, tables,
                         fitted_yet=round_ > 0)
-        here = rows[live]
-        found, ended, errors = fit_rows(
-            made.names, made.totals[live], t_C[here], ph[here],
-            alkalinity[here] * (1.0 / made.water[live]) if with_alkalinity else None,
-            balance or None, fitted[live] if round_ > 0 else np.zeros_like(fitted[live]),
-            tables, model, "analysis", jacobian[live], pe[here] if linked else None)
+        found = np.zeros((live.size, len(unknowns)))
+        ended = np.zeros((live.size, len(unknowns), len(unknowns)))
+        errors: list = [None] * live.size
+        for apart, at in _by_couples_apart(made, live, tables, linked):
+            part, here = live[at], rows[live[at]]
+            found[at], ended[at], errs = fit_rows(
+                made.names, made.totals[part], t_C[here], ph[here],
+                alkalinity[here] * (1.0 / made.water[part]) if with_alkalinity else None,
+                balance or None, fitted[part] if round_ > 0 else np.zeros_like(fitted[part]),
+                tables, model, "analysis", jacobian[part], pe[here] if linked else None, apart)
+            for j, e in zip(at.tolist(), errs):
+                errors[j] = e
         jacobian[live] = ended
         for j, k in enumerate(live.tolist()):
             if errors[j] is not None:
@@ -296,3 +303,15 @@ def _flag(problem: list[str], mask: np.ndarray, text: str) -> None:
     for r in np.flatnonzero(mask):
         if not problem[r]:
             problem[r] = text
+
+
+def _by_couples_apart(made, live: np.ndarray, tables: TableSet, linked: bool):
+    """(couples kept apart, positions in *live*) for the rows of *live* that keep the same
+    couples as analysed: those whose two forms a row measured, when it holds a pe."""
+    if not linked:
+        yield frozenset(), np.arange(live.size)
+        return
+    apart = [analysed_apart(tables, (c for c, v in zip(made.names, made.totals[k]) if v > 0))
+             for k in live.tolist()]
+    for kept in dict.fromkeys(apart):
+        yield kept, np.array([j for j, a in enumerate(apart) if a == kept], dtype=int)

@@ -23,8 +23,7 @@ from ..outputs._conductivity import conductivity
 from ..outputs._osmolality import WATER_KG_PER_MOL, osmotic_coefficients
 from ..outputs._solved_samples import SolvedSamples
 from ..chemistry._formula import parse_formula
-from ..chemistry._redox import ELECTRON, unlinked
-from ..inputs._redox_couple import couple_forms
+from ..chemistry._redox import ELECTRON, couple_forms, linked_couples, unlinked
 
 #: Output column of each number of the ``"derived"`` object (fractions become percent).
 DERIVED_COLUMNS = {
@@ -175,4 +174,5 @@ def _mixed_states(samples: SolvedSamples) -> set[str]:
     base = unlinked(samples.tables)
     if base is None:
         return set()
-    return {ELECTRON, *couple_forms(base).values()}
+    linked = linked_couples(samples.tables)
+    return {ELECTRON, *(other for named, other in couple_forms(base).items() if named in linked)}

@@ -69,7 +69,7 @@ from ..status import CONVERGED, INVALID
 from ..chemistry._constants import LN10
 from ..core._phases import _take
 from ..core._saturation import saturation_indices
-from ..chemistry._redox import ELECTRON, eh_from_pe, electron_tables
+from ..chemistry._redox import ELECTRON, analysed_apart, eh_from_pe, electron_tables
 from ..engine._fits import in_linked_columns
 from ..outputs._uncertainty import batch_pH_uncertainty
 from ..inputs._checks import PLAUSIBLE_PH
@@ -545,7 +545,8 @@ def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: st
     valid = np.array([not p for p in samples.problem], dtype=bool)
     progress = progress or RowProgress(n, None)
     progress.advance(int(np.count_nonzero(~valid)))  # invalid rows need no solve
-    keys = np.concatenate([present, fixed[:, None], held_pe[:, None]], axis=1)
+    keys = np.concatenate([present, fixed[:, None], held_pe[:, None],
+                           samples.analysis[:, None]], axis=1)
     candidates = np.flatnonzero(valid)
     if not candidates.size:
         return _with_gaps(out, samples.gaps)
@@ -556,7 +557,8 @@ def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: st
         comps = [plan.components[j] for j in np.flatnonzero(present[rows[0]])]
         group_tables, names, totals = tables, list(plan.components), samples.totals[rows]
         if held_pe[rows[0]]:   # the oxidation states linked, the electron held
-            group_tables = electron_tables(tables)
+            apart = analysed_apart(tables, comps) if samples.analysis[rows[0]] else frozenset()
+            group_tables = electron_tables(tables, apart)
             names, totals = in_linked_columns(plan.components, totals, group_tables)
             comps = [c for j, c in enumerate(names)
                      if c not in (PROTON, ELECTRON) and totals[0, j] > 0] + [ELECTRON]

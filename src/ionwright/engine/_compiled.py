@@ -19,7 +19,7 @@ import numpy as np
 
 from ..activity._pairs import ion_pairs_of
 from ..chemistry._ingredients import Makeup, makeup
-from ..chemistry._redox import ELECTRON, electron_tables
+from ..chemistry._redox import ELECTRON, analysed_apart, electron_tables
 from ..chemistry._tableset import TableSet
 from ..core import _solver as solver
 from ..core._constant_terms import LogKShift
@@ -81,7 +81,7 @@ class CompiledRecipe:
         tables = load_tables(recipe.tables, registry)
         choice = read_phases(recipe.phases, tables, recipe.origin) if recipe.phases else NO_PHASES
         if states_redox_level(recipe, choice, tables):
-            tables = electron_tables(tables)
+            tables = electron_tables(tables, kept_apart(recipe, tables))
             choice = read_phases(recipe.phases, tables, recipe.origin) if recipe.phases \
                 else NO_PHASES
         totals, makeups = component_totals(recipe, tables)
@@ -240,3 +240,13 @@ def _bound(model, system: ChemicalSystem, t_C: float):
     if len(_BOUND) > BOUND_CACHE_SIZE:
         _BOUND.popitem(last=False)
     return bound
+
+
+def kept_apart(recipe: Recipe, tables: TableSet) -> frozenset[str]:
+    """The couples a water analysis measured in both forms, which a stated redox level
+    leaves as measured (none for a recipe that is not an analysis: its level links all)."""
+    if not recipe.from_analysis:
+        return frozenset()
+    setting = recipe.redox_couple.reduced if recipe.redox_couple else None
+    return analysed_apart(tables, (c for c, amount in recipe.components if amount > 0),
+                          setting)

@@ -27,7 +27,7 @@ import numpy as np
 
 from ..activity._pairs import ion_pairs_of
 from ..chemistry._constants import LN10
-from ..chemistry._redox import ELECTRON, electron_tables, in_linked_basis
+from ..chemistry._redox import ELECTRON, analysed_apart, electron_tables, in_linked_basis
 from ..chemistry._tableset import TableSet
 from ..core import _solver as solver
 from ..core._acid_base import alkalinity_weights_at, series
@@ -107,7 +107,8 @@ def fit_analyses(items: Sequence[tuple[Recipe, AnalysisFit]], registry: Registry
                                       None if fit.alkalinity is None
                                       else fit.alkalinity[0] * litres_per_kg,
                                       None if fit.balance is None else fit.balance[1],
-                                      fitted[i], jacobians[i], held_pe(fit, tables))))
+                                      fitted[i], jacobians[i], held_pe(fit, tables),
+                                      _apart(items[i][0], totals, tables))))
         found = fit_totals([t for _, t in targets], tables, model)
         for (i, _), got in zip(targets, found):
             if isinstance(got, IonwrightError):
@@ -126,6 +127,13 @@ def fit_analyses(items: Sequence[tuple[Recipe, AnalysisFit]], registry: Registry
     return [o for o in out if o is not None]
 
 
+def _apart(recipe: Recipe, totals: Mapping[str, float], tables: TableSet) -> frozenset[str]:
+    """The couples an analysis with *totals* measured in both forms (none for a couple
+    that sets its level)."""
+    setting = recipe.redox_couple.reduced if recipe.redox_couple else None
+    return analysed_apart(tables, (c for c, v in totals.items() if v > 0), setting)
+
+
 @dataclass(frozen=True)
 class Target:
     """One sample to fit: its known totals (mol/kg water), fixed pH and temperature, the
@@ -140,6 +148,7 @@ class Target:
     guess: Mapping[str, float]
     jacobian: np.ndarray | None = None   # (k, k) from a previous fit of the same sample
     pe: float | None = None              # the pe held (the oxidation states linked)
+    apart: frozenset[str] = frozenset()  # couples analysed in both forms, kept as analysed
 
     @property
     def unknowns(self) -> tuple[str, ...]:
@@ -156,9 +165,9 @@ def fit_totals(targets: Sequence[Target], tables: TableSet, model
         RecipeError("fit", "not fitted")] * len(targets)
     by_unknowns: dict[tuple, list[int]] = {}
     for k, target in enumerate(targets):
-        by_unknowns.setdefault((target.unknowns, target.balance, target.pe is not None),
-                               []).append(k)
-    for (unknowns, balance, linked), members in by_unknowns.items():
+        by_unknowns.setdefault((target.unknowns, target.balance, target.pe is not None,
+                                target.apart), []).append(k)
+    for (unknowns, balance, linked, apart), members in by_unknowns.items():
         names = list(dict.fromkeys(c for k in members for c in targets[k].totals))
         chosen = [targets[k] for k in members]
         totals = np.array([[t.totals.get(c, 0.0) for c in names] for t in chosen])
@@ -171,7 +180,7 @@ def fit_totals(targets: Sequence[Target], tables: TableSet, model
         pe = np.array([t.pe for t in chosen], dtype=float) if linked else None
         x, jac, errors = fit_rows(names, totals, np.array([t.t_C for t in chosen]),
                                   np.array([t.ph for t in chosen]), alkalinity, balance,
-                                  guess, tables, model, chosen[0].where, jacobian, pe)
+                                  guess, tables, model, chosen[0].where, jacobian, pe, apart)
         for j, k in enumerate(members):
             out[k] = errors[j] or (dict(zip(unknowns, x[j].tolist())), jac[j])
     return out
@@ -180,19 +189,21 @@ def fit_totals(targets: Sequence[Target], tables: TableSet, model
 def fit_rows(names: Sequence[str], totals: np.ndarray, t_C: np.ndarray, ph: np.ndarray,
              alkalinity: np.ndarray | None, balance: str | None, guess: np.ndarray,
              tables: TableSet, model, where: str = "analysis",
-             jacobian: np.ndarray | None = None, pe: np.ndarray | None = None
+             jacobian: np.ndarray | None = None, pe: np.ndarray | None = None,
+             apart: frozenset[str] = frozenset()
              ) -> tuple[np.ndarray, np.ndarray, list[IonwrightError | None]]:
     """Fit n samples given as arrays: *totals* (n, len(names)) of the components *names*
     (mol/kg water), the fixed pH, the alkalinity (eq/kg water) when carbonate is fitted,
     the ion to balance on, and a starting point *guess* (n, k), 0 where there is none.
     *jacobian* (n, k, k), NaN where unknown, starts the secant updates (a previous round's).
-    With *pe* (n,) the oxidation states are linked and that pe held.
+    With *pe* (n,) the oxidation states are linked (but for the couples *apart*) and that
+    pe held.
     Returns the fitted totals (n, k), the Jacobians they ended with, and each sample's
     error (None when it fitted)."""
     unknowns = ((CARBONATE,) if alkalinity is not None else ()) + ((balance,) if balance
                                                                     else ())
     if pe is not None:
-        tables = electron_tables(tables)
+        tables = electron_tables(tables, apart)
         names, totals = in_linked_columns(names, totals, tables)
         if balance and balance not in tables.components:
             raise RecipeError(f"{where} balance_on", f"{balance} is linked to another "

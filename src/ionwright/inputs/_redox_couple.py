@@ -13,13 +13,12 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any, Mapping
 
-from ..chemistry._redox import ELECTRON
+from ..chemistry._redox import ELECTRON, couple_forms
 from ..chemistry._tableset import TableSet
 from ..errors import RecipeError
 from ._analytes import map_analyte
 
 COUPLE_KEY = "redox_couple"
-_NOT_PARTS = (ELECTRON, "H+", "H2O")
 
 
 @dataclass(frozen=True)
@@ -95,18 +94,3 @@ def _electrons(oxidised: str, reduced: str, tables: TableSet) -> float | None:
     if couple_forms(tables).get(reduced) != oxidised:
         return None
     return float(tables.active_couples()[reduced].reaction[ELECTRON])
-
-
-def couple_forms(tables: TableSet) -> dict[str, str]:
-    """Reduced component → the component of its oxidised form, for every active couple
-    (the oxidised form may be a species, as H3AsO4 of arsenate)."""
-    out = {}
-    for reduced, couple in tables.active_couples().items():
-        part = next(p for p in couple.reaction if p not in _NOT_PARTS)
-        if part not in tables.components:
-            heavy = [c for c in tables.resolve(part).stoichiometry if c not in _NOT_PARTS]
-            if len(heavy) != 1:
-                continue
-            part = heavy[0]
-        out[reduced] = part
-    return out

@@ -4,7 +4,8 @@ Natural waters are seldom in redox equilibrium: the pe that Fe(III)/Fe(II), NO3-
 SO4^2-/HS- imply differ, often by several units. Each couple whose two forms are in the
 solution gets its own pe from their activities (the Nernst equation), so that the
 disequilibrium is shown rather than hidden behind one number. With a stated redox level
-the forms are linked and every couple gives that level back.
+the forms are linked and every couple gives that level back, but for the couples a water
+analysis measured in both forms: those are kept as measured and give their own pe.
 
 References
 ----------
@@ -20,7 +21,7 @@ import numpy as np
 
 from ..chemistry._constants import LN10
 from ..chemistry._oxygen import O2_MOLAR_MASS_G, saturation_mg_per_L
-from ..chemistry._redox import ELECTRON, eh_from_pe, unlinked
+from ..chemistry._redox import ELECTRON, eh_from_pe, linked_couples, unlinked
 from ..chemistry._water import density
 from ..chemistry._tableset import TableSet
 from ..core._system import PROTON, WATER, ChemicalSystem, log10_k_at
@@ -48,11 +49,7 @@ def couple_pe(speciation: Speciation) -> dict[str, float]:
     system, t = speciation.system, speciation.temperature_C
     log_a = _log10_activities(speciation)
     out = {}
-    for named, couple in base.active_couples().items():
-        other = next(p for p in couple.reaction if p not in (ELECTRON, PROTON, WATER))
-        # a couple names its reduced form (Fe2+ from Fe3+ + e-), or, with electrons given
-        # up (e- < 0), its oxidised form (OCl- from Cl-, chlorine.toml)
-        oxidised, reduced = (named, other) if couple.reaction[ELECTRON] < 0 else (other, named)
+    for named, couple, oxidised, reduced in _couples(base):
         if not all(name in system.species for name in (reduced, oxidised)):
             continue
         if min(speciation.species_molality(reduced),
@@ -64,6 +61,27 @@ def couple_pe(speciation: Speciation) -> dict[str, float]:
         log10_k_couple = float(log10_k_at(couple.logk, np.array([t]))[0])
         out[f"{oxidised}/{reduced}"] = float(-(log_a[named] - log10_k_couple - rest) / electrons)
     return out
+
+
+def couples_kept_apart(speciation: Speciation) -> list[str]:
+    """The couples ("oxidised/reduced") a stated redox level left apart, because the
+    analysis measured both their forms (:func:`ionwright.chemistry._redox.analysed_apart`)."""
+    base = unlinked(speciation.tables)
+    if base is None:
+        return []
+    linked = linked_couples(speciation.tables)
+    return [f"{oxidised}/{reduced}" for named, _, oxidised, reduced in _couples(base)
+            if named not in linked]
+
+
+def _couples(base: TableSet):
+    """(named component, couple, oxidised form, reduced form) of each active couple of
+    *base*: a couple names its reduced form (Fe2+ from Fe3+ + e-), or, with electrons
+    given up (e- < 0), its oxidised form (OCl- from Cl-, chlorine.toml)."""
+    for named, couple in base.active_couples().items():
+        other = next(p for p in couple.reaction if p not in (ELECTRON, PROTON, WATER))
+        oxidised, reduced = (named, other) if couple.reaction[ELECTRON] < 0 else (other, named)
+        yield named, couple, oxidised, reduced
 
 
 def state_weights(system: ChemicalSystem, tables: TableSet, component: str) -> np.ndarray:
@@ -97,6 +115,7 @@ def redox_summary(speciation: Speciation) -> dict[str, Any]:
             "Eh_V": None if pe is None else float(eh_from_pe(pe, speciation.temperature_C)),
             "stated": speciation.recipe.redox_level or None,
             "couples_pe": couple_pe(speciation),
+            "couples_kept_apart": couples_kept_apart(speciation),
             "oxygen_saturation_percent": oxygen_saturation_percent(speciation)}
 
 
@@ -118,8 +137,14 @@ def report_lines(speciation: Speciation) -> list[str]:
                      f"standard hydrogen electrode")
     if summary["stated"]:
         lines.append(f"  stated as {summary['stated']}")
+    apart = summary["couples_kept_apart"]
     for couple, pe in summary["couples_pe"].items():
-        lines.append(f"  {couple:<18} implies pe {pe:6.2f} (Eh {float(eh_from_pe(pe, speciation.temperature_C)):+.3f} V)")
+        eh = float(eh_from_pe(pe, speciation.temperature_C))
+        mark = " *" if couple in apart else ""
+        lines.append(f"  {couple:<18} implies pe {pe:6.2f} (Eh {eh:+.3f} V){mark}")
+    if any(couple in apart for couple in summary["couples_pe"]):
+        lines += ["  * both forms analysed: kept as measured, not brought to the stated level",
+                  "    (natural waters are seldom in redox equilibrium)"]
     saturation = summary["oxygen_saturation_percent"]
     if saturation is not None:
         shown = f"{saturation:.3g} %" if saturation >= 0.01 else "below 0.01 %"
