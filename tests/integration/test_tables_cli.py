@@ -253,3 +253,14 @@ def test_show_a_kind_lists_every_entry_of_it(capsys):
     lines = out.splitlines()
     assert lines[0].split() == ["gas", "table", "definition"]
     assert any(x.startswith("CO2(g) ") and "CO2(g) = CO2; log K -1.468" in x for x in lines)
+
+
+def test_show_lists_a_tables_redox_couples_and_finds_a_couple_by_name(capsys):
+    code, out, _ = run(capsys, "tables", "show", "redox")
+    assert code == 0
+    assert "couples (" in out and "used only when a recipe states a redox level" in out
+    assert "Fe3+ + e- = Fe2+; log K 13.033" in out
+    code, out, _ = run(capsys, "tables", "show", "Fe2+")
+    assert "couple 'Fe2+' in table 'redox'" in out
+    assert "component 'Fe2+' in table 'metals'" in out
+    assert "wins" not in out   # a component and the couple that links it override nothing

@@ -19,7 +19,9 @@ from pathlib import Path
 
 SECTIONS = ("components", "species", "solids", "gases", "reagents")
 SINGULAR = {"components": "component", "species": "species", "solids": "solid",
-            "gases": "gas", "reagents": "reagent"}
+            "gases": "gas", "reagents": "reagent", "couples": "couple"}
+#: shown by `tables show` after the sections: redox couples, used at a stated redox level
+COUPLES = "couples"
 REAGENT_LAYER = "reagents:"
 
 
@@ -158,7 +160,7 @@ def run_show(args: argparse.Namespace) -> int:
         print("  " + _describe(section, record))
         print(f"  source: {table.citation(record.source)}"
               + ("  [from memory: verify]" if getattr(record, "from_memory", False) else ""))
-    if len({t.name for t, _, _ in found}) > 1:
+    if len({t.name for t, section, _ in found if section != COUPLES}) > 1:
         print(f"\n{name!r} is defined in {len(found)} tables; in a recipe, the table listed "
               f"later in `tables = [...]` wins (and the result warns about the override)")
     for table_name, problem in unreadable:
@@ -172,8 +174,8 @@ def _definitions(table, name: str):
     components and species in any spelling of their charge)."""
     from ...chemistry._names import canonical_name
 
-    for section in SECTIONS:
-        records = getattr(table, section)
+    for section in (*SECTIONS, COUPLES):
+        records = getattr(table, section, {})
         if name in records:
             yield section, records[name]
         elif section in ("components", "species") and canonical_name(name) in records:
@@ -202,11 +204,12 @@ def _show_table(table) -> None:
     for key in ("licence", "standard_state"):
         if key in about:
             print(f"  {key}: {about[key]}")
-    for section in SECTIONS:
-        records = getattr(table, section)
+    for section in (*SECTIONS, COUPLES):
+        records = getattr(table, section, {})
         if not records:
             continue
-        print(f"\n{section} ({len(records)})")
+        used = " (used only when a recipe states a redox level)" if section == COUPLES else ""
+        print(f"\n{section} ({len(records)}){used}")
         for record in records.values():
             memory = " [from memory]" if getattr(record, "from_memory", False) else ""
             print(f"  {record.name:<24}{_describe(section, record)}  "
@@ -237,7 +240,8 @@ def _describe(section: str, record) -> str:
         f", ΔCp° {logk.heat_capacity_J:g} J/(mol K)" if logk.heat_capacity_J is not None else "",
         ", analytic" if logk.analytic is not None else "",
         f", {logk.range_C[0]:g}–{logk.range_C[1]:g} °C" if logk.range_C else ""])
-    return f"{equation(section, record)}; log K {logk.log10_k:g}{extra}"
+    shown = "species" if section == COUPLES else section   # a couple forms its component
+    return f"{equation(shown, record)}; log K {logk.log10_k:g}{extra}"
 
 
 def _terms(amounts) -> str:
