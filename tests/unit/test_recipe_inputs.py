@@ -127,6 +127,42 @@ def test_poured_solution_with_a_fixed_ph_keeps_its_protons(tmp_path):
     assert dict(result.recipe.components)["H+"] > 9e-4
 
 
+def test_a_poured_solution_brings_what_its_solids_and_gases_left_in_it(tmp_path):
+    """A rinse equilibrated with calcite under air, poured whole into nothing else, is the
+    same solution: the calcium and carbonate its equilibrium dissolved come with it."""
+    (tmp_path / "rinse.toml").write_text(
+        '[dissolve]\nNaCl = 0.001\n[solids]\ncalcite = "equilibrate"\n'
+        '[gases]\nCO2 = "420 uatm"\n', encoding="utf-8")
+    (tmp_path / "all.toml").write_text('[[pour]]\nrecipe = "rinse.toml"\nvolume = "1 L"\n',
+                                       encoding="utf-8")
+    alone = ionwright.solve(tmp_path / "rinse.toml")
+    poured = ionwright.solve(tmp_path / "all.toml")
+    assert poured.pH == pytest.approx(alone.pH, abs=1e-6)
+    for name in ("Ca2+", "HCO3-", "CO2"):
+        assert poured.species_molality(name) == pytest.approx(alone.species_molality(name),
+                                                              rel=1e-6)
+    assert not poured.recipe.phases        # the mix equilibrates with nothing itself
+
+
+def test_a_poured_analysis_at_a_redox_level_brings_its_states_not_its_level(tmp_path):
+    (tmp_path / "well.toml").write_text(
+        '[analysis]\ntemperature_C = 11.0\npH = 6.9\nCa = "60 mg/L"\nNa = "20 mg/L"\n'
+        'alkalinity = "180 mg/L as CaCO3"\nCl = "25 mg/L"\nFe = "1.2 mg/L"\n'
+        'dissolved_oxygen = "0.5 mg/L"\nbalance_on = "Cl"\n', encoding="utf-8")
+    (tmp_path / "blend.toml").write_text(
+        'temperature_C = 11.0\n[[pour]]\nrecipe = "well.toml"\nvolume = "1 L"\n',
+        encoding="utf-8")
+    alone = ionwright.solve(tmp_path / "well.toml")
+    blend = ionwright.solve(tmp_path / "blend.toml")
+    assert blend.pe is None
+    components = dict(blend.recipe.components)
+    assert components.get("Fe2+", 0.0) < 1e-12       # oxidised at the well's level
+    iron = sum(m for name, m in zip(alone.system.species, alone.molality) if "Fe" in name)
+    assert components["Fe3+"] == pytest.approx(iron, rel=1e-9)
+    (notice,) = [n for n in blend.notices if n.code == "pour-redox-level"]
+    assert "dissolved oxygen 0.5 mg/L" in notice.text and "O2" in notice.text
+
+
 def test_stocks_go_into_the_solution_as_made(tmp_path):
     """The recipe convention: water, volume and [dissolve] make a solution; each [[add]]
     then goes into it with its own solutes and water, and nothing is made up afterwards."""

@@ -339,7 +339,8 @@ def _stocks(data: dict[str, Any], recipe: Recipe, tables: TableSet) -> list[Port
 def _pours(data: dict[str, Any], recipe: Recipe, registry: Registry | None, tables: TableSet,
            chain: tuple[Path, ...]) -> list[Portion | PouredSolution]:
     """Each [[pour]]: *volume* of the solution another recipe file makes (left for the
-    engine when that solution's pH is fixed or it is pending itself)."""
+    engine when that solution's pH is fixed, it has solids or gases to equilibrate, or it
+    is pending itself)."""
     out: list[Portion | PouredSolution] = []
     for i, item in enumerate(_array_of_tables(data, "pour", recipe.origin)):
         where = f"{recipe.origin} [[pour]] #{i + 1}"
@@ -360,7 +361,7 @@ def _pours(data: dict[str, Any], recipe: Recipe, registry: Registry | None, tabl
                               "a recipe cannot contain itself; break the loop")
         poured = _read(path, registry, chain)
         key = f"[[pour]] {item['recipe']}"
-        if poured.fix or poured.pending is not None:
+        if poured.fix or poured.pending is not None or poured.phases:
             out.append(PouredSolution(poured, volume.value, key, volume.text, where))
         else:
             out.append(poured_portion(poured, None, tables, volume.value, key, volume.text,
