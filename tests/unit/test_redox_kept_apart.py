@@ -77,3 +77,31 @@ def test_a_batch_row_keeps_the_same_couples_apart_as_its_single_solve():
             assert out[batch.species_column(name)][k] == pytest.approx(
                 single.species_molality(name), rel=1e-8, abs=1e-30)
     assert out[batch.species_column("NH4+")][0] > 1e-5   # kept as analysed
+
+
+def test_batch_rows_give_the_pe_each_couple_implies_as_the_single_solve_does():
+    """'pe of Fe3+/Fe2+' and 'pe of NO3-/NH3' columns: the single result's couples_pe,
+    with and without a stated level, NaN where a row lacks a form."""
+    iron = {"Fe(II)": "1.2 mg/L", "Fe(III)": "0.05 mg/L"}
+    base = {k: v for k, v in WELL.items() if k != "Fe"}
+    frame = pd.DataFrame({"temperature_C": [11.0] * 3, "pH": [6.9] * 3,
+                          "Ca [mg/L]": [60.0] * 3, "Na [mg/L]": [20.0] * 3,
+                          "alkalinity [mg/L as CaCO3]": [150.0] * 3, "SO4 [mg/L]": [30.0] * 3,
+                          "NO3 [mg/L as N]": [2.0, 2.0, 0.0],
+                          "ammonia [mg/L as N]": [0.3] * 3, "Fe(II) [mg/L]": [1.2] * 3,
+                          "Fe(III) [mg/L]": [0.05] * 3,
+                          "dissolved_oxygen [mg/L]": [0.5, None, None],
+                          "Cl [mg/L]": [25.0] * 3, "balance_on": ["Cl"] * 3})
+    out = ionwright.solve_batch(frame)
+    no_level = {k: v for k, v in base.items() if k != "dissolved_oxygen"}
+    singles = [{**base, **iron}, {**no_level, **iron},
+               {**no_level, **iron, "NO3": "0 mg/L as N"}]
+    for k, analysis in enumerate(singles):
+        single = ionwright.solve({"analysis": analysis}).redox["couples_pe"]
+        for couple in ("Fe3+/Fe2+", "NO3-/NH3"):
+            cell = out[batch.couple_pe_column(couple)][k]
+            if couple in single:
+                assert cell == pytest.approx(single[couple], abs=1e-8)
+            else:
+                assert pd.isna(cell)
+    assert pd.isna(out[batch.couple_pe_column("NO3-/NH3")][2])

@@ -69,6 +69,7 @@ from ..status import CONVERGED, INVALID
 from ..chemistry._constants import LN10
 from ..core._phases import _take
 from ..core._saturation import saturation_indices
+from ..outputs._redox import couple_labels, couple_pe_rows
 from ..chemistry._redox import ELECTRON, analysed_apart, eh_from_pe, electron_tables
 from ..engine._fits import in_linked_columns
 from ..outputs._uncertainty import batch_pH_uncertainty
@@ -85,6 +86,12 @@ STATUS_COLUMN, MESSAGE_COLUMN = "status", "message"
 PH_COLUMN = "solved pH"
 PE_COLUMN = "solved pe"
 EH_COLUMN = "Eh [V]"
+
+
+def couple_pe_column(label: str) -> str:
+    """Header of the pe a couple ("Fe3+/Fe2+") implies in each row (NaN where a form is
+    absent), shown so that redox disequilibrium is visible."""
+    return f"pe of {label}"
 PH_UNCERTAINTY_COLUMN = "pH uncertainty, constants [1 s.d.]"
 IONIC_STRENGTH_COLUMN = "ionic strength [mol/kg]"
 TEMPERATURE_NAMES = ("temperature_C", "temperature [C]", "temperature [°C]")
@@ -130,9 +137,11 @@ class Plan:
     solids: tuple[str, ...]
     table_names: tuple[str, ...] = DEFAULT_TABLES
     derived: DerivedOptions = DerivedOptions()
+    couples: tuple[str, ...] = ()      # "oxidised/reduced" of the couples it can report
 
     def output_columns(self) -> list[str]:
-        return [PH_COLUMN, PH_UNCERTAINTY_COLUMN, PE_COLUMN, EH_COLUMN, IONIC_STRENGTH_COLUMN,
+        return [PH_COLUMN, PH_UNCERTAINTY_COLUMN, PE_COLUMN, EH_COLUMN,
+                *map(couple_pe_column, self.couples), IONIC_STRENGTH_COLUMN,
                 *derived_headers(self.components, self.derived),
                 *map(species_column, self.species),
                 *map(saturation_column, self.solids), NOT_ANALYSED_COLUMN, BELOW_LIMIT_COLUMN,
@@ -166,7 +175,8 @@ def plan_columns(headers: Sequence[str], tables: TableSet, species: Sequence[str
                 raise UnknownNameError("species", name, known,
                                        "`ionwright tables show species` lists them")
         chosen = tuple(tables.species_name(name) for name in species)
-    plan = Plan(columns, widest.components, tuple(chosen), solids, derived=derived)
+    plan = Plan(columns, widest.components, tuple(chosen), solids, derived=derived,
+                couples=tuple(couple_labels(tables, widest.components)))
     clash = sorted(set(plan.output_columns()) & {c.header for c in columns})
     if clash:
         raise RecipeError("batch input", f"column(s) {', '.join(map(repr, clash))} clash with "
@@ -523,6 +533,7 @@ class Solved:
     ph_uncertainty: np.ndarray    # (n,) from the constants' uncertainties
     pe: np.ndarray                # (n,) NaN for rows without a redox level
     eh: np.ndarray                # (n,) V against the standard hydrogen electrode
+    couples_pe: dict[str, np.ndarray]   # "oxidised/reduced" → (n,) the pe it implies
 
 
 def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: str,
@@ -535,7 +546,8 @@ def solve_samples(samples: Samples, plan: Plan, tables: TableSet, model_name: st
                  np.full((n, len(plan.species)), np.nan), np.full((n, len(plan.solids)), np.nan),
                  np.full(n, INVALID, dtype=object), np.array(samples.problem, dtype=object),
                  DerivedTable(n, plan.components, plan.derived), np.full(n, np.nan),
-                 np.full(n, np.nan), np.full(n, np.nan))
+                 np.full(n, np.nan), np.full(n, np.nan),
+                 {label: np.full(n, np.nan) for label in plan.couples})
     model = registry.model(model_name)
     proton = plan.components.index(PROTON)
     present = samples.totals > 0
@@ -642,6 +654,11 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, totals: np.ndarray,
     for j, name in enumerate(plan.species):
         out.molality[good, j] = eq.molality[ok, index[name]] if name in index else 0.0
     _saturation(system, tables, eq, ok, t, plan, out.saturation, good)
+    found = couple_pe_rows(system, tables, t[ok], eq.molality[ok],
+                           _log10_activities(system, eq, ok), eq.ln_water_activity[ok] / LN10)
+    for label, pe in found.items():
+        if label in out.couples_pe:
+            out.couples_pe[label][good] = pe
     solved = SolvedSamples(system, tables, model, t[ok], eq.log_activity[ok], eq.molality[ok],
                            eq.ln_gamma[ok], eq.ionic_strength[ok], eq.ln_water_activity[ok],
                            totals[ok], samples.water_kg_per_L[good], samples.analysis[good])
@@ -668,6 +685,13 @@ def _solve_group(system: ChemicalSystem, rows: np.ndarray, totals: np.ndarray,
                                 f"residual {eq.residual[k]:.3g}, tolerance "
                                 f"{RESIDUAL_TOLERANCE:.3g}), also when retried alone "
                                 "with the careful path; check that the totals are possible")
+
+
+def _log10_activities(system: ChemicalSystem, eq: solver.Equilibrium, ok: np.ndarray
+                      ) -> np.ndarray:
+    """log10 a (rows, species) of the converged rows *ok* (−inf for a zero molality)."""
+    with np.errstate(divide="ignore"):
+        return np.log10(eq.molality[ok]) + eq.ln_gamma[ok] / LN10
 
 
 def _saturation(system: ChemicalSystem, tables: TableSet, eq: solver.Equilibrium,
@@ -809,6 +833,7 @@ def _solve_frame(frame: pd.DataFrame, *, species: Sequence[str] | None, model: s
                            RowProgress(len(frame), progress))
     results = {PH_COLUMN: solved.ph, PH_UNCERTAINTY_COLUMN: solved.ph_uncertainty,
                PE_COLUMN: solved.pe, EH_COLUMN: solved.eh,
+               **{couple_pe_column(label): pe for label, pe in solved.couples_pe.items()},
                IONIC_STRENGTH_COLUMN: solved.ionic_strength}
     results.update(solved.derived.columns)
     for j, name in enumerate(plan.species):

@@ -15,13 +15,14 @@ redox disequilibrium in natural waters).
 
 from __future__ import annotations
 
+from collections.abc import Iterable
 from typing import Any
 
 import numpy as np
 
 from ..chemistry._constants import LN10
 from ..chemistry._oxygen import O2_MOLAR_MASS_G, saturation_mg_per_L
-from ..chemistry._redox import ELECTRON, eh_from_pe, linked_couples, unlinked
+from ..chemistry._redox import ELECTRON, couple_forms, eh_from_pe, linked_couples, unlinked
 from ..chemistry._water import density
 from ..chemistry._tableset import TableSet
 from ..core._system import PROTON, WATER, ChemicalSystem, log10_k_at
@@ -44,22 +45,45 @@ def pe_of(speciation: Speciation) -> float | None:
 def couple_pe(speciation: Speciation) -> dict[str, float]:
     """The pe each redox couple implies, named "oxidised/reduced" (e.g. "Fe3+/Fe2+"), for
     every couple whose two forms are both in the solution."""
-    tables = speciation.tables
+    with np.errstate(divide="ignore"):
+        log_a = np.log10(speciation.activity)[None, :]
+    found = couple_pe_rows(speciation.system, speciation.tables,
+                           np.array([speciation.temperature_C]), speciation.molality[None, :],
+                           log_a, np.array([speciation.log10_water_activity]))
+    return {label: float(pe[0]) for label, pe in found.items() if np.isfinite(pe[0])}
+
+
+def couple_labels(tables: TableSet, components: Iterable[str]) -> list[str]:
+    """"oxidised/reduced" of every couple of *tables* (unlinked) whose two forms are made
+    of *components*: the couples a batch over those components can report."""
+    have = set(components)
+    forms = couple_forms(tables)
+    return [f"{oxidised}/{reduced}" for named, _, oxidised, reduced in _couples(tables)
+            if named in have and forms.get(named) in have]
+
+
+def couple_pe_rows(system: ChemicalSystem, tables: TableSet, t_C: np.ndarray,
+                   molality: np.ndarray, log10_activity: np.ndarray,
+                   log10_water: np.ndarray) -> dict[str, np.ndarray]:
+    """The pe (n,) each couple implies in n solved samples of *system* (Nernst, from the
+    activities of its two forms), NaN in a sample lacking a form; only couples whose
+    two forms the system has."""
     base = unlinked(tables) or tables
-    system, t = speciation.system, speciation.temperature_C
-    log_a = _log10_activities(speciation)
+    index = {name: j for j, name in enumerate(system.species)}
     out = {}
     for named, couple, oxidised, reduced in _couples(base):
-        if not all(name in system.species for name in (reduced, oxidised)):
+        if reduced not in index or oxidised not in index:
             continue
-        if min(speciation.species_molality(reduced),
-               speciation.species_molality(oxidised)) < ABSENT_MOLALITY:
-            continue
-        electrons = couple.reaction[ELECTRON]
-        rest = sum(nu * log_a[part] for part, nu in couple.reaction.items()
-                   if part != ELECTRON)
-        log10_k_couple = float(log10_k_at(couple.logk, np.array([t]))[0])
-        out[f"{oxidised}/{reduced}"] = float(-(log_a[named] - log10_k_couple - rest) / electrons)
+        present = np.minimum(molality[:, index[reduced]],
+                             molality[:, index[oxidised]]) >= ABSENT_MOLALITY
+        rest = np.zeros(len(t_C))
+        for part, nu in couple.reaction.items():
+            if part == ELECTRON:
+                continue
+            rest = rest + nu * (log10_water if part == WATER else log10_activity[:, index[part]])
+        log10_k = log10_k_at(couple.logk, np.asarray(t_C, dtype=float))
+        pe = -(log10_activity[:, index[named]] - log10_k - rest) / couple.reaction[ELECTRON]
+        out[f"{oxidised}/{reduced}"] = np.where(present, pe, np.nan)
     return out
 
 
@@ -117,15 +141,6 @@ def redox_summary(speciation: Speciation) -> dict[str, Any]:
             "couples_pe": couple_pe(speciation),
             "couples_kept_apart": couples_kept_apart(speciation),
             "oxygen_saturation_percent": oxygen_saturation_percent(speciation)}
-
-
-def _log10_activities(speciation: Speciation) -> dict[str, float]:
-    """log10 a of every species, H+ and water (−inf for a species of zero molality)."""
-    with np.errstate(divide="ignore"):
-        values = np.log10(speciation.activity)
-    out = dict(zip(speciation.system.species, values.tolist()))
-    out[WATER] = speciation.log10_water_activity
-    return out
 
 
 def report_lines(speciation: Speciation) -> list[str]:
