@@ -75,7 +75,7 @@ def test_bundled_single_salt_values_match_reference_inputs_section_3():
 def test_fitted_ionic_strength_follows_the_salt_stoichiometry():
     p = bundled_parameters().binary
     assert p["Na+", "Cl-"].max_ionic_strength == 6.0
-    assert p["Ca2+", "Cl-"].max_ionic_strength == pytest.approx(7.5)    # 2.5 m × 3
+    assert p["Ca2+", "Cl-"].max_ionic_strength == pytest.approx(3.0)    # 1 m × 3 (narrowed)
     assert p["Mg2+", "SO4^2-"].max_ionic_strength == pytest.approx(12.0)  # 3 m × 4
     assert p["Na+", "HCO3-"].max_ionic_strength is None
 

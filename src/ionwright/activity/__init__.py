@@ -6,7 +6,7 @@ from ._debye_huckel import ExtendedDebyeHuckelModel, TruesdellJonesModel
 from ._ideal import IdealModel
 from ._pairs import FORMS_EVERY_SPECIES, IonPairSet, LeftOut
 from ._pitzer import PitzerModel
-from ._validity import StatedValidity, ValidityLimit
+from ._validity import StatedValidity, UnparameterisedIonLimit, ValidityLimit
 
 BUILTIN_MODELS = (IdealModel, DaviesModel, ExtendedDebyeHuckelModel, TruesdellJonesModel,
                   PitzerModel)
@@ -14,4 +14,4 @@ BUILTIN_MODELS = (IdealModel, DaviesModel, ExtendedDebyeHuckelModel, TruesdellJo
 __all__ = ["ActivityModel", "BoundModel", "IonicStrengthModel", "SpeciesProperties",
            "BUILTIN_MODELS", "IdealModel", "DaviesModel", "ExtendedDebyeHuckelModel", "TruesdellJonesModel",
            "PitzerModel", "IonPairSet", "LeftOut", "FORMS_EVERY_SPECIES", "ValidityLimit",
-           "StatedValidity"]
+           "UnparameterisedIonLimit", "StatedValidity"]

@@ -86,6 +86,9 @@ class ExtendedDebyeHuckelModel(StatedValidity):
 
 
 class TruesdellJonesModel(StatedValidity):
+    """Truesdell–Jones, with the ranges of :mod:`._measured_ranges`: an ion without a and
+    b of its own is extended Debye–Hückel's, and narrows the range to that model's."""
+
     name = "truesdell-jones"
     title = "Truesdell–Jones (ion size a and linear b per ion)"
     max_ionic_strength = TRUESDELL_JONES_MAX_IONIC_STRENGTH

@@ -9,6 +9,10 @@ ions carry at least :data:`SIGNIFICANT_SHARE` of the ionic strength and, for a l
 that only some temperatures need (``applies_C``), at those temperatures; past it, the
 result warns, naming the model, the kind of solution and the range. Ions are matched by
 formula, so "Ca+2" and "Ca2+" are the same ion.
+
+A model whose parameters are per ion may narrow its range for a solution in which an ion
+without its own parameters is a main ion (:class:`UnparameterisedIonLimit`): that ion
+falls back to a simpler equation, which holds only as far as that equation does.
 """
 
 from __future__ import annotations
@@ -27,14 +31,10 @@ TOLERANCE_PERCENT = 3      # the agreement with measured γ± that a range promi
 
 
 @dataclass(frozen=True)
-class ValidityLimit:
-    """The model holds to *max_ionic_strength* (mol/kg) where *cation* and *anion* are
-    main ions of the solution, at the temperatures *applies_C* (°C, inclusive; all by
-    default); *evidence* names the measurements that set it and *promise* what agreement
-    the range stands for."""
+class RangeLimit:
+    """What every narrowed range has: the ionic strength it holds to, the evidence, the
+    temperatures it applies at and the agreement it promises."""
 
-    cation: str
-    anion: str
     max_ionic_strength: float
     evidence: str
     applies_C: tuple[float, float] = (-50.0, 400.0)
@@ -42,7 +42,13 @@ class ValidityLimit:
 
     @property
     def label(self) -> str:
-        return f"{self.cation} with {self.anion}"
+        """The kind of solution, as the plural subject of "... are main ions"."""
+        raise NotImplementedError
+
+    def main_ions(self, properties, share: np.ndarray, strength: np.ndarray) -> np.ndarray:
+        """(n,) booleans: the kind of solution the limit is about, from the species
+        *properties* and each species' *share* (n, s) of the ionic *strength* (n,)."""
+        raise NotImplementedError
 
     @property
     def temperatures(self) -> str:
@@ -55,30 +61,86 @@ class ValidityLimit:
         return (self.applies_C[0] <= t_C) & (t_C <= self.applies_C[1])
 
 
+@dataclass(frozen=True)
+class ValidityLimit(RangeLimit):
+    """The model holds to *max_ionic_strength* (mol/kg) where *cation* and *anion* are
+    main ions of the solution, at the temperatures *applies_C* (°C, inclusive; all by
+    default); *evidence* names the measurements that set it and *promise* what agreement
+    the range stands for."""
+
+    cation: str = ""
+    anion: str = ""
+
+    def __init__(self, cation: str, anion: str, max_ionic_strength: float, evidence: str,
+                 applies_C: tuple[float, float] = (-50.0, 400.0),
+                 promise: str = RangeLimit.promise) -> None:
+        super().__init__(max_ionic_strength, evidence, applies_C, promise)
+        object.__setattr__(self, "cation", cation)
+        object.__setattr__(self, "anion", anion)
+
+    @property
+    def label(self) -> str:
+        return f"{self.cation} with {self.anion}"
+
+    def main_ions(self, properties, share: np.ndarray, strength: np.ndarray) -> np.ndarray:
+        cation = _position(tuple(properties.names), self.cation)
+        anion = _position(tuple(properties.names), self.anion)
+        if cation is None or anion is None:
+            return np.zeros(share.shape[0], dtype=bool)
+        return np.minimum(share[:, cation], share[:, anion]) >= SIGNIFICANT_SHARE * strength
+
+
+@dataclass(frozen=True)
+class UnparameterisedIonLimit(RangeLimit):
+    """The model holds to *max_ionic_strength* where an ion lacking any of the model's
+    per-ion *parameters* (fields of
+    :class:`~ionwright.activity._base.SpeciesProperties`, NaN where unknown) is a main
+    ion; *kind* names such ions in words ("ions without Truesdell–Jones a and b")."""
+
+    parameters: tuple[str, ...] = ()
+    kind: str = ""
+
+    @property
+    def label(self) -> str:
+        return self.kind
+
+    def main_ions(self, properties, share: np.ndarray, strength: np.ndarray) -> np.ndarray:
+        main = share >= SIGNIFICANT_SHARE * strength[:, None]
+        return np.any(main & self._lacking(properties)[None, :], axis=1)
+
+    def ions(self, properties, molality: np.ndarray) -> list[str]:
+        """The main ions of one composition *molality* (s,) that lack the parameters."""
+        share = 0.5 * np.asarray(molality, dtype=float) * np.asarray(properties.charge) ** 2
+        main = self._lacking(properties) & (share >= SIGNIFICANT_SHARE * share.sum())
+        return [n for n, hit in zip(properties.names, main) if hit]
+
+    def _lacking(self, properties) -> np.ndarray:
+        """(s,) booleans: charged species without one of the parameters."""
+        lacking = np.zeros(len(properties.names), dtype=bool)
+        for name in self.parameters:
+            lacking |= np.isnan(np.asarray(getattr(properties, name), dtype=float))
+        return lacking & (np.asarray(properties.charge) != 0)
+
+
 def within(ionic_strength: float | np.ndarray, limit: float) -> bool | np.ndarray:
     """Whether *ionic_strength* (one or many) is within *limit* (with
     :data:`RANGE_TOLERANCE`)."""
     return ionic_strength <= limit * (1.0 + RANGE_TOLERANCE)
 
 
-def exceeded_rows(limits, names, charges, molality: np.ndarray,
+def exceeded_rows(limits, properties, molality: np.ndarray,
                   t_C: float | np.ndarray | None = None) -> np.ndarray:
-    """(n, r) booleans: sample n has both ions of limit r as main ions and an ionic
-    strength past it, at a temperature the limit applies at. *molality* is (n, s) over
-    the species *names* with *charges*; *t_C* is one temperature or (n,) of them (None:
-    every limit applies)."""
+    """(n, r) booleans: sample n is of the kind of solution limit r is about and at an
+    ionic strength past it, at a temperature the limit applies at. *molality* is (n, s)
+    over the species of *properties* (their names, charges and per-ion parameters); *t_C*
+    is one temperature or (n,) of them (None: every limit applies)."""
     molality = np.atleast_2d(np.asarray(molality, dtype=float))
-    charges = np.asarray(charges, dtype=float)
-    share = 0.5 * molality * charges ** 2
+    share = 0.5 * molality * np.asarray(properties.charge, dtype=float) ** 2
     strength = share.sum(axis=1)
     out = np.zeros((molality.shape[0], len(limits)), dtype=bool)
     for r, limit in enumerate(limits):
-        cation = _position(tuple(names), limit.cation)
-        anion = _position(tuple(names), limit.anion)
-        if cation is None or anion is None:
-            continue
-        main = np.minimum(share[:, cation], share[:, anion]) >= SIGNIFICANT_SHARE * strength
-        out[:, r] = main & (strength > limit.max_ionic_strength * (1.0 + RANGE_TOLERANCE))
+        out[:, r] = (limit.main_ions(properties, share, strength)
+                     & (strength > limit.max_ionic_strength * (1.0 + RANGE_TOLERANCE)))
         if t_C is not None:
             out[:, r] &= limit.applies(np.asarray(t_C, dtype=float))
     return out
@@ -103,16 +165,16 @@ def _formula(name: str):
 
 
 class StatedValidity:
-    """Mixin for models with a ``validity`` tuple of :class:`ValidityLimit`: the
+    """Mixin for models with a ``validity`` tuple of :class:`RangeLimit` (for a salt or for
+    ions without the model's parameters): the
     ``validity_notes`` and ``beyond_fitted_range`` checks results and comparisons call."""
 
     name: str
-    validity: tuple[ValidityLimit, ...] = ()
+    validity: tuple[RangeLimit, ...] = ()
 
-    def _exceeded(self, species, molality, t_C) -> tuple[list[ValidityLimit], float]:
+    def _exceeded(self, species, molality, t_C) -> tuple[list[RangeLimit], float]:
         molality = np.asarray(molality, dtype=float)
-        flags = exceeded_rows(self.validity, species.names, species.charge, molality,
-                              t_C)[0]
+        flags = exceeded_rows(self.validity, species, molality, t_C)[0]
         strength = float(0.5 * np.sum(molality * species.charge ** 2))
         return [limit for limit, hit in zip(self.validity, flags) if hit], strength
 
@@ -120,19 +182,28 @@ class StatedValidity:
         """Kinds of solution this composition (at *t_C* °C; None: any temperature) is,
         past the range the model holds to."""
         hits, _ = self._exceeded(species, molality, t_C)
-        return [f"{h.label}{h.temperatures} (within {h.promise} only to I ≈ "
+        return [f"{_named(h, species, molality)}{h.temperatures} (within {h.promise} only to I ≈ "
                 f"{h.max_ionic_strength:g})" for h in hits]
 
     def validity_notes(self, species, molality, t_C: float | None = None) -> list[str]:
         """A warning for each kind of solution this composition (at *t_C* °C) is past
         the range of."""
         hits, strength = self._exceeded(species, molality, t_C)
-        return [validity_message(self.name, h, strength) for h in hits]
+        return [validity_message(self.name, h, strength, _named(h, species, molality))
+                for h in hits]
 
 
-def validity_message(model: str, limit: ValidityLimit, strength: float) -> str:
-    """The warning for a solution at ionic strength *strength* past *limit*."""
-    return (f"{model}: where {limit.label} are main ions{limit.temperatures}, the model is "
+def _named(limit: RangeLimit, species, molality) -> str:
+    """The kind of solution of *limit* with the ions that make it so, where that varies."""
+    if isinstance(limit, UnparameterisedIonLimit):
+        return f"{limit.label} ({', '.join(limit.ions(species, molality))})"
+    return limit.label
+
+
+def validity_message(model: str, limit: RangeLimit, strength: float, label: str = "") -> str:
+    """The warning for a solution at ionic strength *strength* past *limit* (*label*:
+    its kind of solution in words, by default the limit's own)."""
+    return (f"{model}: where {label or limit.label} are main ions{limit.temperatures}, the model is "
             f"within {limit.promise} only up to "
             f"I ≈ {limit.max_ionic_strength:g} mol/kg ({limit.evidence}); this solution "
             f"is at I = {strength:.3g} mol/kg: treat activity coefficients and pH as "

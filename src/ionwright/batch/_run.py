@@ -735,7 +735,7 @@ def _notes(system: ChemicalSystem, model, ph: np.ndarray, ionic: np.ndarray, t: 
     flags += [ok & beyond_model_range(model, ionic) & ~far, ok & far]
     limits = getattr(model, "validity", ())
     if limits:
-        hits = exceeded_rows(limits, system.species, system.charge, molality, t)
+        hits = exceeded_rows(limits, system.properties, molality, t)
         for r, rule in enumerate(limits):
             texts.append(f"{model.name}: within {rule.promise} only to I ≈ "
                          f"{rule.max_ionic_strength:g} mol/kg where {rule.label} are main "
