@@ -76,3 +76,28 @@ def apparent_borate_pk(model: str) -> float:
 def test_apparent_borate_pk_in_seawater(model):
     """Within 0.05 of Dickson (1990); extended Debye–Hückel (to I = 0.1) is out of range."""
     assert apparent_borate_pk(model) == pytest.approx(DICKSON_1990_PK, abs=0.05)
+
+
+#: ISO 5814 (EN 25814) oxygen table (re-read as printed in a dissolved-oxygen probe
+#: manual): °C → (mg/L in air-saturated fresh water, mg/L less per g/kg of sea salt)
+ISO_5814 = {5.0: (12.8, 0.0739), 15.0: (10.1, 0.0545), 25.0: (8.26, 0.0421),
+            30.0: (7.56, 0.0371)}
+SEA_SALT_G_PER_KG = 35.0
+SEAWATER_IONIC_STRENGTH = 0.7227   # S = 35: 19.924 S / (1000 − 1.005 S)  # from memory
+
+
+@pytest.mark.parametrize("t_C", list(ISO_5814))
+@pytest.mark.parametrize("model", ["davies", "truesdell-jones"])
+def test_o2_is_salted_out_as_the_iso_table_says(model, t_C):
+    """Dissolved O2 at the same O2 pressure, fresh over salt water of seawater's ionic
+    strength, against ISO 5814's fresh / salt solubilities (±3 %)."""
+    def dissolved(nacl):
+        recipe = {"activity_model": model, "temperature_C": t_C,
+                  "gases": {"O2": "0.2095 atm"}, "fix": {"pH": 8.0}}
+        if nacl:
+            recipe["dissolve"] = {"NaCl": nacl}
+        return ionwright.solve(recipe).species_molality("O2")
+    fresh, per_g = ISO_5814[t_C]
+    expected = fresh / (fresh - per_g * SEA_SALT_G_PER_KG)
+    assert dissolved(0.0) / dissolved(SEAWATER_IONIC_STRENGTH) == pytest.approx(expected,
+                                                                                 rel=0.03)

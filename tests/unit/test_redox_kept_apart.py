@@ -105,3 +105,29 @@ def test_batch_rows_give_the_pe_each_couple_implies_as_the_single_solve_does():
             else:
                 assert pd.isna(cell)
     assert pd.isna(out[batch.couple_pe_column("NO3-/NH3")][2])
+
+
+def test_percent_saturation_is_the_pressure_share_in_salt_water_too():
+    """'95 %' held in water of seawater's ionic strength comes back as 95 % (a probe's
+    reading), though O2 is salted out there and the water holds less of it."""
+    salt = ionwright.solve({"dissolve": {"NaCl": 0.72},
+                            "fix": {"pH": 8.1, "dissolved_oxygen": "95 %"}})
+    fresh = ionwright.solve({"dissolve": {"NaCl": 0.001},
+                             "fix": {"pH": 8.1, "dissolved_oxygen": "95 %"}})
+    for result in (salt, fresh):
+        # 1e-3: the O2(g) constant and the Benson & Krause saturation agree to 0.03 %
+        assert result.redox["oxygen_saturation_percent"] == pytest.approx(95.0, rel=1e-3)
+    assert salt.species_molality("O2") < 0.85 * fresh.species_molality("O2")
+    assert not [n for n in salt.notices if n.code == "dissolved-oxygen-salted-out"]
+
+
+def test_milligrams_per_litre_in_salt_water_say_what_the_water_holds():
+    salt = ionwright.solve({"dissolve": {"NaCl": 0.72},
+                            "fix": {"pH": 8.1, "dissolved_oxygen": "6.8 mg/L"}})
+    (notice,) = [n for n in salt.notices if n.code == "dissolved-oxygen-salted-out"]
+    assert notice.data["held_mg_per_L"] == pytest.approx(6.8 / notice.data["gamma_O2"],
+                                                         rel=1e-3)
+    assert "% of saturation" in notice.text
+    fresh = ionwright.solve({"dissolve": {"NaCl": 0.001},
+                             "fix": {"pH": 8.1, "dissolved_oxygen": "6.8 mg/L"}})
+    assert not [n for n in fresh.notices if n.code == "dissolved-oxygen-salted-out"]

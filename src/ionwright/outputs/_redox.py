@@ -26,12 +26,15 @@ from ..chemistry._redox import ELECTRON, couple_forms, eh_from_pe, linked_couple
 from ..chemistry._water import density
 from ..chemistry._tableset import TableSet
 from ..core._system import PROTON, WATER, ChemicalSystem, log10_k_at
+from ..notices import INPUT, Notice
 from ._speciation import Speciation
 
 OXYGEN = "O2"
 #: Free molality below which a form of a couple is taken as absent (its activity is then
 #: set by the solver's floor, not by the water)  # common practice: below any analysis
 ABSENT_MOLALITY = 1e-15
+#: |γ(O2) − 1| beyond which a dissolved oxygen stated in mg/L gets a notice  # common practice
+SALTING_NOTICE = 0.01
 
 
 def pe_of(speciation: Speciation) -> float | None:
@@ -122,14 +125,41 @@ def state_weights(system: ChemicalSystem, tables: TableSet, component: str) -> n
 
 
 def oxygen_saturation_percent(speciation: Speciation) -> float | None:
-    """Dissolved O2 as % of saturation with air at the sample's temperature (fresh water,
-    1 atm; None when the sample has no O2 species)."""
+    """Dissolved O2 as % of saturation with air at the sample's temperature and 1 atm
+    (None when the sample has no O2 species): the O2 activity over that of air-saturated
+    fresh water, i.e. the O2 pressure the water holds as a share of air's, which is what
+    a salinity-compensated probe reads in salt water too."""
     if OXYGEN not in speciation.system.species:
         return None
-    t = speciation.temperature_C
-    mg_per_L = speciation.species_molality(OXYGEN) * O2_MOLAR_MASS_G * 1000.0 \
-        * float(density(t)) / 1000.0
-    return float(100.0 * mg_per_L / float(saturation_mg_per_L(t)))
+    return 100.0 * speciation.species_activity(OXYGEN) / _fresh_saturation_molality(
+        speciation.temperature_C)
+
+
+def _fresh_saturation_molality(t_C: float) -> float:
+    """O2 mol/kg water in fresh water saturated with air at 1 atm (Benson & Krause 1984)."""
+    kg_per_L = float(density(t_C)) / 1000.0     # water, kg/m³ → kg/L
+    return float(saturation_mg_per_L(t_C)) / (O2_MOLAR_MASS_G * 1000.0 * kg_per_L)
+
+
+def salted_oxygen_notice(speciation: Speciation) -> list[Notice]:
+    """A notice when a dissolved oxygen stated in mg/L was held at a salinity that salts
+    O2 out: the level holds the O2 pressure that dissolves that much in fresh water, so
+    the solution holds less."""
+    stated = speciation.recipe.redox_level
+    if not (stated.startswith("dissolved oxygen") and "mg/L" in stated) \
+            or OXYGEN not in speciation.system.species:
+        return []
+    gamma = speciation.species_activity(OXYGEN) / speciation.species_molality(OXYGEN)
+    if abs(gamma - 1.0) <= SALTING_NOTICE:
+        return []
+    held = speciation.species_molality(OXYGEN) * O2_MOLAR_MASS_G * 1000.0 \
+        * float(density(speciation.temperature_C)) / 1000.0     # mg per L of water
+    return [Notice(INPUT, "dissolved-oxygen-salted-out", (
+        f"INPUT: {stated} was held as the O2 pressure that dissolves that much in fresh "
+        f"water; at this ionic strength O2 is salted out (γ(O2) = {gamma:.3g}), so the "
+        f"solution holds {held:.3g} mg/L; for salt water give the dissolved oxygen as % of "
+        "saturation (what a salinity-compensated probe reads)"),
+        {"gamma_O2": gamma, "held_mg_per_L": held})]
 
 
 def redox_summary(speciation: Speciation) -> dict[str, Any]:
@@ -163,5 +193,5 @@ def report_lines(speciation: Speciation) -> list[str]:
     saturation = summary["oxygen_saturation_percent"]
     if saturation is not None:
         shown = f"{saturation:.3g} %" if saturation >= 0.01 else "below 0.01 %"
-        lines.append(f"  dissolved O2       {shown} of saturation with air (fresh water, 1 atm)")
+        lines.append(f"  dissolved O2       {shown} of saturation with air (1 atm)")
     return ["", "redox level", *lines] if lines else []

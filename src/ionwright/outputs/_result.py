@@ -19,7 +19,7 @@ from ._phase_report import phase_summary
 from ..inputs._mixing import Solution
 from ..inputs._recipe import solution_of
 from ._provenance import constants_used, ion_pairs, override_warnings
-from ._redox import redox_summary
+from ._redox import redox_summary, salted_oxygen_notice
 from ._speciation import Speciation
 from ._supersaturation import supersaturation_warnings
 from ._uncertainty import (ResultUncertainty, near_corrosive_notice, result_uncertainty,
@@ -108,6 +108,7 @@ class Result(Speciation):
         out.extend(model_validity_notes(self))
         out.extend(wrap(supersaturation_warnings(self), VALIDITY, "supersaturated"))
         out.extend(self.recipe.redox_notices)
+        out.extend(salted_oxygen_notice(self))
         out.extend(self._held_imbalance())
         out.extend(override_warnings(self))
         out.extend(cautions(self))
